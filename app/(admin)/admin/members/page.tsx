@@ -1,0 +1,30 @@
+import { PageTitle } from "@/features/shared/components/ui";
+import { MembersTable } from "@/features/members/components/members-table";
+import { getRoleChangesByUserId } from "@/features/members/server";
+
+export const metadata = { title: "Members" };
+
+export default async function MembersPage() {
+  const changes = await getRoleChangesByUserId(undefined, 20);
+  return (
+    <div className="grid gap-8">
+      <PageTitle lead="Change a role with its menu; the change takes effect at once and is recorded below.">Members and roles</PageTitle>
+      <MembersTable />
+      <section>
+        <h2 className="mb-2 text-xl font-bold text-peat-900">Recent role changes</h2>
+        {changes.length === 0 ? (
+          <p className="text-peat-700">No role has been changed yet.</p>
+        ) : (
+          <ul className="grid gap-1">
+            {changes.map((c) => (
+              <li key={c.id}>
+                <time dateTime={c.at}>{new Date(c.at).toLocaleString("en-GB")}</time>: {c.actorName ?? "someone"} changed{" "}
+                <strong>{c.memberName}</strong> from {c.fromRole} to {c.toRole}.
+              </li>
+            ))}
+          </ul>
+        )}
+      </section>
+    </div>
+  );
+}

@@ -1,0 +1,12 @@
+import Link from "next/link";
+
+export const metadata = { title: "Not allowed" };
+
+export default function ForbiddenPage() {
+  return (
+    <div className="max-w-xl">
+      <h1 className="text-3xl font-bold text-peat-900">Not for your role</h1>
+      <p className="mt-3">This page is for club moderators or officers. If you think you should have access, ask a club officer. <Link href="/">Back to the start</Link>.</p>
+    </div>
+  );
+}

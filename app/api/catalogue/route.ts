@@ -1,0 +1,6 @@
+import { getCatalogue } from "@/features/catalogue/server";
+import { json, route } from "@/features/shared/server/http";
+
+export const dynamic = "force-dynamic";
+
+export const GET = route(async () => json(await getCatalogue()));

@@ -1,0 +1,11 @@
+import { sql } from "drizzle-orm";
+import { getDb, getDbKind } from "@/db/client";
+import { json, route } from "@/features/shared/server/http";
+
+export const dynamic = "force-dynamic";
+
+export const GET = route(async () => {
+  const db = await getDb();
+  await db.execute(sql`select 1`);
+  return json({ status: "ok", database: await getDbKind() });
+});

@@ -1,0 +1,39 @@
+import type { Metadata } from "next";
+import type { ReactNode } from "react";
+import { connection } from "next/server";
+import "./globals.css";
+import { bodyFont, displayFont } from "./fonts";
+import { SiteHeader } from "./_components/site-header";
+import { QueryProvider } from "@/features/shared/components/query-provider";
+import { ANECDOTAL_NOTICE } from "@/features/shared/components/ui";
+import { getPageActor } from "@/features/members/server";
+import { getClubSettings } from "@/features/catalogue/server";
+
+export const metadata: Metadata = {
+  title: { default: "Tanklore", template: "%s · Tanklore" },
+  description: "A fishkeeping club's moderated registry of treatment outcomes, with evidence summaries and a dose planner.",
+};
+
+export default async function RootLayout({ children }: { children: ReactNode }) {
+  // Every page reads the session and the club's name: render per request, never at build time.
+  await connection();
+  const [actor, club] = await Promise.all([getPageActor(), getClubSettings()]);
+  return (
+    <html lang="en" className={`${bodyFont.variable} ${displayFont.variable}`}>
+      <body className="min-h-screen bg-paper font-sans text-ink antialiased">
+        <QueryProvider>
+          <SiteHeader actor={actor} clubName={club.name} />
+          <main id="main" className="mx-auto max-w-6xl px-4 py-8">
+            {children}
+          </main>
+          <footer className="mx-auto max-w-6xl border-t border-peat-100 px-4 py-6 text-sm text-peat-700">
+            <p>{ANECDOTAL_NOTICE}</p>
+            <p className="mt-2">
+              Defer to an aquatic veterinarian and to local rules on animal medicines and on disposing of treated water.
+            </p>
+          </footer>
+        </QueryProvider>
+      </body>
+    </html>
+  );
+}

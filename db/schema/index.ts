@@ -1,0 +1,4 @@
+export * from "./auth";
+export * from "./club";
+export * from "./catalogue";
+export * from "./reports";

@@ -1,0 +1,163 @@
+import {
+  boolean,
+  date,
+  doublePrecision,
+  index,
+  integer,
+  jsonb,
+  pgTable,
+  serial,
+  text,
+  timestamp,
+} from "drizzle-orm/pg-core";
+import { users } from "./auth";
+import { agents, conditions, species, speciesGroups } from "./catalogue";
+
+export const reportStatuses = ["draft", "awaiting_review", "accepted", "returned", "declined", "retracted"] as const;
+export type ReportStatus = (typeof reportStatuses)[number];
+
+/**
+ * One treatment course in one tank. Drafts may be incomplete, so most fields are nullable;
+ * the submit rules (features/reports/schemas.ts) decide what a complete report needs.
+ */
+export const reports = pgTable(
+  "reports",
+  {
+    id: text().primaryKey(),
+    authorId: text()
+      .notNull()
+      .references(() => users.id, { onDelete: "restrict" }),
+    status: text().$type<ReportStatus>().notNull().default("draft"),
+    /** "member" (filed here), "import" (CSV) or "demo" (invented demo data). */
+    source: text().notNull().default("member"),
+
+    speciesId: text().references(() => species.id, { onUpdate: "cascade" }),
+    speciesOther: text(),
+    /** The species' group when the report was filed or mapped; what summaries group by. */
+    groupSlug: text().references(() => speciesGroups.slug, { onUpdate: "cascade" }),
+    fishCount: integer(),
+    sizeClass: text(),
+    conditionSlug: text().references(() => conditions.slug, { onUpdate: "cascade" }),
+    startedOn: date({ mode: "string" }),
+
+    waterVolume: doublePrecision(),
+    waterVolumeUnit: text(),
+    /** Computed from volume and unit. */
+    volumeL: doublePrecision(),
+    temperature: doublePrecision(),
+    temperatureUnit: text(),
+    temperatureC: doublePrecision(),
+    ph: doublePrecision(),
+    setting: text(),
+
+    agentSlug: text().references(() => agents.slug, { onUpdate: "cascade" }),
+    stockPercent: doublePrecision(),
+    stockBasis: text(),
+    stockDensityGPerMl: doublePrecision(),
+    stockActiveFraction: doublePrecision(),
+    amountMl: doublePrecision(),
+    statedConcentration: doublePrecision(),
+    doses: integer(),
+    intervalHours: doublePrecision(),
+    otherTreatments: text(),
+
+    fishLost: integer(),
+    lossCause: text(),
+    distress: text(),
+    conditionOutcome: text(),
+    observedDaysAfter: integer(),
+    notes: text(),
+    showName: boolean().notNull().default(false),
+
+    /** Peak single-dose concentration in the agent's unit, computed by the server. */
+    concentration: doublePrecision(),
+    /** Plausibility flags computed at submission: [{ code, message }]. */
+    flags: jsonb().$type<{ code: string; message: string }[]>().notNull().default([]),
+    completeness: doublePrecision(),
+    /** A course still being logged (doses and observations), outcome not yet known. */
+    courseOpen: boolean().notNull().default(false),
+
+    createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+    submittedAt: timestamp({ withTimezone: true }),
+    decidedAt: timestamp({ withTimezone: true }),
+  },
+  (t) => [
+    index("reports_author_idx").on(t.authorId),
+    index("reports_status_idx").on(t.status),
+    index("reports_evidence_idx").on(t.agentSlug, t.groupSlug, t.status),
+  ],
+);
+
+/** The audit trail: every transition and correction. Append-only; no code path updates or deletes it. */
+export const reportEvents = pgTable(
+  "report_events",
+  {
+    id: serial().primaryKey(),
+    reportId: text()
+      .notNull()
+      .references(() => reports.id, { onDelete: "cascade" }),
+    actorId: text().references(() => users.id, { onDelete: "set null" }),
+    action: text().notNull(),
+    fromStatus: text(),
+    toStatus: text(),
+    note: text(),
+    at: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("report_events_report_idx").on(t.reportId)],
+);
+
+/** Entries of an open course: doses given and observations made, each with its time. */
+export const courseEntries = pgTable(
+  "course_entries",
+  {
+    id: serial().primaryKey(),
+    reportId: text()
+      .notNull()
+      .references(() => reports.id, { onDelete: "cascade" }),
+    kind: text().$type<"dose" | "observation">().notNull(),
+    at: timestamp({ withTimezone: true }).notNull(),
+    amountMl: doublePrecision(),
+    text: text(),
+    photoId: text(),
+    createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("course_entries_report_idx").on(t.reportId)],
+);
+
+/** Due reminders (next dose, next check); kept in the database so they survive restarts. */
+export const reminders = pgTable(
+  "reminders",
+  {
+    id: serial().primaryKey(),
+    reportId: text()
+      .notNull()
+      .references(() => reports.id, { onDelete: "cascade" }),
+    userId: text()
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    kind: text().notNull(),
+    dueAt: timestamp({ withTimezone: true }).notNull(),
+    sentAt: timestamp({ withTimezone: true }),
+  },
+  (t) => [index("reminders_due_idx").on(t.dueAt)],
+);
+
+export const photos = pgTable(
+  "photos",
+  {
+    id: text().primaryKey(),
+    reportId: text()
+      .notNull()
+      .references(() => reports.id, { onDelete: "cascade" }),
+    uploaderId: text().references(() => users.id, { onDelete: "set null" }),
+    stage: text().notNull().default("during"),
+    width: integer().notNull(),
+    height: integer().notNull(),
+    bytes: integer().notNull(),
+    fullKey: text().notNull(),
+    thumbKey: text().notNull(),
+    createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("photos_report_idx").on(t.reportId)],
+);

@@ -1,0 +1,3 @@
+export { getCatalogue } from "./queries";
+export { seedCatalogue, speciesIdOf } from "./seed";
+export { getClubSettings, type ClubSettings } from "./club";

@@ -1,0 +1,1 @@
+export type { OutgoingMail, StoredMail } from "./server/mailer";

@@ -1,0 +1,2 @@
+export { sendMail, listCaughtMail, readCaughtMail, mailDir } from "./mailer";
+export { verificationMail, resetMail } from "./templates";

@@ -1,0 +1,219 @@
+"use client";
+
+import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import {
+  createColumnHelper,
+  rowPaginationFeature,
+  rowSortingFeature,
+  tableFeatures,
+  useTable,
+  type PaginationState,
+  type SortingState,
+} from "@tanstack/react-table";
+import { useDeferredValue, useId, useState } from "react";
+import { ApiError, fetchJson } from "@/features/shared/fetch-json";
+import { Select, TextInput } from "@/features/shared/components/ui";
+import { roles, type Role } from "@/features/shared/roles";
+import { memberKeys, membersQuery } from "../api/queries";
+import type { Member } from "../schemas";
+
+const features = tableFeatures({ rowSortingFeature, rowPaginationFeature });
+const helper = createColumnHelper<typeof features, Member>();
+const emptyRows: Member[] = [];
+
+function RoleSelect({ member }: { member: Member }) {
+  const client = useQueryClient();
+  const [error, setError] = useState<string | null>(null);
+  const change = useMutation({
+    mutationFn: (role: Role) => fetchJson(`/api/admin/members/${member.id}`, { method: "PATCH", body: JSON.stringify({ role }) }),
+    onSuccess: () => {
+      setError(null);
+      return client.invalidateQueries({ queryKey: memberKeys.all });
+    },
+    onError: (err) => setError(err instanceof ApiError ? err.message : "The role could not be changed."),
+  });
+  return (
+    <div>
+      <Select
+        aria-label={`Role of ${member.name}`}
+        value={member.role}
+        disabled={change.isPending}
+        onChange={(e) => change.mutate(e.target.value as Role)}
+      >
+        {roles.map((r) => (
+          <option key={r} value={r}>
+            {r}
+          </option>
+        ))}
+      </Select>
+      {error ? (
+        <p role="alert" className="mt-1 text-sm text-alarm-700">
+          {error}
+        </p>
+      ) : null}
+    </div>
+  );
+}
+
+const columns = helper.columns([
+  helper.accessor("name", { header: "Name", cell: (c) => c.getValue() }),
+  helper.accessor("email", { header: "E-mail", cell: (c) => c.getValue() }),
+  helper.accessor("role", { header: "Role", cell: (c) => <RoleSelect member={c.row.original} /> }),
+  helper.accessor("emailVerified", {
+    header: "Address confirmed",
+    enableSorting: false,
+    cell: (c) => (c.getValue() ? "yes" : "not yet"),
+  }),
+  helper.accessor("createdAt", {
+    header: "Joined",
+    cell: (c) => new Date(c.getValue()).toLocaleDateString("en-GB", { year: "numeric", month: "short", day: "numeric" }),
+  }),
+]);
+
+export function MembersTable() {
+  const id = useId();
+  const [q, setQ] = useState("");
+  const [role, setRole] = useState("");
+  const [sorting, setSorting] = useState<SortingState>([{ id: "name", desc: false }]);
+  const [pagination, setPagination] = useState<PaginationState>({ pageIndex: 0, pageSize: 20 });
+  const deferredQ = useDeferredValue(q);
+  const sort = sorting[0];
+  const query = useQuery(
+    membersQuery({
+      q: deferredQ.trim(),
+      role,
+      sort: sort?.id ?? "name",
+      dir: sort?.desc ? "desc" : "asc",
+      page: pagination.pageIndex + 1,
+      pageSize: pagination.pageSize,
+    }),
+  );
+  const table = useTable({
+    features,
+    columns,
+    data: query.data?.members ?? emptyRows,
+    rowCount: query.data?.total ?? 0,
+    state: { sorting, pagination },
+    onSortingChange: (u) => {
+      setSorting(u);
+      setPagination((p) => ({ ...p, pageIndex: 0 }));
+    },
+    onPaginationChange: setPagination,
+    manualSorting: true,
+    manualPagination: true,
+    enableMultiSort: false,
+    getRowId: (row) => row.id,
+  });
+  const total = query.data?.total ?? 0;
+  const pages = Math.max(1, Math.ceil(total / pagination.pageSize));
+  return (
+    <div className="grid gap-4">
+      <div className="flex flex-wrap items-end gap-4" role="search">
+        <div className="flex flex-col gap-1">
+          <label htmlFor={`${id}-q`} className="font-bold">
+            Find a member
+          </label>
+          <TextInput
+            id={`${id}-q`}
+            value={q}
+            placeholder="Name or e-mail"
+            onChange={(e) => {
+              setQ(e.target.value);
+              setPagination((p) => ({ ...p, pageIndex: 0 }));
+            }}
+          />
+        </div>
+        <div className="flex flex-col gap-1">
+          <label htmlFor={`${id}-role`} className="font-bold">
+            Role
+          </label>
+          <Select
+            id={`${id}-role`}
+            value={role}
+            onChange={(e) => {
+              setRole(e.target.value);
+              setPagination((p) => ({ ...p, pageIndex: 0 }));
+            }}
+          >
+            <option value="">Any role</option>
+            {roles.map((r) => (
+              <option key={r} value={r}>
+                {r}
+              </option>
+            ))}
+          </Select>
+        </div>
+        <p className="text-sm text-peat-700" aria-live="polite">
+          {query.isFetching ? "Loading…" : `${total} member${total === 1 ? "" : "s"}`}
+        </p>
+      </div>
+      {query.isError ? (
+        <p role="alert" className="font-bold text-alarm-700">
+          {query.error instanceof ApiError ? query.error.message : "The member list could not be loaded."}
+        </p>
+      ) : null}
+      <div className="overflow-x-auto rounded-lg border border-peat-100 bg-white">
+        <table className="w-full text-left">
+          <caption className="sr-only">Club members, sortable by column</caption>
+          <thead className="bg-peat-50">
+            {table.getHeaderGroups().map((group) => (
+              <tr key={group.id}>
+                {group.headers.map((header) => {
+                  const sorted = header.column.getIsSorted();
+                  const canSort = header.column.getCanSort();
+                  return (
+                    <th
+                      key={header.id}
+                      scope="col"
+                      className="px-3 py-2"
+                      aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : canSort ? "none" : undefined}
+                    >
+                      {canSort ? (
+                        <button type="button" className="font-bold" onClick={header.column.getToggleSortingHandler()}>
+                          <table.FlexRender header={header} />
+                          <span aria-hidden="true">{sorted === "asc" ? " ▲" : sorted === "desc" ? " ▼" : ""}</span>
+                        </button>
+                      ) : (
+                        <table.FlexRender header={header} />
+                      )}
+                    </th>
+                  );
+                })}
+              </tr>
+            ))}
+          </thead>
+          <tbody>
+            {table.getRowModel().rows.length === 0 ? (
+              <tr>
+                <td colSpan={columns.length} className="px-3 py-6 text-center text-peat-700">
+                  {query.isPending ? "Loading members…" : "No member matches."}
+                </td>
+              </tr>
+            ) : (
+              table.getRowModel().rows.map((row) => (
+                <tr key={row.id} className="border-t border-peat-100">
+                  {row.getAllCells().map((cell) => (
+                    <td key={cell.id} className="px-3 py-2 align-top">
+                      <table.FlexRender cell={cell} />
+                    </td>
+                  ))}
+                </tr>
+              ))
+            )}
+          </tbody>
+        </table>
+      </div>
+      <nav aria-label="Member list pages" className="flex items-center gap-3">
+        <button type="button" className="rounded border border-peat-300 px-3 py-1 disabled:opacity-40" disabled={!table.getCanPreviousPage()} onClick={() => table.previousPage()}>
+          Previous
+        </button>
+        <span>
+          Page {pagination.pageIndex + 1} of {pages}
+        </span>
+        <button type="button" className="rounded border border-peat-300 px-3 py-1 disabled:opacity-40" disabled={!table.getCanNextPage()} onClick={() => table.nextPage()}>
+          Next
+        </button>
+      </nav>
+    </div>
+  );
+}

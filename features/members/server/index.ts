@@ -1,0 +1,5 @@
+export { getAuth, authSecret } from "./auth";
+export { getActor, requireActor, assertRole } from "./session";
+export { getMembers, getMemberById, getRoleChangesByUserId } from "./queries";
+export { changeMemberRole } from "./mutations";
+export { getPageActor, requirePageRole } from "./page-session";

@@ -1,0 +1,72 @@
+import { and, asc, count, desc, eq, ilike, or, type SQL } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { getDb, schema } from "@/db/client";
+import type { ListMembersQuery, Member, MemberList } from "../schemas";
+import { isRole } from "@/features/shared/roles";
+
+const { users, roleChanges } = schema;
+
+function toMember(u: typeof users.$inferSelect): Member {
+  return {
+    id: u.id,
+    name: u.name,
+    email: u.email,
+    role: isRole(u.role) ? u.role : "member",
+    emailVerified: u.emailVerified,
+    isDemo: u.isDemo,
+    createdAt: u.createdAt.toISOString(),
+  };
+}
+
+export async function getMembers(q: ListMembersQuery): Promise<MemberList> {
+  const db = await getDb();
+  const where: SQL[] = [];
+  if (q.q) {
+    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    where.push(or(ilike(users.name, like), ilike(users.email, like))!);
+  }
+  if (q.role) where.push(eq(users.role, q.role));
+  const cond = where.length ? and(...where) : undefined;
+  const column = { name: users.name, email: users.email, role: users.role, createdAt: users.createdAt }[q.sort];
+  const order = q.dir === "desc" ? desc(column) : asc(column);
+  const [rows, [total]] = await Promise.all([
+    db
+      .select()
+      .from(users)
+      .where(cond)
+      .orderBy(order, asc(users.id))
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize),
+    db.select({ n: count() }).from(users).where(cond),
+  ]);
+  return { members: rows.map(toMember), total: total?.n ?? 0, page: q.page, pageSize: q.pageSize };
+}
+
+export async function getMemberById(id: string): Promise<Member | null> {
+  const db = await getDb();
+  const [row] = await db.select().from(users).where(eq(users.id, id)).limit(1);
+  return row ? toMember(row) : null;
+}
+
+export async function getRoleChangesByUserId(userId?: string, limit = 50) {
+  const db = await getDb();
+  const actor = alias(users, "actor");
+  const member = alias(users, "member");
+  const rows = await db
+    .select({
+      id: roleChanges.id,
+      userId: roleChanges.userId,
+      memberName: member.name,
+      fromRole: roleChanges.fromRole,
+      toRole: roleChanges.toRole,
+      actorName: actor.name,
+      at: roleChanges.at,
+    })
+    .from(roleChanges)
+    .leftJoin(actor, eq(actor.id, roleChanges.actorId))
+    .innerJoin(member, eq(member.id, roleChanges.userId))
+    .where(userId ? eq(roleChanges.userId, userId) : undefined)
+    .orderBy(desc(roleChanges.at), desc(roleChanges.id))
+    .limit(limit);
+  return rows.map((r) => ({ ...r, at: r.at.toISOString() }));
+}

@@ -1,0 +1,13 @@
+import type { NextConfig } from "next";
+
+const nextConfig: NextConfig = {
+  // These packages load WebAssembly, native binaries or open sockets at run time:
+  // they must stay plain Node.js modules rather than be bundled.
+  serverExternalPackages: ["@electric-sql/pglite", "sharp", "smtp-server", "nodemailer", "mailparser", "pg"],
+  poweredByHeader: false,
+  typedRoutes: false,
+  // The app is served from this checkout; keep the build inside it.
+  turbopack: { root: import.meta.dirname },
+};
+
+export default nextConfig;
