@@ -1,0 +1,72 @@
+import { spawn, spawnSync, type ChildProcess } from "node:child_process";
+import fs from "node:fs";
+import net from "node:net";
+import os from "node:os";
+import path from "node:path";
+import type { TestProject } from "vitest/node";
+
+async function freePort(): Promise<number> {
+  return new Promise((resolve) => {
+    const s = net.createServer();
+    s.listen(0, "127.0.0.1", () => {
+      const { port } = s.address() as net.AddressInfo;
+      s.close(() => resolve(port));
+    });
+  });
+}
+
+export default async function setup(project: TestProject) {
+  const root = process.cwd();
+  const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), "tanklore-e2e-"));
+  const port = await freePort();
+  const env = {
+    ...process.env,
+    NODE_ENV: "production" as const,
+    DATA_DIR: dataDir,
+    PORT: String(port),
+    BETTER_AUTH_URL: `http://localhost:${port}`,
+    DEMO_PASSWORD: "e2e-demo-password",
+  };
+  const tsx = ["--import", "tsx"];
+  const build = spawnSync(process.execPath, [...tsx, "-e", "const m = await import('./db/serve.ts'); m.buildIfNeeded();"], { cwd: root, env, stdio: "inherit" });
+  if (build.status !== 0) throw new Error("next build failed");
+  const seed = spawnSync(process.execPath, [...tsx, "db/seed.ts"], { cwd: root, env, stdio: "inherit" });
+  if (seed.status !== 0) throw new Error("seeding the demo club failed");
+
+  const server: ChildProcess = spawn(process.execPath, ["node_modules/next/dist/bin/next", "start", "-p", String(port)], {
+    cwd: root,
+    env,
+    stdio: ["ignore", "pipe", "pipe"],
+  });
+  let log = "";
+  server.stdout?.on("data", (d) => (log += d));
+  server.stderr?.on("data", (d) => (log += d));
+  const base = `http://localhost:${port}`;
+  let ready = false;
+  for (let i = 0; i < 120 && !ready; i++) {
+    await new Promise((r) => setTimeout(r, 500));
+    ready = await fetch(`${base}/api/health`).then((r) => r.ok, () => false);
+  }
+  if (!ready) {
+    server.kill("SIGKILL");
+    throw new Error(`the app did not start:\n${log}`);
+  }
+  project.provide("baseUrl", base);
+  project.provide("demoPassword", env.DEMO_PASSWORD);
+  project.provide("dataDir", dataDir);
+  return async () => {
+    server.kill("SIGTERM");
+    await new Promise((r) => setTimeout(r, 500));
+    if (server.exitCode === null) server.kill("SIGKILL");
+    if (process.env.E2E_KEEP_LOG) console.log(log);
+    fs.rmSync(dataDir, { recursive: true, force: true });
+  };
+}
+
+declare module "vitest" {
+  export interface ProvidedContext {
+    baseUrl: string;
+    demoPassword: string;
+    dataDir: string;
+  }
+}

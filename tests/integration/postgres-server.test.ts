@@ -1,0 +1,59 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { count, eq } from "drizzle-orm";
+import * as healthRoute from "@/app/api/health/route";
+import * as catalogueRoute from "@/app/api/catalogue/route";
+import * as membersRoute from "@/app/api/admin/members/route";
+import { closeDb, getDb, schema } from "@/db/client";
+import { seedDemo } from "@/db/seed";
+import { call } from "../support/http";
+import { signIn } from "../support/factories";
+import { hasPostgresServer, startPostgres } from "../support/pg-server";
+
+// The same schema, migrations, queries and auth on a real PostgreSQL server. Its binaries come
+// with the machine (platform.md); where they are missing the file says so instead of passing.
+describe.runIf(hasPostgresServer())("on a PostgreSQL server (DATABASE_URL)", () => {
+  let stop: () => void = () => {};
+
+  beforeAll(async () => {
+    const pg = await startPostgres();
+    stop = pg.stop;
+    process.env.DATABASE_URL = pg.url;
+  });
+
+  afterAll(async () => {
+    await closeDb();
+    delete process.env.DATABASE_URL;
+    stop();
+  });
+
+  it("applies the migrations and reports postgres on /api/health", async () => {
+    const r = await call(healthRoute.GET, "/api/health");
+    expect(r).toMatchObject({ status: 200, body: { status: "ok", database: "postgres" } });
+  });
+
+  it("seeds the demo club and serves the catalogue and admin routes with the same code", async () => {
+    const db = await getDb();
+    const first = await seedDemo(db, { password: "pg-demo-password" });
+    expect(first.reportsCreated).toBe(150);
+    const again = await seedDemo(db, { password: "pg-demo-password" });
+    expect(again.reportsCreated).toBe(0);
+    const [n] = await db.select({ n: count() }).from(schema.reports);
+    expect(n?.n).toBe(150);
+
+    const cat = await call(catalogueRoute.GET, "/api/catalogue");
+    expect(cat.body.agents.find((a: { slug: string }) => a.slug === "hydrogen-peroxide")).toMatchObject({ unit: "mg/L" });
+
+    const cookie = await signIn("admin@example.org", "pg-demo-password");
+    const members = await call(membersRoute.GET, "/api/admin/members?role=moderator", { cookie });
+    expect(members.status).toBe(200);
+    expect(members.body.members.map((m: { email: string }) => m.email).sort()).toEqual(["keeper10@example.org", "moderator@example.org"]);
+    const [admin] = await db.select().from(schema.users).where(eq(schema.users.email, "admin@example.org"));
+    expect(admin?.role).toBe("admin");
+  });
+});
+
+describe.runIf(!hasPostgresServer())("without PostgreSQL server binaries", () => {
+  it("cannot check the PostgreSQL mode here: install initdb and pg_ctl", () => {
+    expect(hasPostgresServer()).toBe(false);
+  });
+});

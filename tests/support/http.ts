@@ -1,0 +1,41 @@
+// Calls route handlers directly, as Next.js would, with a cookie jar per test actor.
+export const BASE = "http://localhost:3000";
+
+type Handler = (req: Request, ctx: { params: Promise<Record<string, string>> }) => Promise<Response>;
+
+export interface CallOptions {
+  method?: string;
+  body?: unknown;
+  cookie?: string;
+  headers?: Record<string, string>;
+  params?: Record<string, string>;
+}
+
+export async function call(handler: Handler, path: string, opts: CallOptions = {}): Promise<{ status: number; body: any; res: Response }> {
+  const headers: Record<string, string> = { ...opts.headers };
+  if (opts.cookie) headers.cookie = opts.cookie;
+  let body: BodyInit | undefined;
+  if (opts.body !== undefined) {
+    headers["content-type"] ??= "application/json";
+    body = typeof opts.body === "string" ? opts.body : JSON.stringify(opts.body);
+  }
+  const req = new Request(`${BASE}${path}`, { method: opts.method ?? (body ? "POST" : "GET"), headers, body });
+  const res = await handler(req, { params: Promise.resolve(opts.params ?? {}) });
+  const text = await res.text();
+  let parsed: unknown = text;
+  try {
+    parsed = text ? JSON.parse(text) : null;
+  } catch {
+    // Not JSON; keep the text.
+  }
+  return { status: res.status, body: parsed, res };
+}
+
+/** The session cookie(s) from a better-auth response, as a Cookie header value. */
+export function cookieFrom(res: Response): string {
+  return res.headers
+    .getSetCookie()
+    .map((c) => c.split(";")[0])
+    .filter((c) => !c!.endsWith("="))
+    .join("; ");
+}

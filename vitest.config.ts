@@ -1,0 +1,29 @@
+import path from "node:path";
+import { defineConfig } from "vitest/config";
+
+const alias = { "@": path.resolve(import.meta.dirname) };
+
+export default defineConfig({
+  resolve: { alias },
+  test: {
+    projects: [
+      { resolve: { alias }, test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node" } },
+      { resolve: { alias }, test: { name: "reference", include: ["tests/reference/**/*.test.ts"], environment: "node" } },
+      {
+        resolve: { alias },
+        test: {
+          name: "integration",
+          include: ["tests/integration/**/*.test.ts"],
+          environment: "node",
+          globalSetup: ["tests/support/global-setup.ts"],
+          setupFiles: ["tests/support/integration-setup.ts"],
+          testTimeout: 60_000,
+          hookTimeout: 120_000,
+          pool: "forks",
+          // Two cores: two test files at a time, each with its own database copy.
+          maxWorkers: 2,
+        },
+      },
+    ],
+  },
+});
