@@ -20,7 +20,8 @@ export default defineConfig({
           testTimeout: 60_000,
           hookTimeout: 120_000,
           pool: "forks",
-          // Two cores: two test files at a time, each with its own database copy.
+          // After the fast projects; two test files at a time (two cores), each with its own database copy.
+          sequence: { groupOrder: 1 },
           maxWorkers: 2,
         },
       },

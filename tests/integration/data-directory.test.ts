@@ -10,6 +10,8 @@ import { closeDb, getDb } from "@/db/client";
 const node = process.execPath;
 const tsxArgs = ["--import", "tsx"];
 const child = path.resolve("tests/support/child-db.ts");
+// PGlite and node-postgres results both carry `rows`.
+const rowsOf = (r: unknown) => (r as { rows: Record<string, unknown>[] }).rows;
 
 describe("the embedded database's data directory", () => {
   it("refuses a second process with a message naming the holder, and leaves the files alone", async () => {
@@ -25,7 +27,7 @@ describe("the embedded database's data directory", () => {
 
     expect(fs.readdirSync(path.join(process.env.DATA_DIR!, "pgdata")).sort()).toEqual(before);
     const rows = await db.execute(sql`select count(*)::int as n from lock_probe`);
-    expect(rows.rows[0]).toEqual({ n: 2 });
+    expect(rowsOf(rows)[0]).toEqual({ n: 2 });
   });
 
   it("keeps every acknowledged row after kill -9 of its only writer, and takes over the stale lock", async () => {
@@ -55,7 +57,7 @@ describe("the embedded database's data directory", () => {
     try {
       const db = await getDb();
       const rows = await db.execute(sql`select count(*)::int as n, max(n)::int as top from durability_probe`);
-      const { n, top } = rows.rows[0] as { n: number; top: number };
+      const { n, top } = rowsOf(rows)[0] as { n: number; top: number };
       expect(top).toBeGreaterThanOrEqual(acked);
       expect(n).toBe(top); // no gaps: every row up to the last acknowledged one is there
     } finally {
@@ -75,13 +77,13 @@ describe("the embedded database's data directory", () => {
     try {
       const db = await getDb();
       const tables = await db.execute(sql`select table_name from information_schema.tables where table_schema = 'public' order by 1`);
-      const names = tables.rows.map((t) => (t as { table_name: string }).table_name);
+      const names = rowsOf(tables).map((t) => t.table_name);
       for (const t of ["users", "sessions", "accounts", "verifications", "club_settings", "species_groups", "species", "agents", "stock_forms", "conditions", "reports", "report_events", "photos", "role_changes"]) {
         expect(names).toContain(t);
       }
       const applied = await db.execute(sql`select count(*)::int as n from drizzle.__drizzle_migrations`);
       const journal = JSON.parse(fs.readFileSync("drizzle/meta/_journal.json", "utf8"));
-      expect(applied.rows[0]).toEqual({ n: journal.entries.length });
+      expect(rowsOf(applied)[0]).toEqual({ n: journal.entries.length });
     } finally {
       await closeDb();
       process.env.DATA_DIR = previous;

@@ -1,0 +1,88 @@
+import js from "@eslint/js";
+import tseslint from "typescript-eslint";
+
+// Layout rules of docs/architecture.md: app/ composes features; a feature imports shared, db
+// and the public entry (index.ts, server/index.ts) of a feature below it — never one above it.
+const featureOrder = ["shared", "dosing", "mail", "catalogue", "members", "reports", "photos", "review", "evidence", "exchange"];
+
+const below = (name) => featureOrder.slice(0, featureOrder.indexOf(name));
+
+export default tseslint.config(
+  { ignores: [".next/**", "node_modules/**", "drizzle/**", ".data/**", "next-env.d.ts", "tests/e2e/.artifacts/**"] },
+  js.configs.recommended,
+  ...tseslint.configs.recommended,
+  {
+    files: ["**/*.{ts,tsx}"],
+    rules: {
+      "@typescript-eslint/no-unused-vars": ["error", { argsIgnorePattern: "^_", varsIgnorePattern: "^_" }],
+      "@typescript-eslint/no-explicit-any": "off",
+    },
+  },
+  ...featureOrder.map((name) => ({
+    files: [`features/${name}/**/*.{ts,tsx}`],
+    rules: {
+      "no-restricted-imports": [
+        "error",
+        {
+          patterns: [
+            { group: ["@/app/*", "@/tests/*"], message: "Features never import app/ or tests/." },
+            ...(name === "dosing"
+              ? [{ group: ["@/db/*", "node:*", "@/features/*"], message: "features/dosing is pure arithmetic: no I/O, no other feature." }]
+              : []),
+            ...featureOrder
+              .filter((other) => other !== name && !below(name).includes(other))
+              .map((other) => ({ group: [`@/features/${other}`, `@/features/${other}/**`], message: `features/${name} sits below features/${other} and may not import it.` })),
+            ...below(name)
+              .filter((other) => other !== "shared")
+              .map((other) => ({
+                regex: `^@/features/${other}/(?!index$|server$|server/index$|components/|auth-client$|starter-data$|api/)`,
+                message: `Import features/${other} through its public entry (index.ts or server/index.ts).`,
+              })),
+          ],
+        },
+      ],
+    },
+  })),
+  {
+    // Client components never reach server code or the database.
+    files: ["**/components/**/*.tsx", "**/*-client.ts"],
+    rules: {
+      "no-restricted-imports": [
+        "error",
+        { patterns: [{ group: ["@/db/*", "@/features/*/server", "@/features/*/server/*", "node:*"], message: "Client code may not import server code or the database." }] },
+      ],
+    },
+  },
+  {
+    files: ["db/schema/**/*.ts"],
+    rules: {
+      "no-restricted-imports": ["error", { patterns: [{ group: ["@/features/*"], message: "The schema stands alone." }] }],
+    },
+  },
+  {
+    // File names are kebab-case.
+    files: ["**/*.{ts,tsx}"],
+    ignores: ["app/**/[[]*[]]/**", "app/**/\\(*\\)/**"],
+    plugins: {
+      local: {
+        rules: {
+          "kebab-case-files": {
+            meta: { type: "suggestion", schema: [] },
+            create(context) {
+              const file = context.filename.split("/").pop() ?? "";
+              const base = file.replace(/\.(test|e2e|config|d)?\.?(ts|tsx)$/, "").replace(/\.(test|e2e)$/, "");
+              return {
+                Program(node) {
+                  if (!/^[a-z0-9]+(-[a-z0-9]+)*(\.[a-z0-9-]+)*$/.test(base)) {
+                    context.report({ node, message: `File name "${file}" is not kebab-case.` });
+                  }
+                },
+              };
+            },
+          },
+        },
+      },
+    },
+    rules: { "local/kebab-case-files": "error" },
+  },
+);
