@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { catalogueSchema } from "@/features/catalogue";
+import { doseQuerySchema, doseResponseSchema } from "@/features/dosing";
 import { changeRoleSchema, listMembersQuerySchema, memberListSchema, memberSchema } from "@/features/members";
 import { json, route } from "@/features/shared/server/http";
 import { buildOpenApi, type Operation } from "@/features/shared/server/openapi";
@@ -12,6 +13,10 @@ const operations: Operation[] = [
     response: z.object({ status: z.literal("ok"), database: z.enum(["pglite", "postgres"]) }), errors: [],
   },
   { method: "get", path: "/api/catalogue", summary: "Species groups, species, agents with stock presets, conditions", tags: ["catalogue"], response: catalogueSchema, errors: [] },
+  {
+    method: "get", path: "/api/dose", summary: "Dose planner: mL of stock for a target, or the concentration a given mL makes", tags: ["dosing"],
+    query: doseQuerySchema, response: doseResponseSchema, errors: [422],
+  },
   {
     method: "get", path: "/api/admin/members", summary: "List members (search, role filter, sort, pages)", tags: ["members"], auth: "admin",
     query: listMembersQuerySchema, response: memberListSchema, errors: [401, 403, 422],

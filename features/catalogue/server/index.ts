@@ -1,3 +1,4 @@
 export { getCatalogue } from "./queries";
 export { seedCatalogue, speciesIdOf } from "./seed";
 export { getClubSettings, type ClubSettings } from "./club";
+export { planDoseFromQuery } from "./dose";
