@@ -1,0 +1,22 @@
+import { Suspense } from "react";
+import { getCatalogue } from "@/features/catalogue/server";
+import { Planner } from "@/features/dosing/components/planner";
+import { Cautions } from "@/features/shared/components/cautions";
+import { PageTitle } from "@/features/shared/components/ui";
+
+export const metadata = { title: "Dose planner" };
+
+export default async function PlannerPage() {
+  const { agents } = await getCatalogue();
+  return (
+    <div className="grid gap-6">
+      <PageTitle lead="Turn a target concentration and your tank's volume into millilitres of your stock bottle — or check what the millilitres you added made. Start with a reduced dose.">
+        Dose planner
+      </PageTitle>
+      <Cautions compact />
+      <Suspense>
+        <Planner agents={agents} />
+      </Suspense>
+    </div>
+  );
+}

@@ -1,0 +1,75 @@
+import fs from "node:fs";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Browser } from "playwright-core";
+import { baseUrl, launch } from "./browser";
+
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launch();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe("the dose planner", () => {
+  it("turns 50 mg/L in one US gallon of 3 % peroxide into millilitres as the visitor types", async () => {
+    const page = await browser.newPage();
+    await page.goto(`${baseUrl()}/planner`);
+    await page.getByText("Before you treat").waitFor();
+    await page.getByLabel("Treatment").selectOption("hydrogen-peroxide");
+    await page.getByLabel("Water volume", { exact: true }).fill("1");
+    await page.getByLabel("Unit").selectOption("gal_us");
+    await page.getByLabel("Target concentration (mg/L)").fill("50");
+    // 50 mg/L × 3.785 L / 30 mg/mL = 6.309 mL, rounded down to the 0.2 mL marks of a 10 mL syringe.
+    await page.getByTestId("dose-ml").filter({ hasText: "6.2 mL" }).waitFor();
+    const result = await page.getByTestId("planner-result").textContent();
+    expect(result).toContain("exactly 6.31 mL");
+    expect(result).toMatch(/between\s*25\s*and\s*35 mg\/L|between 41\.7 and 58\.3 mg\/L/);
+    expect(await page.getByTestId("first-dose-ml").textContent()).toBe("3 mL");
+
+    // "What did my mL make?"
+    await page.getByLabel("What did my mL make?").check();
+    await page.getByLabel("Millilitres of stock added").fill("6.5");
+    const made = await page.getByTestId("concentration").textContent();
+    expect(Number(made!.replace(/[^\d.]/g, ""))).toBeGreaterThan(47.5);
+    expect(Number(made!.replace(/[^\d.]/g, ""))).toBeLessThan(52.5);
+    await page.close();
+  });
+
+  it("says what to fix beside an invalid field and remembers the chosen unit", async () => {
+    const page = await browser.newPage();
+    await page.goto(`${baseUrl()}/planner`);
+    await page.getByLabel("Water volume", { exact: true }).fill("-4");
+    await page.getByLabel("Unit").selectOption("gal_imp");
+    await page.getByLabel("Target concentration (mg/L)").fill("25");
+    await page.getByText("Water volume must be above 0.").waitFor();
+    expect(await page.getByLabel("Water volume", { exact: true }).getAttribute("aria-invalid")).toBe("true");
+    await page.reload();
+    await page.getByText("Before you treat").waitFor();
+    await page.waitForFunction(() => (document.querySelector("select[id$='-volumeUnit']") as HTMLSelectElement | null)?.value === "gal_imp");
+    await page.close();
+  });
+
+  it("works from tank dimensions in inches and prints a clean plan", async () => {
+    const page = await browser.newPage();
+    await page.goto(`${baseUrl()}/planner?agent=hydrogen-peroxide&target=30&fraction=0.5`);
+    await page.getByLabel("Work it out from the tank").check();
+    await page.getByLabel("Length").fill("24");
+    await page.getByLabel("Width").fill("12");
+    await page.getByLabel("Water depth").fill("16");
+    await page.getByLabel("Unit").selectOption("in");
+    // 24 × 12 × 16 in = 4608 in³ = 75.5 L (NIST SP 811 inch).
+    await page.getByTestId("volume-l").filter({ hasText: "75.5 L" }).waitFor();
+    const checklist = await page.getByTestId("checklist").textContent();
+    expect(checklist).toContain("Dose 1 of 3");
+    expect(checklist).toContain("record the outcome");
+    await page.screenshot({ path: "tests/e2e/.artifacts/planner.png", fullPage: true });
+    await page.emulateMedia({ media: "print" });
+    expect(await page.locator("form[aria-label='Dose planner']").isVisible()).toBe(false);
+    expect(await page.getByTestId("checklist").isVisible()).toBe(true);
+    const pdf = await page.pdf({ format: "A4" });
+    fs.writeFileSync("tests/e2e/.artifacts/planner.pdf", pdf);
+    expect(pdf.subarray(0, 4).toString()).toBe("%PDF");
+    await page.close();
+  });
+});
