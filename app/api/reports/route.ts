@@ -1,0 +1,17 @@
+import { listMineQuerySchema, reportInputSchema } from "@/features/reports";
+import { createReport, getReportsByAuthorId } from "@/features/reports/server";
+import { requireActor } from "@/features/members/server";
+import { json, parseJson, parseQuery, route } from "@/features/shared/server/http";
+
+export const dynamic = "force-dynamic";
+
+export const POST = route(async (req) => {
+  const actor = await requireActor(req.headers);
+  const body = await parseJson(req, reportInputSchema);
+  return json(await createReport(actor, body), 201);
+});
+
+export const GET = route(async (req) => {
+  const actor = await requireActor(req.headers);
+  return json(await getReportsByAuthorId(actor, parseQuery(req, listMineQuerySchema)));
+});

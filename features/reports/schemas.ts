@@ -1,0 +1,183 @@
+import { z } from "zod";
+import { temperatureUnits, toCelsius, volumeUnits } from "@/features/dosing";
+
+export const sizeClasses = ["juvenile", "subadult", "adult"] as const;
+export const settings = ["bare", "planted", "other"] as const;
+export const lossCauses = ["treatment", "disease", "unknown"] as const;
+export const distressLevels = ["none", "mild", "severe"] as const;
+export const conditionOutcomes = ["cleared", "improved", "unchanged", "worse"] as const;
+export const reportStatuses = ["draft", "awaiting_review", "accepted", "returned", "declined", "retracted"] as const;
+export type ReportStatus = (typeof reportStatuses)[number];
+
+export const statusLabels: Record<ReportStatus, string> = {
+  draft: "Draft",
+  awaiting_review: "Awaiting review",
+  accepted: "Accepted",
+  returned: "Returned for changes",
+  declined: "Declined",
+  retracted: "Retracted",
+};
+
+const enumOf = <T extends readonly [string, ...string[]]>(values: T, field: string) =>
+  z.enum(values, { error: `${field} must be one of: ${values.join(", ")}.` });
+const int = (field: string, min: number, max: number) =>
+  z
+    .number({ error: `${field} must be a whole number.` })
+    .int(`${field} must be a whole number.`)
+    .min(min, `${field} must be at least ${min}.`)
+    .max(max, `${field} must be at most ${max}.`);
+const positive = (field: string, max: number) =>
+  z.number({ error: `${field} must be a number.` }).positive(`${field} must be above 0.`).max(max, `${field} must be at most ${max}.`);
+const text = (field: string, max: number) => z.string({ error: `${field} must be text.` }).trim().max(max, `${field} is at most ${max} characters.`);
+
+/** A calendar date that is not in the future (a day's grace for time zones ahead of UTC). */
+export const pastDate = z
+  .string({ error: "startedOn must be a date, YYYY-MM-DD." })
+  .regex(/^\d{4}-\d{2}-\d{2}$/, "startedOn must be a date, YYYY-MM-DD.")
+  .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), "startedOn is not a real date.")
+  .refine((s) => Date.parse(`${s}T00:00:00Z`) <= Date.now() + 86_400_000, "startedOn cannot be in the future.")
+  .refine((s) => s >= "1990-01-01", "startedOn must be in 1990 or later.");
+
+export const waterSchema = z.object({
+  volume: positive("Water volume", 1_000_000),
+  volumeUnit: enumOf(volumeUnits, "volumeUnit"),
+  temperature: z.number({ error: "Temperature must be a number." }),
+  temperatureUnit: enumOf(temperatureUnits, "temperatureUnit"),
+  ph: z.number({ error: "pH must be a number." }).min(0, "pH is between 0 and 14.").max(14, "pH is between 0 and 14.").optional(),
+  setting: enumOf(settings, "setting"),
+});
+
+export const treatmentSchema = z.object({
+  agentSlug: z.string({ error: "Choose the treatment agent." }).min(1, "Choose the treatment agent."),
+  stockPercent: positive("Stock strength", 100).optional(),
+  stockBasis: z.enum(["w/v", "w/w"], { error: "stockBasis must be w/v or w/w." }).optional(),
+  stockDensityGPerMl: z.number().min(0.5, "Density is between 0.5 and 3 g/mL.").max(3, "Density is between 0.5 and 3 g/mL.").optional(),
+  amountMl: positive("Amount per dose", 100_000).optional(),
+  statedConcentration: positive("Stated concentration", 100_000).optional(),
+  doses: int("Number of doses", 1, 100),
+  intervalHours: positive("Hours between doses", 24 * 60).optional(),
+  otherTreatments: text("Other treatments", 500).optional(),
+});
+
+export const outcomeSchema = z.object({
+  fishLost: int("Fish lost", 0, 100_000),
+  lossCause: enumOf(lossCauses, "lossCause").nullable(),
+  distress: enumOf(distressLevels, "distress"),
+  condition: enumOf(conditionOutcomes, "condition"),
+  observedDaysAfter: int("Days watched", 0, 365),
+  notes: text("Notes", 4000).optional(),
+});
+
+const base = {
+  speciesId: z.string({ error: "speciesId must be a catalogue id or null." }).min(1, "speciesId must be a catalogue id or null.").nullable(),
+  speciesOther: text("Species (not listed)", 200).optional(),
+  fishCount: int("Fish treated", 1, 100_000),
+  sizeClass: enumOf(sizeClasses, "sizeClass"),
+  conditionSlug: z.string({ error: "Choose the condition treated." }).min(1, "Choose the condition treated."),
+  startedOn: pastDate,
+  showName: z.boolean({ error: "showName must be true or false." }),
+};
+
+type Ctx = z.RefinementCtx;
+interface Crossable {
+  speciesId?: string | null;
+  speciesOther?: string;
+  fishCount?: number;
+  water?: Partial<z.infer<typeof waterSchema>>;
+  treatment?: Partial<z.infer<typeof treatmentSchema>>;
+  outcome?: Partial<z.infer<typeof outcomeSchema>>;
+}
+
+/** The cross-field rules; in a draft they apply once both sides of a rule are present. */
+function crossRules(r: Crossable, ctx: Ctx, complete: boolean) {
+  if (r.speciesId === null && !r.speciesOther?.trim() && (complete || "speciesOther" in r)) {
+    ctx.addIssue({ code: "custom", path: ["speciesOther"], message: "Name the species when it is not in the catalogue." });
+  }
+  const w = r.water;
+  if (w?.temperature !== undefined && w.temperatureUnit !== undefined) {
+    const c = toCelsius(w.temperature, w.temperatureUnit);
+    if (c < 0 || c > 45) ctx.addIssue({ code: "custom", path: ["water", "temperature"], message: "Temperature must be between 0 and 45 °C (32 and 113 °F)." });
+  }
+  const t = r.treatment;
+  if (t) {
+    const hasAmount = t.amountMl !== undefined;
+    if (complete && !hasAmount && t.statedConcentration === undefined) {
+      ctx.addIssue({ code: "custom", path: ["treatment", "amountMl"], message: "Give the mL added per dose, or failing that the concentration you aimed for." });
+    }
+    if (hasAmount && t.stockPercent === undefined && (complete || "stockPercent" in t)) {
+      ctx.addIssue({ code: "custom", path: ["treatment", "stockPercent"], message: "Give the stock strength (%) of what you added." });
+    }
+    if (t.doses !== undefined && t.doses > 1 && t.intervalHours === undefined && (complete || "intervalHours" in t)) {
+      ctx.addIssue({ code: "custom", path: ["treatment", "intervalHours"], message: "Give the hours between doses when there was more than one." });
+    }
+  }
+  const o = r.outcome;
+  if (o?.fishLost !== undefined) {
+    if (r.fishCount !== undefined && o.fishLost > r.fishCount) {
+      ctx.addIssue({ code: "custom", path: ["outcome", "fishLost"], message: "Fish lost cannot be more than fish treated." });
+    }
+    if (o.fishLost > 0 && o.lossCause == null && (complete || "lossCause" in o)) {
+      ctx.addIssue({ code: "custom", path: ["outcome", "lossCause"], message: "Say the likely cause when fish were lost." });
+    }
+    if (o.fishLost === 0 && o.lossCause != null) {
+      ctx.addIssue({ code: "custom", path: ["outcome", "lossCause"], message: "Leave the cause empty when no fish were lost." });
+    }
+  }
+}
+
+/** POST /api/reports: a complete report (api.md). */
+export const reportInputSchema = z
+  .object({
+    ...base,
+    water: waterSchema,
+    treatment: treatmentSchema,
+    outcome: outcomeSchema,
+    submit: z.boolean().optional(),
+  })
+  .strict()
+  .superRefine((r, ctx) => crossRules(r, ctx, true));
+
+/** A draft or a PATCH: any subset, nested objects partial; the same field rules. */
+export const reportDraftSchema = z
+  .object({
+    speciesId: base.speciesId.optional(),
+    speciesOther: base.speciesOther,
+    fishCount: base.fishCount.optional(),
+    sizeClass: base.sizeClass.optional(),
+    conditionSlug: base.conditionSlug.optional(),
+    startedOn: base.startedOn.optional(),
+    showName: base.showName.optional(),
+    water: waterSchema.partial().optional(),
+    treatment: treatmentSchema.partial().optional(),
+    outcome: outcomeSchema.partial().optional(),
+    courseOpen: z.boolean().optional(),
+  })
+  .strict()
+  .superRefine((r, ctx) => crossRules(r, ctx, false));
+
+export type ReportInput = z.infer<typeof reportInputSchema>;
+export type ReportDraft = z.infer<typeof reportDraftSchema>;
+
+export const courseEntrySchema = z
+  .object({
+    kind: z.enum(["dose", "observation"], { error: "kind must be dose or observation." }),
+    at: z.iso.datetime({ offset: true, error: "at must be a date and time (ISO 8601)." }),
+    amountMl: positive("Amount", 100_000).optional(),
+    text: text("Observation", 2000).optional(),
+  })
+  .strict()
+  .superRefine((e, ctx) => {
+    if (e.kind === "dose" && e.amountMl === undefined) ctx.addIssue({ code: "custom", path: ["amountMl"], message: "Give the mL added for a dose." });
+    if (e.kind === "observation" && !e.text) ctx.addIssue({ code: "custom", path: ["text"], message: "Describe what you saw." });
+    if (Date.parse(e.at) > Date.now() + 5 * 60_000) ctx.addIssue({ code: "custom", path: ["at"], message: "An entry cannot be in the future." });
+  });
+
+export const listMineQuerySchema = z.object({
+  scope: z.enum(["mine"], { error: "scope must be mine." }).default("mine"),
+  status: z.enum(reportStatuses, { error: `status must be one of: ${reportStatuses.join(", ")}.` }).optional(),
+  sort: z.enum(["updatedAt", "startedOn", "status", "concentration", "species", "agent"], { error: "sort must be updatedAt, startedOn, status, concentration, species or agent." }).default("updatedAt"),
+  dir: z.enum(["asc", "desc"], { error: "dir must be asc or desc." }).default("desc"),
+  page: z.coerce.number({ error: "page must be a number." }).int().min(1, "page starts at 1.").default(1),
+  pageSize: z.coerce.number({ error: "pageSize must be a number." }).int().min(1).max(100, "pageSize is at most 100.").default(20),
+});
+export type ListMineQuery = z.infer<typeof listMineQuerySchema>;

@@ -1,0 +1,78 @@
+import { and, eq } from "drizzle-orm";
+import { schema, type Db } from "@/db/client";
+import { AppError, type FieldIssue } from "@/features/shared/errors";
+import { concentrationFromMl, relativeDisagreement, STATED_CONCENTRATION_TOLERANCE, stockMgPerMl, toCelsius, toLitres, type TemperatureUnit, type VolumeUnit } from "@/features/dosing";
+import type { ReportColumns, ReportRow } from "./mapping";
+
+/** Checks that catalogue references exist; unknown ones are 422 naming the field. */
+export async function checkReferences(db: Db, c: ReportColumns): Promise<void> {
+  const issues: FieldIssue[] = [];
+  if (c.speciesId) {
+    const [s] = await db.select({ id: schema.species.id }).from(schema.species).where(eq(schema.species.id, c.speciesId));
+    if (!s) issues.push({ path: "speciesId", message: `No species "${c.speciesId}" in the catalogue; choose one, or "not listed" (null) and name it.` });
+  }
+  if (c.conditionSlug) {
+    const [s] = await db.select({ slug: schema.conditions.slug }).from(schema.conditions).where(eq(schema.conditions.slug, c.conditionSlug));
+    if (!s) issues.push({ path: "conditionSlug", message: `No condition "${c.conditionSlug}" in the catalogue.` });
+  }
+  if (c.agentSlug) {
+    const [s] = await db.select({ slug: schema.agents.slug }).from(schema.agents).where(eq(schema.agents.slug, c.agentSlug));
+    if (!s) issues.push({ path: "treatment.agentSlug", message: `No agent "${c.agentSlug}" in the catalogue.` });
+  }
+  if (issues.length) throw new AppError("invalid", "Some fields need fixing; see issues.", issues);
+}
+
+/**
+ * Values the server computes from a report's own fields: litres, °C, the species' group, the stock's
+ * density and active fraction from the agent's presets, and the peak single-dose concentration.
+ */
+export async function derive(db: Db, r: ReportRow): Promise<ReportColumns> {
+  const out: ReportColumns = {};
+  out.volumeL = r.waterVolume != null && r.waterVolumeUnit ? toLitres(r.waterVolume, r.waterVolumeUnit as VolumeUnit) : null;
+  out.temperatureC = r.temperature != null && r.temperatureUnit ? toCelsius(r.temperature, r.temperatureUnit as TemperatureUnit) : null;
+  if (r.speciesId) {
+    const [s] = await db.select({ groupSlug: schema.species.groupSlug, mergedInto: schema.species.mergedInto }).from(schema.species).where(eq(schema.species.id, r.speciesId));
+    out.groupSlug = s?.groupSlug ?? null;
+  } else if (r.speciesOther) {
+    out.groupSlug = r.groupSlug; // a moderator maps "not listed" species; keep any mapping made
+  }
+  let unit = "mg/L";
+  let density = r.stockDensityGPerMl;
+  let active = 1;
+  if (r.agentSlug) {
+    const [a] = await db.select({ unit: schema.agents.unit }).from(schema.agents).where(eq(schema.agents.slug, r.agentSlug));
+    unit = a?.unit ?? "mg/L";
+    if (r.stockPercent != null) {
+      const basis = (r.stockBasis ?? "w/v") as "w/v" | "w/w";
+      const [preset] = await db
+        .select()
+        .from(schema.stockForms)
+        .where(and(eq(schema.stockForms.agentSlug, r.agentSlug), eq(schema.stockForms.percent, r.stockPercent), eq(schema.stockForms.basis, basis)));
+      density ??= preset?.densityGPerMl ?? null;
+      active = preset?.activeFraction ?? 1;
+    }
+  }
+  out.stockDensityGPerMl = density;
+  out.stockActiveFraction = active;
+  out.concentration = null;
+  if (r.amountMl != null && r.stockPercent != null && out.volumeL) {
+    const basis = (r.stockBasis ?? "w/v") as "w/v" | "w/w";
+    if (basis === "w/w" && density == null) {
+      throw new AppError("invalid", "Some fields need fixing; see issues.", [
+        { path: "treatment.stockDensityGPerMl", message: "A % w/w strength that is not one of the agent's presets needs the solution's density in g/mL." },
+      ]);
+    }
+    const mgPerMl = stockMgPerMl({ percent: r.stockPercent, basis, densityGPerMl: density, activeFraction: active });
+    out.concentration = concentrationFromMl(r.amountMl, out.volumeL, mgPerMl, unit === "g/L" ? "g/L" : "mg/L");
+  } else if (r.statedConcentration != null) {
+    out.concentration = r.statedConcentration;
+  }
+  return out;
+}
+
+/** True when a stated concentration disagrees with the computed one by more than 15 %. */
+export function statedMismatch(r: Pick<ReportRow, "amountMl" | "statedConcentration" | "concentration">): number | null {
+  if (r.amountMl == null || r.statedConcentration == null || r.concentration == null) return null;
+  const d = relativeDisagreement(r.statedConcentration, r.concentration);
+  return d > STATED_CONCENTRATION_TOLERANCE ? d : null;
+}

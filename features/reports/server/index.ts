@@ -1,0 +1,6 @@
+export { canSeeReport, getReportById, getReportRowById, getVisibleReportRow, getReportsByAuthorId, getReportHistory, type ReportView } from "./queries";
+export { createReport, createDraft, updateReport, submitReport, deleteDraft, recordEvent } from "./mutations";
+export { addCourseEntry, runDueReminders, startReminderScheduler } from "./course";
+export { computeFlags, type Flag } from "./flags";
+export { derive } from "./derive";
+export type { ReportRow } from "./mapping";

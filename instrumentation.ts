@@ -1,0 +1,6 @@
+// Runs once when the Next.js server starts (never during `next build`): start the reminder scheduler.
+export async function register() {
+  if (process.env.NEXT_RUNTIME !== "nodejs" || process.env.NEXT_PHASE === "phase-production-build") return;
+  const { startReminderScheduler } = await import("@/features/reports/server");
+  startReminderScheduler();
+}
