@@ -9,6 +9,7 @@ export function SiteHeader({ actor, clubName }: { actor: Actor | null; clubName:
     { href: "/planner", label: "Dose planner" },
     { href: "/cautions", label: "Cautions" },
   ];
+  if (actor) links.push({ href: "/reports", label: "My reports" });
   if (actor?.role === "admin") {
     links.push({ href: "/admin/members", label: "Members" }, { href: "/admin/mail", label: "Mail outbox" });
   }

@@ -1,0 +1,19 @@
+import { Cautions } from "@/features/shared/components/cautions";
+import { PageTitle } from "@/features/shared/components/ui";
+import { ReportWizard } from "@/features/reports/components/report-wizard";
+import { wizardCatalogue } from "../_wizard-catalogue";
+
+export const metadata = { title: "Report a treatment" };
+
+export default async function NewReportPage({ searchParams }: { searchParams: Promise<{ course?: string }> }) {
+  const { course } = await searchParams;
+  return (
+    <div className="grid gap-6">
+      <PageTitle lead={course ? "Start with what you know now; log each dose as you give it and finish the outcome when the course is over." : "Five short steps. Each is saved as a draft; nothing is shared until you submit it and a moderator accepts it."}>
+        {course ? "Start a course log" : "Report a treatment"}
+      </PageTitle>
+      <ReportWizard catalogue={await wizardCatalogue()} report={null} step={0} course={Boolean(course)} />
+      <Cautions compact />
+    </div>
+  );
+}

@@ -1,0 +1,344 @@
+"use client";
+
+import { useRouter } from "next/navigation";
+import { useId, useMemo, useState, type ReactNode } from "react";
+import { planDose, volumeUnitLabels, volumeUnits } from "@/features/dosing";
+import { ApiError, fetchJson } from "@/features/shared/fetch-json";
+import { conditionOutcomes, distressLevels, lossCauses, reportDraftSchema, settings, sizeClasses } from "../schemas";
+
+export interface WizardCatalogue {
+  species: { id: string; scientificName: string; commonName: string; groupSlug: string }[];
+  conditions: { slug: string; name: string }[];
+  agents: { slug: string; name: string; unit: "mg/L" | "g/L"; redoseHours: number | null; stockForms: { id: string; label: string; percent: number; basis: "w/v" | "w/w"; densityGPerMl: number | null; activeFraction: number }[] }[];
+}
+
+export interface WizardReport {
+  id: string;
+  status: string;
+  speciesId: string | null;
+  speciesOther: string | null;
+  fishCount: number | null;
+  sizeClass: string | null;
+  conditionSlug: string | null;
+  startedOn: string | null;
+  water: { volume: number | null; volumeUnit: string | null; temperature: number | null; temperatureUnit: string | null; ph: number | null; setting: string | null };
+  treatment: { agentSlug: string | null; stockPercent: number | null; stockBasis: string | null; stockDensityGPerMl: number | null; amountMl: number | null; statedConcentration: number | null; doses: number | null; intervalHours: number | null; otherTreatments: string | null };
+  outcome: { fishLost: number | null; lossCause: string | null; distress: string | null; condition: string | null; observedDaysAfter: number | null; notes: string | null };
+  showName: boolean;
+  courseOpen: boolean;
+  photos: { id: string; width: number; height: number; stage: string }[];
+  lastNote: { action: string; note: string | null } | null;
+}
+
+const steps = ["Fish", "Water", "Treatment", "Outcome", "Photos and submit"] as const;
+const s = (v: number | string | null | undefined) => (v == null ? "" : String(v));
+const labels: Record<string, string> = {
+  juvenile: "Juvenile", subadult: "Sub-adult", adult: "Adult", bare: "Bare hospital tank", planted: "Planted or furnished tank", other: "Other",
+  treatment: "The treatment", disease: "The disease", unknown: "Not sure", none: "None seen", mild: "Mild (hiding, clamped fins, fast breathing)",
+  severe: "Severe (gasping, lying on the bottom, loss of balance)", cleared: "Cleared", improved: "Improved", unchanged: "Unchanged", worse: "Worse",
+};
+
+type Form = Record<string, string> & { [k: string]: string };
+
+function initialForm(r: WizardReport | null, defaults: { agentSlug?: string }): Form {
+  return {
+    speciesId: r ? (r.speciesId ?? (r.speciesOther ? "__other" : "")) : "",
+    speciesOther: s(r?.speciesOther), fishCount: s(r?.fishCount), sizeClass: s(r?.sizeClass), conditionSlug: s(r?.conditionSlug), startedOn: s(r?.startedOn),
+    volume: s(r?.water.volume), volumeUnit: r?.water.volumeUnit ?? "L", temperature: s(r?.water.temperature), temperatureUnit: r?.water.temperatureUnit ?? "C", ph: s(r?.water.ph), setting: s(r?.water.setting),
+    agentSlug: r?.treatment.agentSlug ?? defaults.agentSlug ?? "hydrogen-peroxide", stockPercent: s(r?.treatment.stockPercent), stockBasis: r?.treatment.stockBasis ?? "w/v", stockDensityGPerMl: s(r?.treatment.stockDensityGPerMl),
+    amountMl: s(r?.treatment.amountMl), statedConcentration: s(r?.treatment.statedConcentration), doses: s(r?.treatment.doses ?? 1), intervalHours: s(r?.treatment.intervalHours), otherTreatments: s(r?.treatment.otherTreatments),
+    fishLost: s(r?.outcome.fishLost ?? (r ? null : 0)), lossCause: s(r?.outcome.lossCause), distress: s(r?.outcome.distress), condition: s(r?.outcome.condition), observedDaysAfter: s(r?.outcome.observedDaysAfter), notes: s(r?.outcome.notes),
+    showName: r?.showName ? "yes" : "no",
+  };
+}
+
+const num = (v: string | undefined) => v === undefined ? undefined :  (v.trim() === "" ? undefined : Number(v.replace(",", ".")));
+const str = (v: string | undefined) => v === undefined ? undefined :  (v.trim() === "" ? undefined : v.trim());
+
+/** The part of the report that one step edits, as the API's nested body. */
+function stepPatch(step: number, f: Form): Record<string, unknown> {
+  if (step === 0) {
+    return {
+      speciesId: f.speciesId === "__other" ? null : str(f.speciesId),
+      speciesOther: f.speciesId === "__other" ? (str(f.speciesOther) ?? "") : undefined,
+      fishCount: num(f.fishCount), sizeClass: str(f.sizeClass), conditionSlug: str(f.conditionSlug), startedOn: str(f.startedOn),
+    };
+  }
+  if (step === 1) return { water: { volume: num(f.volume), volumeUnit: f.volumeUnit, temperature: num(f.temperature), temperatureUnit: f.temperatureUnit, ph: num(f.ph), setting: str(f.setting) } };
+  if (step === 2) {
+    return {
+      treatment: {
+        agentSlug: str(f.agentSlug), stockPercent: num(f.stockPercent), stockBasis: f.stockBasis, stockDensityGPerMl: num(f.stockDensityGPerMl),
+        amountMl: num(f.amountMl), statedConcentration: num(f.statedConcentration), doses: num(f.doses), intervalHours: num(f.intervalHours), otherTreatments: str(f.otherTreatments),
+      },
+    };
+  }
+  if (step === 3) {
+    const lost = num(f.fishLost);
+    return {
+      outcome: { fishLost: lost, lossCause: lost ? (str(f.lossCause) ?? null) : null, distress: str(f.distress), condition: str(f.condition), observedDaysAfter: num(f.observedDaysAfter), notes: str(f.notes) },
+      showName: f.showName === "yes",
+    };
+  }
+  return {};
+}
+
+const required: Record<number, [string, string][]> = {
+  0: [["speciesId", "Choose the species, or “not listed”."], ["fishCount", "Give the number of fish treated."], ["sizeClass", "Choose the size."], ["conditionSlug", "Choose the condition treated."], ["startedOn", "Give the date the course started."]],
+  1: [["volume", "Give the water volume."], ["temperature", "Give the water temperature."], ["setting", "Choose the kind of tank."]],
+  2: [["agentSlug", "Choose the treatment."], ["doses", "Give the number of doses."]],
+  3: [["fishLost", "Give the number of fish lost (0 if none)."], ["distress", "Choose the distress seen."], ["condition", "Choose how the condition ended."], ["observedDaysAfter", "Give the days watched after the last dose."]],
+};
+
+const fieldOfPath = (path: string) => path.split(".").pop()!.replace(/^condition$/, "condition");
+
+function Fld({ fid, errs, name, label, hint, children }: { fid: string; errs: Record<string, string>; name: string; label: string; hint?: string; children: ReactNode }) {
+  return (
+    <div className="grid gap-1">
+      <label htmlFor={`${fid}-${name}`} className="font-bold">{label}</label>
+      {hint ? <p id={`${fid}-${name}-hint`} className="text-sm text-peat-700">{hint}</p> : null}
+      {children}
+      {errs[name] ? <p id={`${fid}-${name}-error`} className="text-sm font-bold text-alarm-700">{errs[name]}</p> : null}
+    </div>
+  );
+}
+
+export function ReportWizard({ catalogue, report, step: initialStep, course, photos }: { catalogue: WizardCatalogue; report: WizardReport | null; step: number; course?: boolean; photos?: ReactNode }) {
+  const router = useRouter();
+  const id = useId();
+  const [step, setStep] = useState(Math.min(Math.max(initialStep, 0), steps.length - 1));
+  const [form, setForm] = useState<Form>(() => initialForm(report, {}));
+  const [errors, setErrors] = useState<Record<string, string>>({});
+  const [banner, setBanner] = useState<string | null>(null);
+  const [busy, setBusy] = useState(false);
+  const [speciesSearch, setSpeciesSearch] = useState("");
+  const set = (k: string) => (e: { target: { value: string } }) => setForm((f) => ({ ...f, [k]: e.target.value }));
+
+  const agent = catalogue.agents.find((a) => a.slug === form.agentSlug);
+  const preview = useMemo(() => {
+    try {
+      if (!agent || !num(form.amountMl) || !num(form.stockPercent) || !num(form.volume)) return null;
+      const preset = agent.stockForms.find((p) => p.percent === num(form.stockPercent) && p.basis === form.stockBasis);
+      return planDose({
+        agentSlug: agent.slug, unit: agent.unit,
+        stock: { percent: num(form.stockPercent)!, basis: form.stockBasis as "w/v" | "w/w", densityGPerMl: num(form.stockDensityGPerMl) ?? preset?.densityGPerMl ?? null, activeFraction: preset?.activeFraction ?? 1 },
+        water: { kind: "volume", volume: num(form.volume)!, unit: form.volumeUnit as (typeof volumeUnits)[number] },
+        addedMl: num(form.amountMl),
+      });
+    } catch {
+      return null;
+    }
+  }, [agent, form.amountMl, form.stockPercent, form.stockBasis, form.stockDensityGPerMl, form.volume, form.volumeUnit]);
+
+  const matches = useMemo(() => {
+    const q = speciesSearch.trim().toLowerCase();
+    const list = q ? catalogue.species.filter((x) => `${x.commonName} ${x.scientificName}`.toLowerCase().includes(q)) : catalogue.species;
+    return list.slice(0, 200);
+  }, [speciesSearch, catalogue.species]);
+
+  async function save(next: number) {
+    setBanner(null);
+    const errs: Record<string, string> = {};
+    for (const [k, msg] of required[step] ?? []) if (!form[k]?.trim()) errs[k] = msg;
+    if (step === 0 && form.speciesId === "__other" && !form.speciesOther?.trim()) errs.speciesOther = "Name the species when it is not in the catalogue.";
+    if (step === 2) {
+      // A step is complete here even though a draft may be partial: the same sentences as the schema's rules.
+      if (!form.amountMl?.trim() && !form.statedConcentration?.trim()) errs.amountMl = "Give the mL added per dose, or failing that the concentration you aimed for.";
+      if (form.amountMl?.trim() && !form.stockPercent?.trim()) errs.stockPercent = "Give the stock strength (%) of what you added.";
+      if ((num(form.doses) ?? 1) > 1 && !form.intervalHours?.trim()) errs.intervalHours = "Give the hours between doses when there was more than one.";
+    }
+    const patch = stepPatch(step, form);
+    const parsed = reportDraftSchema.safeParse(JSON.parse(JSON.stringify(patch)));
+    if (!parsed.success) for (const i of parsed.error.issues) errs[fieldOfPath(i.path.map(String).join("."))] ??= i.message;
+    if (Object.keys(errs).length) {
+      setErrors(errs);
+      setBanner("Some answers need fixing before you go on; each one says what to change.");
+      return;
+    }
+    setErrors({});
+    setBusy(true);
+    try {
+      let reportId = report?.id;
+      if (!reportId) {
+        const created = await fetchJson<{ id: string }>("/api/reports/drafts", { method: "POST", body: JSON.stringify({ ...patch, ...(course ? { courseOpen: true } : {}) }) });
+        reportId = created.id;
+      } else if (step < 4) {
+        await fetchJson(`/api/reports/${reportId}`, { method: "PATCH", body: JSON.stringify(patch) });
+      }
+      router.replace(`/reports/${reportId}/edit?step=${next}`);
+      router.refresh();
+      setStep(next);
+    } catch (err) {
+      if (err instanceof ApiError && err.body.issues) {
+        setErrors(Object.fromEntries(err.body.issues.map((i) => [fieldOfPath(i.path), i.message])));
+      }
+      setBanner(err instanceof ApiError ? err.message : "The draft could not be saved; check your connection and try again.");
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  async function submit() {
+    if (!report) return;
+    setBusy(true);
+    setBanner(null);
+    try {
+      await fetchJson(`/api/reports/${report.id}/submit`, { method: "POST" });
+      router.push(`/reports/${report.id}?submitted=1`);
+      router.refresh();
+    } catch (err) {
+      if (err instanceof ApiError && err.body.issues) {
+        setBanner(`${err.message} ${err.body.issues.map((i) => `${i.path}: ${i.message}`).join(" ")}`);
+      } else setBanner(err instanceof ApiError ? err.message : "The report could not be submitted; try again.");
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  const input = "w-full rounded-md border border-peat-300 bg-white px-3 py-2 aria-[invalid=true]:border-alarm-500";
+  const a = (name: string) => ({ id: `${id}-${name}`, name, value: form[name] ?? "", onChange: set(name), className: input, "aria-invalid": errors[name] ? true : undefined, "aria-describedby": errors[name] ? `${id}-${name}-error` : undefined });
+
+  return (
+    <div className="grid gap-6">
+      <ol className="flex flex-wrap gap-2" aria-label="Steps">
+        {steps.map((label, i) => (
+          <li key={label}>
+            <button
+              type="button"
+              disabled={!report && i > 0}
+              aria-current={i === step ? "step" : undefined}
+              onClick={() => report && setStep(i)}
+              className={`rounded-full border px-3 py-1 text-sm ${i === step ? "border-peat-700 bg-peat-700 text-white" : "border-peat-300 bg-white"} disabled:opacity-50`}
+            >
+              {i + 1}. {label}
+            </button>
+          </li>
+        ))}
+      </ol>
+      {report?.status === "returned" && report.lastNote?.note ? (
+        <div role="note" className="rounded-md border-l-4 border-reed-500 bg-reed-100 p-4">
+          <p className="font-bold">Returned by a moderator with this note:</p>
+          <p>{report.lastNote.note}</p>
+        </div>
+      ) : null}
+      {banner ? <p role="alert" className="rounded-md bg-alarm-100 p-3 font-bold text-alarm-700">{banner}</p> : null}
+
+      <form className="grid max-w-2xl gap-4" onSubmit={(e) => { e.preventDefault(); if (step < 4) void save(step + 1); }} noValidate aria-label={steps[step]}>
+        {step === 0 ? (
+          <>
+            <Fld fid={id} errs={errors} name="speciesId" label="Species" hint="Type to narrow the list; choose “not listed” if yours is missing.">
+              <input type="search" aria-label="Search species" placeholder="Search by common or scientific name" className={input} value={speciesSearch} onChange={(e) => setSpeciesSearch(e.target.value)} />
+              <select {...a("speciesId")} size={6}>
+                <option value="__other">Not listed — I will name it</option>
+                {matches.map((x) => (
+                  <option key={x.id} value={x.id}>{x.commonName} ({x.scientificName})</option>
+                ))}
+              </select>
+            </Fld>
+            {form.speciesId === "__other" ? (
+              <Fld fid={id} errs={errors} name="speciesOther" label="Species, as you know it" hint="A moderator will match it to the catalogue.">
+                <input {...a("speciesOther")} />
+              </Fld>
+            ) : null}
+            <div className="grid grid-cols-2 gap-4">
+              <Fld fid={id} errs={errors} name="fishCount" label="Fish treated"><input {...a("fishCount")} inputMode="numeric" /></Fld>
+              <Fld fid={id} errs={errors} name="sizeClass" label="Size">
+                <select {...a("sizeClass")}><option value="">Choose…</option>{sizeClasses.map((x) => <option key={x} value={x}>{labels[x]}</option>)}</select>
+              </Fld>
+            </div>
+            <Fld fid={id} errs={errors} name="conditionSlug" label="Condition treated">
+              <select {...a("conditionSlug")}><option value="">Choose…</option>{catalogue.conditions.map((c) => <option key={c.slug} value={c.slug}>{c.name}</option>)}</select>
+            </Fld>
+            <Fld fid={id} errs={errors} name="startedOn" label="Course started on"><input {...a("startedOn")} type="date" max={new Date().toISOString().slice(0, 10)} /></Fld>
+          </>
+        ) : null}
+
+        {step === 1 ? (
+          <>
+            <div className="grid grid-cols-2 gap-4">
+              <Fld fid={id} errs={errors} name="volume" label="Water volume treated"><input {...a("volume")} inputMode="decimal" /></Fld>
+              <Fld fid={id} errs={errors} name="volumeUnit" label="Volume unit"><select {...a("volumeUnit")}>{volumeUnits.map((u) => <option key={u} value={u}>{volumeUnitLabels[u]}</option>)}</select></Fld>
+              <Fld fid={id} errs={errors} name="temperature" label="Water temperature"><input {...a("temperature")} inputMode="decimal" /></Fld>
+              <Fld fid={id} errs={errors} name="temperatureUnit" label="Temperature unit"><select {...a("temperatureUnit")}><option value="C">°C</option><option value="F">°F</option></select></Fld>
+            </div>
+            <Fld fid={id} errs={errors} name="ph" label="pH (optional)"><input {...a("ph")} inputMode="decimal" /></Fld>
+            <Fld fid={id} errs={errors} name="setting" label="Kind of tank">
+              <select {...a("setting")}><option value="">Choose…</option>{settings.map((x) => <option key={x} value={x}>{labels[x]}</option>)}</select>
+            </Fld>
+          </>
+        ) : null}
+
+        {step === 2 ? (
+          <>
+            <Fld fid={id} errs={errors} name="agentSlug" label="Treatment">
+              <select {...a("agentSlug")}>{catalogue.agents.map((x) => <option key={x.slug} value={x.slug}>{x.name}</option>)}</select>
+            </Fld>
+            <Fld fid={id} errs={errors} name="stockPercent" label="Stock strength (%)" hint={agent ? `Common strengths: ${agent.stockForms.map((p) => `${p.percent} % ${p.basis}`).join(", ")}.` : undefined}>
+              <input {...a("stockPercent")} inputMode="decimal" />
+            </Fld>
+            <div className="grid grid-cols-2 gap-4">
+              <Fld fid={id} errs={errors} name="stockBasis" label="Strength basis"><select {...a("stockBasis")}><option value="w/v">w/v (g per 100 mL)</option><option value="w/w">w/w (g per 100 g)</option></select></Fld>
+              <Fld fid={id} errs={errors} name="stockDensityGPerMl" label="Density, g/mL (w/w only, if not a listed strength)"><input {...a("stockDensityGPerMl")} inputMode="decimal" /></Fld>
+              <Fld fid={id} errs={errors} name="amountMl" label="mL added per dose (largest dose)"><input {...a("amountMl")} inputMode="decimal" /></Fld>
+              <Fld fid={id} errs={errors} name="statedConcentration" label={`Concentration you aimed for (${agent?.unit ?? "mg/L"}), optional`}><input {...a("statedConcentration")} inputMode="decimal" /></Fld>
+              <Fld fid={id} errs={errors} name="doses" label="Number of doses"><input {...a("doses")} inputMode="numeric" /></Fld>
+              <Fld fid={id} errs={errors} name="intervalHours" label="Hours between doses"><input {...a("intervalHours")} inputMode="decimal" /></Fld>
+            </div>
+            {preview ? (
+              <p className="rounded-md bg-peat-50 p-3" data-testid="computed-dose">That dose makes <strong>{preview.concentration.toFixed(preview.concentration >= 10 ? 1 : 2)} {agent?.unit}</strong> in your water (computed from amount, strength and volume).</p>
+            ) : null}
+            <Fld fid={id} errs={errors} name="otherTreatments" label="Other treatments at the same time (optional)"><input {...a("otherTreatments")} /></Fld>
+          </>
+        ) : null}
+
+        {step === 3 ? (
+          <>
+            <div className="grid grid-cols-2 gap-4">
+              <Fld fid={id} errs={errors} name="fishLost" label="Fish lost"><input {...a("fishLost")} inputMode="numeric" /></Fld>
+              {num(form.fishLost) ? (
+                <Fld fid={id} errs={errors} name="lossCause" label="Likely cause of the losses">
+                  <select {...a("lossCause")}><option value="">Choose…</option>{lossCauses.map((x) => <option key={x} value={x}>{labels[x]}</option>)}</select>
+                </Fld>
+              ) : <div />}
+            </div>
+            <Fld fid={id} errs={errors} name="distress" label="Distress seen after dosing">
+              <select {...a("distress")}><option value="">Choose…</option>{distressLevels.map((x) => <option key={x} value={x}>{labels[x]}</option>)}</select>
+            </Fld>
+            <Fld fid={id} errs={errors} name="condition" label="How the condition ended">
+              <select {...a("condition")}><option value="">Choose…</option>{conditionOutcomes.map((x) => <option key={x} value={x}>{labels[x]}</option>)}</select>
+            </Fld>
+            <Fld fid={id} errs={errors} name="observedDaysAfter" label="Days watched after the last dose"><input {...a("observedDaysAfter")} inputMode="numeric" /></Fld>
+            <Fld fid={id} errs={errors} name="notes" label="Notes (optional)"><textarea {...a("notes")} rows={4} /></Fld>
+            <fieldset className="grid gap-1">
+              <legend className="font-bold">Show my display name on this report?</legend>
+              <label className="flex items-center gap-2"><input type="radio" name="showName" checked={form.showName === "yes"} onChange={() => setForm((f) => ({ ...f, showName: "yes" }))} /> Yes, show my name</label>
+              <label className="flex items-center gap-2"><input type="radio" name="showName" checked={form.showName !== "yes"} onChange={() => setForm((f) => ({ ...f, showName: "no" }))} /> No, keep it to the moderators</label>
+            </fieldset>
+          </>
+        ) : null}
+
+        {step === 4 && report ? (
+          <>
+            {photos}
+            <div className="flex gap-3">
+              <button type="button" onClick={() => void submit()} disabled={busy} className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white disabled:bg-peat-300">
+                {busy ? "Submitting…" : "Submit for review"}
+              </button>
+              <button type="button" onClick={() => router.push(`/reports/${report.id}`)} className="rounded-md border border-peat-300 px-4 py-2">Keep as draft</button>
+            </div>
+          </>
+        ) : null}
+
+        {step < 4 ? (
+          <div className="flex gap-3">
+            {step > 0 ? <button type="button" onClick={() => setStep(step - 1)} className="rounded-md border border-peat-300 px-4 py-2">Back</button> : null}
+            <button type="submit" disabled={busy} className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white disabled:bg-peat-300">
+              {busy ? "Saving…" : "Save and continue"}
+            </button>
+          </div>
+        ) : null}
+        <p className="text-sm text-peat-700">Each step is saved as a draft: you can close the page and come back from My reports.</p>
+      </form>
+    </div>
+  );
+}
