@@ -7,6 +7,7 @@ import { starterAgents, starterSpecies } from "@/features/catalogue/starter-data
 import { concentrationFromMl, doseMlForTarget, stockMgPerMl, toCelsius, toLitres, type VolumeUnit } from "@/features/dosing";
 import { DEFAULT_DEMO_PASSWORD, DEMO_CLUB_NAME, demoPeople, demoPeroxideTolerance, prng } from "./demo-data";
 import type { ReportStatus } from "./schema";
+import { recomputeAll } from "@/features/evidence/server";
 
 const { users, accounts, reports, reportEvents, clubSettings } = schema;
 
@@ -29,6 +30,7 @@ export async function seedDemo(db: Db, opts: SeedOptions = {}): Promise<SeedResu
   const ids = await seedPeople(db, password);
   let created = 0;
   if (opts.reports !== false) created = await seedReports(db, ids);
+  await recomputeAll(db);
   return { password, accounts: demoPeople.map(({ email, name, role }) => ({ email, name, role })), reportsCreated: created };
 }
 

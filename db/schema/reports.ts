@@ -6,6 +6,7 @@ import {
   integer,
   jsonb,
   pgTable,
+  primaryKey,
   serial,
   text,
   timestamp,
@@ -160,4 +161,33 @@ export const photos = pgTable(
     createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [index("photos_report_idx").on(t.reportId)],
+);
+
+/** When each moderator last got the digest of reports awaiting review (at most one an hour). */
+export const moderatorDigests = pgTable("moderator_digests", {
+  userId: text()
+    .primaryKey()
+    .references(() => users.id, { onDelete: "cascade" }),
+  lastSentAt: timestamp({ withTimezone: true }).notNull(),
+  /** Submissions up to this time have been included in a digest. */
+  coveredUntil: timestamp({ withTimezone: true }).notNull(),
+});
+
+/**
+ * Published summaries: one row per species group × agent × condition ("" = every condition),
+ * recomputed when an accept, retract, correction, import or settings change touches it.
+ */
+export const evidenceSummaries = pgTable(
+  "evidence_summaries",
+  {
+    groupSlug: text().notNull(),
+    agentSlug: text().notNull(),
+    conditionSlug: text().notNull().default(""),
+    methodVersion: text().notNull(),
+    confidenceLevel: integer().notNull(),
+    reports: integer().notNull(),
+    data: jsonb().notNull(),
+    computedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.agentSlug, t.conditionSlug, t.groupSlug] })],
 );

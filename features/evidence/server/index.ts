@@ -1,0 +1,2 @@
+export { recomputeAfterChange, recomputeAll, recomputeGroupAgent, summarySql } from "./compute";
+export { getSummaries, getSummaryDetail } from "./queries";

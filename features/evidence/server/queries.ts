@@ -1,0 +1,70 @@
+import { asc, eq } from "drizzle-orm";
+import { getDb, schema } from "@/db/client";
+import { getClubSettings } from "@/features/catalogue/server";
+import { AppError, notFound } from "@/features/shared/errors";
+import { wilson } from "../stats";
+import { ANECDOTAL_TEXT, METHOD_VERSION, type Summary, type SummaryDetail } from "../summary";
+import { getStoredSummaries } from "./compute";
+
+const { agents, speciesGroups, conditions } = schema;
+
+function emptySummary(group: { slug: string; name: string }, edges: number[], level: number): SummaryDetail {
+  const none = wilson(0, 0, level);
+  return {
+    group, reports: 0, members: 0, fish: 0, tolerated: 0, toleratedShare: none,
+    toleratedDose: { min: null, p10: null, p25: null, median: null, p75: null, p90: null, max: null, medianInterval: null },
+    lowestAdverseDose: null, sparse: true,
+    bands: edges.slice(0, -1).map((from, i) => ({ from, to: edges[i + 1]!, reports: 0, tolerated: 0, toleratedShare: none, cleared: 0, clearedShare: none })),
+    points: [], species: [],
+  };
+}
+
+async function agentOrError(slug: string) {
+  const db = await getDb();
+  const [agent] = await db.select().from(agents).where(eq(agents.slug, slug));
+  if (!agent) throw new AppError("invalid", "Unknown agent; see /api/catalogue for the agents.", [{ path: "agent", message: `No agent "${slug}" in the catalogue.` }]);
+  return agent;
+}
+
+async function conditionOrError(slug: string | undefined) {
+  if (!slug) return "";
+  const db = await getDb();
+  const [c] = await db.select({ slug: conditions.slug }).from(conditions).where(eq(conditions.slug, slug));
+  if (!c) throw new AppError("invalid", "Unknown condition; see /api/catalogue.", [{ path: "condition", message: `No condition "${slug}" in the catalogue.` }]);
+  return c.slug;
+}
+
+const strip = ({ bands: _b, points: _p, species: _s, ...summary }: SummaryDetail): Summary => summary;
+
+/** Stored summaries for every visible group (groups without reports appear with zero counts). */
+export async function getSummaries(agentSlug: string, conditionSlug?: string) {
+  const [agent, cond, settings] = await Promise.all([agentOrError(agentSlug), conditionOrError(conditionSlug), getClubSettings()]);
+  const db = await getDb();
+  const [groups, stored] = await Promise.all([
+    db.select({ slug: speciesGroups.slug, name: speciesGroups.name }).from(speciesGroups).where(eq(speciesGroups.hidden, false)).orderBy(asc(speciesGroups.sortOrder), asc(speciesGroups.name)),
+    getStoredSummaries(agent.slug, cond),
+  ]);
+  const byGroup = new Map(stored.map((s) => [s.groupSlug, s.data as SummaryDetail]));
+  const edges = [...agent.bandEdges].sort((a, b) => a - b);
+  return {
+    agent: agent.slug, agentName: agent.name, unit: agent.unit, condition: cond || null, confidenceLevel: settings.confidenceLevel, minReports: settings.minReports,
+    anecdotal: true as const, notice: ANECDOTAL_TEXT, methodVersion: METHOD_VERSION,
+    groups: groups.map((g) => strip({ ...(byGroup.get(g.slug) ?? emptySummary(g, edges, settings.confidenceLevel)), group: g })),
+  };
+}
+
+export async function getSummaryDetail(groupSlug: string, agentSlug: string, conditionSlug?: string) {
+  const [agent, cond, settings] = await Promise.all([agentOrError(agentSlug), conditionOrError(conditionSlug), getClubSettings()]);
+  const db = await getDb();
+  const [group] = await db.select({ slug: speciesGroups.slug, name: speciesGroups.name }).from(speciesGroups).where(eq(speciesGroups.slug, groupSlug));
+  if (!group) throw notFound("That species group");
+  const stored = (await getStoredSummaries(agent.slug, cond)).find((s) => s.groupSlug === groupSlug);
+  const edges = [...agent.bandEdges].sort((a, b) => a - b);
+  const data = (stored?.data as SummaryDetail | undefined) ?? emptySummary(group, edges, settings.confidenceLevel);
+  return {
+    agent: agent.slug, agentName: agent.name, unit: agent.unit, condition: cond || null, confidenceLevel: settings.confidenceLevel, minReports: settings.minReports,
+    anecdotal: true as const, notice: ANECDOTAL_TEXT, methodVersion: METHOD_VERSION, redoseHours: agent.redoseHours,
+    ...data,
+    group,
+  };
+}

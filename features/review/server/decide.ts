@@ -1,0 +1,109 @@
+import { and, desc, eq } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { getDb, schema } from "@/db/client";
+import { AppError, notFound } from "@/features/shared/errors";
+import { publicBaseUrl } from "@/features/shared/env";
+import type { Actor } from "@/features/shared/roles";
+import { assertRole } from "@/features/members/server";
+import { sendMail } from "@/features/mail/server";
+import { derive, getReportRowById, recordEvent } from "@/features/reports/server";
+import { decisionStatus, type CorrectionInput, type DecisionInput } from "../schemas";
+
+const { reports, reportEvents, users, species } = schema;
+
+const words = {
+  accept: { subject: "accepted", lead: "A moderator accepted your report: it now counts in the club's evidence." },
+  return: { subject: "returned for changes", lead: "A moderator returned your report for changes. Their note says what to fix; edit the report and submit it again." },
+  decline: { subject: "declined", lead: "A moderator declined your report. Their reason is below." },
+  retract: { subject: "retracted", lead: "A moderator retracted your report from the evidence. Their reason is below." },
+} as const;
+
+export interface DecisionResult {
+  id: string;
+  status: string;
+  groupSlug: string | null;
+  agentSlug: string | null;
+}
+
+/**
+ * A moderator's decision. Nobody decides on their own report. The status change is conditional on
+ * the status the decision applies to, so of two moderators deciding at once the second gets 409
+ * with what happened.
+ */
+export async function decideReport(actor: Actor | null, id: string, input: DecisionInput): Promise<DecisionResult> {
+  assertRole(actor, ["moderator", "admin"], "decide on reports");
+  const row = await getReportRowById(id);
+  if (!row || row.status === "draft") throw notFound("That report");
+  if (row.authorId === actor.id) throw new AppError("forbidden", "You cannot decide on your own report; another moderator has to.");
+  const { from, to } = decisionStatus[input.decision];
+  if (row.status !== from) throw await conflict(id, row.status, input.decision);
+  if (input.decision === "accept" && !row.groupSlug) {
+    throw new AppError("conflict", "This species is not in the catalogue yet: map it to a catalogue species before accepting, so the report counts in a group.");
+  }
+  const db = await getDb();
+  const updated = await db.transaction(async (tx) => {
+    const [u] = await tx
+      .update(reports)
+      .set({ status: to as typeof row.status, decidedAt: new Date(), updatedAt: new Date() })
+      .where(and(eq(reports.id, id), eq(reports.status, from as typeof row.status)))
+      .returning();
+    if (!u) return null;
+    await recordEvent(tx, { reportId: id, actorId: actor.id, action: input.decision, from, to, note: input.note || null });
+    return u;
+  });
+  if (!updated) throw await conflict(id, (await getReportRowById(id))?.status ?? "gone", input.decision);
+  await notifyMember(updated.authorId, id, input.decision, input.note).catch((err) => console.error("Decision mail failed (the decision stands):", err));
+  return { id, status: updated.status, groupSlug: updated.groupSlug, agentSlug: updated.agentSlug };
+}
+
+async function conflict(id: string, status: string, decision: string): Promise<AppError> {
+  const db = await getDb();
+  const who = alias(users, "who");
+  const [latest] = await db
+    .select({ action: reportEvents.action, at: reportEvents.at, note: reportEvents.note, name: who.name })
+    .from(reportEvents)
+    .leftJoin(who, eq(who.id, reportEvents.actorId))
+    .where(eq(reportEvents.reportId, id))
+    .orderBy(desc(reportEvents.at), desc(reportEvents.id))
+    .limit(1);
+  const detail = latest ? ` Last change: ${latest.name ?? "someone"} — ${latest.action}${latest.note ? ` (“${latest.note}”)` : ""} at ${latest.at.toISOString()}.` : "";
+  return new AppError("conflict", `This report is ${status.replace("_", " ")}, so "${decision}" no longer applies.${detail}`);
+}
+
+async function notifyMember(userId: string, reportId: string, decision: keyof typeof words, note: string) {
+  const db = await getDb();
+  const [u] = await db.select({ email: users.email, name: users.name }).from(users).where(eq(users.id, userId));
+  if (!u) return;
+  const w = words[decision];
+  await sendMail({
+    to: u.email,
+    subject: `Your Tanklore report was ${w.subject}`,
+    text: `Hello ${u.name},\n\n${w.lead}\n${note ? `\nThe moderator's note:\n${note}\n` : ""}\nSee the report: ${publicBaseUrl()}/reports/${reportId}\n\n— Tanklore`,
+  });
+}
+
+/** Corrections a moderator may make, each with a note in the audit trail. */
+export async function correctReport(actor: Actor | null, id: string, input: CorrectionInput) {
+  assertRole(actor, ["moderator", "admin"], "correct reports");
+  const row = await getReportRowById(id);
+  if (!row || row.status === "draft") throw notFound("That report");
+  if (row.authorId === actor.id) throw new AppError("forbidden", "You cannot correct your own report; another moderator has to.");
+  if (!["awaiting_review", "accepted"].includes(row.status)) throw new AppError("conflict", `This report is ${row.status.replace("_", " ")}; corrections apply while it awaits review or is accepted.`);
+  const db = await getDb();
+  return db.transaction(async (tx) => {
+    if (input.kind === "species") {
+      const [sp] = await tx.select().from(species).where(eq(species.id, input.speciesId));
+      if (!sp) throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "speciesId", message: `No species "${input.speciesId}" in the catalogue.` }]);
+      await tx.update(reports).set({ speciesId: sp.id, groupSlug: sp.groupSlug, updatedAt: new Date() }).where(eq(reports.id, id));
+      await recordEvent(tx, { reportId: id, actorId: actor.id, action: "map_species", from: row.status, to: row.status, note: `${row.speciesOther ?? row.speciesId ?? "?"} → ${sp.scientificName}: ${input.note}` });
+    } else {
+      if (!row.fishLost) throw new AppError("conflict", "No fish were lost in this report, so there is no cause to correct.");
+      await tx.update(reports).set({ lossCause: input.lossCause, updatedAt: new Date() }).where(eq(reports.id, id));
+      await recordEvent(tx, { reportId: id, actorId: actor.id, action: "correct_loss_cause", from: row.status, to: row.status, note: `${row.lossCause} → ${input.lossCause}: ${input.note}` });
+    }
+    const [fresh] = await tx.select().from(reports).where(eq(reports.id, id));
+    const d = await derive(tx as never, fresh!);
+    const [u] = await tx.update(reports).set(d).where(eq(reports.id, id)).returning();
+    return { id, status: u!.status, groupSlug: u!.groupSlug, agentSlug: u!.agentSlug, previousGroupSlug: row.groupSlug };
+  });
+}

@@ -1,0 +1,3 @@
+export { getReviewQueue, countAwaitingReview, getGroupContext } from "./queue";
+export { decideReport, correctReport, type DecisionResult } from "./decide";
+export { sendModeratorDigests, startDigestScheduler } from "./digest";
