@@ -36,7 +36,8 @@ export function mailTo(to: string): string[] {
     .readdirSync(dir)
     .filter((f) => f.endsWith(".eml"))
     .sort()
-    .map((f) => fs.readFileSync(path.join(dir, f), "utf8"))
+    // Undo quoted-printable soft line breaks so a test can match whole sentences.
+    .map((f) => fs.readFileSync(path.join(dir, f), "utf8").replace(/=\r?\n/g, "").replace(/=3D/g, "="))
     .filter((m) => new RegExp(`^To: .*${to.replace(/[.+]/g, "\\$&")}`, "mi").test(m));
 }
 
