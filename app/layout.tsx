@@ -8,6 +8,8 @@ import { QueryProvider } from "@/features/shared/components/query-provider";
 import { ANECDOTAL_NOTICE } from "@/features/shared/components/ui";
 import { getPageActor } from "@/features/members/server";
 import { getClubSettings } from "@/features/catalogue/server";
+import { countAwaitingReview } from "@/features/review/server";
+import { canReview } from "@/features/shared/roles";
 
 export const metadata: Metadata = {
   title: { default: "Tanklore", template: "%s · Tanklore" },
@@ -18,11 +20,12 @@ export default async function RootLayout({ children }: { children: ReactNode }) 
   // Every page reads the session and the club's name: render per request, never at build time.
   await connection();
   const [actor, club] = await Promise.all([getPageActor(), getClubSettings()]);
+  const awaiting = canReview(actor) ? await countAwaitingReview() : null;
   return (
     <html lang="en" className={`${bodyFont.variable} ${displayFont.variable}`}>
       <body className="min-h-screen bg-paper font-sans text-ink antialiased">
         <QueryProvider>
-          <SiteHeader actor={actor} clubName={club.name} />
+          <SiteHeader actor={actor} clubName={club.name} awaiting={awaiting} />
           <main id="main" className="mx-auto max-w-6xl px-4 py-8">
             {children}
           </main>

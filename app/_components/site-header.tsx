@@ -4,14 +4,16 @@ import { SignOutButton } from "@/features/members/components/sign-out-button";
 
 const roleLabel = { member: "member", moderator: "moderator", admin: "club officer" } as const;
 
-export function SiteHeader({ actor, clubName }: { actor: Actor | null; clubName: string }) {
+export function SiteHeader({ actor, clubName, awaiting }: { actor: Actor | null; clubName: string; awaiting: number | null }) {
   const links: { href: string; label: string }[] = [
+    { href: "/evidence", label: "Evidence" },
     { href: "/planner", label: "Dose planner" },
     { href: "/cautions", label: "Cautions" },
   ];
   if (actor) links.push({ href: "/reports", label: "My reports" });
+  if (awaiting !== null) links.push({ href: "/review", label: `Review (${awaiting})` });
   if (actor?.role === "admin") {
-    links.push({ href: "/admin/members", label: "Members" }, { href: "/admin/mail", label: "Mail outbox" });
+    links.push({ href: "/admin/members", label: "Members" }, { href: "/admin/settings", label: "Club settings" }, { href: "/admin/mail", label: "Mail outbox" });
   }
   return (
     <header className="bg-peat-900 text-peat-50 no-print">

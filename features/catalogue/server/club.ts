@@ -20,3 +20,15 @@ export async function getClubSettings(): Promise<ClubSettings> {
     defaultTemperatureUnit: row?.defaultTemperatureUnit ?? "C",
   };
 }
+
+/** An admin changes the club's settings; the change is recorded with before and after. */
+export async function updateClubSettings(actorId: string, input: import("../settings-schema").ClubSettingsInput): Promise<ClubSettings> {
+  const db = await getDb();
+  const before = await getClubSettings();
+  await db.transaction(async (tx) => {
+    await tx.insert(schema.clubSettings).values({ id: 1 }).onConflictDoNothing();
+    await tx.update(schema.clubSettings).set({ ...input, updatedAt: new Date() }).where(eq(schema.clubSettings.id, 1));
+    await tx.insert(schema.catalogueChanges).values({ actorId, entity: "club_settings", entityKey: "1", action: "update", before, after: input });
+  });
+  return getClubSettings();
+}

@@ -1,4 +1,4 @@
 export { getCatalogue } from "./queries";
 export { seedCatalogue, speciesIdOf } from "./seed";
-export { getClubSettings, type ClubSettings } from "./club";
+export { getClubSettings, updateClubSettings, type ClubSettings } from "./club";
 export { planDoseFromQuery } from "./dose";

@@ -1,0 +1,70 @@
+"use client";
+
+import * as Plot from "@observablehq/plot";
+import { useEffect, useRef } from "react";
+
+interface Props {
+  unit: string;
+  points: { dose: number; tolerated: boolean; cleared: boolean }[];
+  p25: number | null;
+  p75: number | null;
+  median: number | null;
+  medianInterval: { low: number; high: number } | null;
+  lowestAdverse: number | null;
+  bands: { from: number; to: number | null; reports: number; toleratedShare: { value: number | null; low: number | null; high: number | null } }[];
+}
+
+/** Each report as a point at its dose; the interquartile range shaded, the median and its interval drawn. */
+export function DoseChart({ unit, points, p25, p75, median, medianInterval, lowestAdverse, bands }: Props) {
+  const dots = useRef<HTMLDivElement>(null);
+  const shares = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    const outcome = (d: Props["points"][number]) => (d.tolerated ? "Tolerated" : "Adverse");
+    const chart = Plot.plot({
+      height: 220,
+      marginLeft: 90,
+      x: { label: `Peak dose (${unit})`, grid: true },
+      y: { axis: null },
+      color: { domain: ["Tolerated", "Adverse"], range: ["#2f7a63", "#b3261e"] },
+      marks: [
+        p25 !== null && p75 !== null ? Plot.rectX([{ x1: p25, x2: p75 }], { x1: "x1", x2: "x2", fill: "#d5e7df", fillOpacity: 0.8 }) : null,
+        medianInterval ? Plot.rectX([{ ...medianInterval, facet: "Tolerated" }], { x1: "low", x2: "high", fy: "facet", fill: "none", stroke: "#1d5444", strokeDasharray: "4,3" }) : null,
+        median !== null ? Plot.ruleX([median], { stroke: "#0f2e26", strokeWidth: 2 }) : null,
+        lowestAdverse !== null ? Plot.ruleX([lowestAdverse], { stroke: "#b3261e", strokeDasharray: "2,2" }) : null,
+        Plot.dot(points, Plot.dodgeY({ x: "dose", fy: outcome, fill: outcome, r: 3.5, fillOpacity: 0.75, anchor: "middle", title: (d: Props["points"][number]) => `${d.dose.toFixed(1)} ${unit} — ${outcome(d).toLowerCase()}${d.cleared ? ", cleared" : ""}` })),
+      ],
+      fy: { label: null, domain: ["Tolerated", "Adverse"], axis: "left" },
+    });
+    const withData = bands.filter((b) => b.reports > 0);
+    const shareChart = Plot.plot({
+      height: 220,
+      marginLeft: 50,
+      x: { label: `Dose band (${unit})`, domain: withData.map((b) => `${b.from}–${b.to ?? "+"}`) },
+      y: { label: "Share tolerated", domain: [0, 1], tickFormat: "%", grid: true },
+      marks: [
+        Plot.ruleX(withData, { x: (b) => `${b.from}–${b.to ?? "+"}`, y1: (b) => b.toleratedShare.low, y2: (b) => b.toleratedShare.high, stroke: "#1d5444" }),
+        Plot.dot(withData, { x: (b) => `${b.from}–${b.to ?? "+"}`, y: (b) => b.toleratedShare.value, fill: "#1d5444", r: 4, title: (b) => `${b.reports} reports` }),
+      ],
+    });
+    dots.current?.replaceChildren(chart);
+    shares.current?.replaceChildren(shareChart);
+    return () => {
+      chart.remove();
+      shareChart.remove();
+    };
+  }, [unit, points, p25, p75, median, medianInterval, lowestAdverse, bands]);
+  return (
+    <div className="grid gap-4">
+      <figure className="grid gap-1">
+        <div ref={dots} data-testid="dose-chart" aria-hidden="true" />
+        <figcaption className="text-sm text-peat-700">
+          Each dot is one accepted report at its peak dose. Shaded: the middle half of tolerated doses; solid line: their median; dashed box: the median&apos;s interval; red dashed line: the lowest dose that went badly.
+        </figcaption>
+      </figure>
+      <figure className="grid gap-1">
+        <div ref={shares} data-testid="band-chart" aria-hidden="true" />
+        <figcaption className="text-sm text-peat-700">Share of reports tolerated in each dose band, with its Wilson interval. The band table below gives the same figures as text.</figcaption>
+      </figure>
+    </div>
+  );
+}

@@ -1,0 +1,130 @@
+"use client";
+
+import Link from "next/link";
+import { useQuery } from "@tanstack/react-query";
+import {
+  createColumnHelper, createPaginatedRowModel, createSortedRowModel, rowPaginationFeature, rowSortingFeature, sortFn_alphanumeric, sortFn_basic,
+  tableFeatures, useTable, type PaginationState, type SortingState,
+} from "@tanstack/react-table";
+import { useId, useMemo, useState } from "react";
+import { ApiError, fetchJson } from "@/features/shared/fetch-json";
+
+export interface QueueRow {
+  id: string;
+  species: string;
+  groupName: string | null;
+  agentName: string | null;
+  concentration: number | null;
+  unit: string | null;
+  submittedAt: string | null;
+  authorName: string;
+  flags: { code: string; message: string }[];
+  completeness: number | null;
+  isMine: boolean;
+  source: string;
+}
+
+const features = tableFeatures({
+  rowSortingFeature, rowPaginationFeature,
+  sortedRowModel: createSortedRowModel(), paginatedRowModel: createPaginatedRowModel(),
+  sortFns: { alphanumeric: sortFn_alphanumeric, basic: sortFn_basic },
+});
+const helper = createColumnHelper<typeof features, QueueRow>();
+const empty: QueueRow[] = [];
+
+export const flagLabels: Record<string, string> = {
+  stated_mismatch: "stated ≠ computed", above_ceiling: "above ceiling", outside_group_range: "outside group's range",
+  temperature_unusual: "temperature", ph_unusual: "pH", species_not_listed: "species not listed", no_photos: "no photos", suspected_duplicate: "possible duplicate",
+};
+
+const columns = helper.columns([
+  helper.accessor("species", { header: "Fish", sortFn: "alphanumeric", cell: (c) => <Link href={`/review/${c.row.original.id}`} className="font-bold">{c.getValue()}</Link> }),
+  helper.accessor((r) => r.groupName ?? "—", { id: "group", header: "Group", sortFn: "alphanumeric" }),
+  helper.accessor((r) => r.agentName ?? "—", { id: "agent", header: "Treatment", sortFn: "alphanumeric" }),
+  helper.accessor((r) => r.concentration ?? -1, { id: "dose", header: "Dose", sortFn: "basic", cell: (c) => (c.row.original.concentration == null ? "—" : `${c.row.original.concentration.toFixed(c.row.original.concentration >= 10 ? 1 : 2)} ${c.row.original.unit}`) }),
+  helper.accessor((r) => r.submittedAt ?? "", { id: "submitted", header: "Submitted", sortFn: "alphanumeric", cell: (c) => (c.getValue() ? new Date(c.getValue()).toLocaleDateString("en-GB") : "—") }),
+  helper.accessor("authorName", { header: "Member", sortFn: "alphanumeric", cell: (c) => <>{c.getValue()}{c.row.original.isMine ? " (you)" : ""}</> }),
+  helper.accessor((r) => r.flags.length, {
+    id: "flags", header: "Flags", sortFn: "basic",
+    cell: (c) => (
+      <ul className="flex flex-wrap gap-1">
+        {c.row.original.flags.map((f) => <li key={f.code} title={f.message} className="rounded bg-reed-100 px-1.5 text-xs">{flagLabels[f.code] ?? f.code}</li>)}
+      </ul>
+    ),
+  }),
+  helper.accessor((r) => r.completeness ?? 0, { id: "completeness", header: "Complete", sortFn: "basic", cell: (c) => `${Math.round(c.getValue() * 100)} %` }),
+]);
+
+export function QueueTable() {
+  const id = useId();
+  const query = useQuery({ queryKey: ["review", "queue"], queryFn: () => fetchJson<{ reports: QueueRow[] }>("/api/review/queue"), refetchInterval: 60_000 });
+  const [flag, setFlag] = useState("");
+  const [agent, setAgent] = useState("");
+  const [sorting, setSorting] = useState<SortingState>([{ id: "submitted", desc: false }]);
+  const [pagination, setPagination] = useState<PaginationState>({ pageIndex: 0, pageSize: 25 });
+  const all = query.data?.reports ?? empty;
+  const data = useMemo(() => all.filter((r) => (!flag || r.flags.some((f) => f.code === flag)) && (!agent || r.agentName === agent)), [all, flag, agent]);
+  const agents = useMemo(() => [...new Set(all.map((r) => r.agentName).filter(Boolean))] as string[], [all]);
+  const table = useTable({ features, columns, data, state: { sorting, pagination }, onSortingChange: setSorting, onPaginationChange: setPagination, enableMultiSort: false, getRowId: (r) => r.id });
+  return (
+    <div className="grid gap-4">
+      <div className="flex flex-wrap items-end gap-4">
+        <div className="grid gap-1">
+          <label htmlFor={`${id}-flag`} className="font-bold">Flag</label>
+          <select id={`${id}-flag`} className="rounded-md border border-peat-300 bg-white px-3 py-2" value={flag} onChange={(e) => { setFlag(e.target.value); setPagination((p) => ({ ...p, pageIndex: 0 })); }}>
+            <option value="">Any</option>
+            {Object.entries(flagLabels).map(([k, v]) => <option key={k} value={k}>{v}</option>)}
+          </select>
+        </div>
+        <div className="grid gap-1">
+          <label htmlFor={`${id}-agent`} className="font-bold">Treatment</label>
+          <select id={`${id}-agent`} className="rounded-md border border-peat-300 bg-white px-3 py-2" value={agent} onChange={(e) => { setAgent(e.target.value); setPagination((p) => ({ ...p, pageIndex: 0 })); }}>
+            <option value="">Any</option>
+            {agents.map((a) => <option key={a} value={a}>{a}</option>)}
+          </select>
+        </div>
+        <button type="button" className="rounded-md border border-peat-300 px-3 py-2" onClick={() => setSorting([{ id: "completeness", desc: true }])}>Most complete first</button>
+        <button type="button" className="rounded-md border border-peat-300 px-3 py-2" onClick={() => setSorting([{ id: "submitted", desc: false }])}>Oldest first</button>
+        <p aria-live="polite" className="text-sm text-peat-700">{query.isFetching ? "Loading…" : `${data.length} of ${all.length} awaiting review`}</p>
+      </div>
+      {query.isError ? <p role="alert" className="font-bold text-alarm-700">{query.error instanceof ApiError ? query.error.message : "The queue could not be loaded."}</p> : null}
+      <div className="overflow-x-auto rounded-lg border border-peat-100 bg-white">
+        <table className="w-full text-left">
+          <caption className="sr-only">Reports awaiting review</caption>
+          <thead className="bg-peat-50">
+            {table.getHeaderGroups().map((g) => (
+              <tr key={g.id}>
+                {g.headers.map((h) => {
+                  const s = h.column.getIsSorted();
+                  return (
+                    <th key={h.id} scope="col" className="px-3 py-2" aria-sort={s === "asc" ? "ascending" : s === "desc" ? "descending" : "none"}>
+                      <button type="button" className="font-bold" onClick={h.column.getToggleSortingHandler()}>
+                        <table.FlexRender header={h} /><span aria-hidden="true">{s === "asc" ? " ▲" : s === "desc" ? " ▼" : ""}</span>
+                      </button>
+                    </th>
+                  );
+                })}
+              </tr>
+            ))}
+          </thead>
+          <tbody>
+            {table.getRowModel().rows.length === 0 ? (
+              <tr><td colSpan={columns.length} className="px-3 py-8 text-center text-peat-700">{query.isPending ? "Loading the queue…" : "Nothing awaits review. Well done."}</td></tr>
+            ) : (
+              table.getRowModel().rows.map((row) => (
+                <tr key={row.id} className="border-t border-peat-100 align-top">
+                  {row.getAllCells().map((cell) => <td key={cell.id} className="px-3 py-2"><table.FlexRender cell={cell} /></td>)}
+                </tr>
+              ))
+            )}
+          </tbody>
+        </table>
+      </div>
+      <nav aria-label="Queue pages" className="flex items-center gap-3">
+        <button type="button" className="rounded border border-peat-300 px-3 py-1 disabled:opacity-40" disabled={!table.getCanPreviousPage()} onClick={() => table.previousPage()}>Previous</button>
+        <span>Page {pagination.pageIndex + 1} of {Math.max(1, table.getPageCount())}</span>
+        <button type="button" className="rounded border border-peat-300 px-3 py-1 disabled:opacity-40" disabled={!table.getCanNextPage()} onClick={() => table.nextPage()}>Next</button>
+      </nav>
+    </div>
+  );
+}
