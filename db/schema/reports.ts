@@ -186,7 +186,10 @@ export const evidenceSummaries = pgTable(
     methodVersion: text().notNull(),
     confidenceLevel: integer().notNull(),
     reports: integer().notNull(),
-    data: jsonb().notNull(),
+    /** The list figures (what GET /api/summaries returns per group). */
+    summary: jsonb().notNull(),
+    /** The group page's extra: bands, anonymous points, contributing species. */
+    detail: jsonb().notNull(),
     computedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [primaryKey({ columns: [t.agentSlug, t.conditionSlug, t.groupSlug] })],

@@ -2,97 +2,100 @@ import { and, eq, sql } from "drizzle-orm";
 import { getDb, schema, type Db } from "@/db/client";
 import { getClubSettings } from "@/features/catalogue/server";
 import { medianRank, wilson } from "../stats";
-import { METHOD_VERSION, type Band, type SummaryDetail } from "../summary";
+import { invalidateSummaryCache } from "./cache";
+import { METHOD_VERSION, type Band, type Summary, type SummaryDetail } from "../summary";
 
 const { evidenceSummaries, agents, speciesGroups } = schema;
 
 interface Row {
-  c: string;
+  whole: boolean;
+  c: string | null;
   reports: number;
   members: number;
   fish: number;
   tolerated: number;
   q: number[] | null;
   lowest_adverse: number | null;
-  doses: number[] | null;
-  bands: [number, number, number, number][] | null;
-  points: [number, boolean, boolean][] | null;
-  species: [string | null, string, string | null, number][] | null;
+  /** x₍r₎ and x₍n−r+1₎ of the tolerated doses, when the set has a median interval. */
+  mi: number[] | null;
+  bn: number[];
+  bt: number[];
+  bc: number[];
 }
 
 const rowsOf = <T,>(r: unknown) => (r as { rows: T[] }).rows;
 const toNum = (x: unknown) => (x === null || x === undefined ? null : Number(x));
-const nums = (xs: unknown): number[] | null => (xs == null ? null : (typeof xs === "string" ? JSON.parse(xs.replace(/^\{/, "[").replace(/\}$/, "]")) : (xs as unknown[])).map(Number));
 
-/**
- * The whole summary of one group × agent, for every condition at once ("" = all conditions), in one
- * SQL statement: counts, type-7 quantiles (percentile_cont), the lowest adverse dose, band counts,
- * the sorted tolerated doses (for the median interval's order statistics), the points and species.
- */
-export function summarySql(groupSlug: string, agentSlug: string, edges: number[]) {
-  const edgeArray = sql.raw(`array[${edges.map((e) => Number(e)).join(",")}]::float8[]`);
-  return sql`
-    with base as (
-      select r.author_id, r.fish_count, r.concentration as dose, r.species_id, r.species_other,
-             coalesce(r.condition_slug, '') as cond,
-             (not (coalesce(r.fish_lost, 0) > 0 and coalesce(r.loss_cause, 'unknown') in ('treatment', 'unknown')) and coalesce(r.distress, 'none') <> 'severe') as tol,
-             r.condition_outcome = 'cleared' as clr
-        from reports r
-       where r.status = 'accepted' and r.group_slug = ${groupSlug} and r.agent_slug = ${agentSlug} and r.concentration is not null
-    ),
-    expanded as (
-      select '' as c, b.* from base b
-      union all
-      select b.cond as c, b.* from base b where b.cond <> ''
-    ),
-    bands as (
-      select c, width_bucket(dose, ${edgeArray}) as bucket, count(*)::int as n,
-             count(*) filter (where tol)::int as t, count(*) filter (where clr)::int as cl
-        from expanded group by c, bucket
-    ),
-    sp as (
-      select b.species_id, coalesce(s.common_name, b.species_other, '?') as common_name, s.scientific_name, count(*)::int as n
-        from base b left join species s on s.id = b.species_id
-       group by b.species_id, coalesce(s.common_name, b.species_other, '?'), s.scientific_name
-    )
-    select e.c,
-           count(*)::int as reports,
-           count(distinct e.author_id)::int as members,
-           coalesce(sum(e.fish_count), 0)::int as fish,
-           count(*) filter (where e.tol)::int as tolerated,
-           percentile_cont(array[0, 0.1, 0.25, 0.5, 0.75, 0.9, 1]::float8[]) within group (order by e.dose) filter (where e.tol) as q,
-           min(e.dose) filter (where not e.tol) as lowest_adverse,
-           array_agg(e.dose order by e.dose) filter (where e.tol) as doses,
-           (select json_agg(json_build_array(bucket, n, t, cl) order by bucket) from bands where bands.c = e.c) as bands,
-           case when e.c = '' then json_agg(json_build_array(e.dose, e.tol, e.clr) order by e.dose, e.tol, e.clr) end as points,
-           case when e.c = '' then (select json_agg(json_build_array(species_id, common_name, scientific_name, n) order by n desc, common_name) from sp) end as species
-      from expanded e
-     group by e.c`;
+/** A report counts as tolerated: no fish lost to the treatment or an unknown cause, and no severe distress. */
+const TOLERATED = sql.raw(
+  "(not (coalesce(r.fish_lost, 0) > 0 and coalesce(r.loss_cause, 'unknown') in ('treatment', 'unknown')) and coalesce(r.distress, 'none') <> 'severe')",
+);
+
+const accepted = (groupSlug: string, agentSlug: string) =>
+  sql`r.status = 'accepted' and r.group_slug = ${groupSlug} and r.agent_slug = ${agentSlug} and r.concentration is not null`;
+
+/** Tolerated-report counts per condition set (all conditions, then each): the n the median ranks need. */
+export function toleratedCountsSql(groupSlug: string, agentSlug: string) {
+  return sql`select grouping(c) = 1 as whole, c, count(*)::int as n
+               from (select coalesce(r.condition_slug, '') as c from reports r where ${accepted(groupSlug, agentSlug)} and ${TOLERATED}) t
+              group by grouping sets ((), (c))`;
 }
 
-function bandsFrom(edges: number[], counts: [number, number, number, number][] | null, level: number): Band[] {
-  const byBucket = new Map((counts ?? []).map(([b, n, t, cl]) => [Number(b), { n: Number(n), t: Number(t), cl: Number(cl) }]));
+/** percentile_disc(f) returns x₍⌈f·n⌉₎; (k − ½)/n picks x₍k₎ without rounding trouble. */
+const disc = (k: number, n: number) => (k - 0.5) / n;
+
+/**
+ * Every figure of one group × agent's summaries, for all conditions and each condition at once
+ * (grouping sets), in one SQL statement: counts, type-7 quantiles of tolerated doses (percentile_cont),
+ * the order statistics of the median interval (percentile_disc at the ranks worked out from n), the
+ * lowest adverse dose, and per-band report, tolerated and cleared counts.
+ */
+export function summarySql(groupSlug: string, agentSlug: string, edges: number[], ranks: Map<string, { r: number; n: number }>) {
+  const edgeArray = sql.raw(`array[${edges.map(Number).join(",")}]::float8[]`);
+  const buckets = Array.from({ length: edges.length + 1 }, (_, i) => i);
+  const counts = (extra: string) => sql.raw(`array[${buckets.map((b) => `count(*) filter (where bucket = ${b}${extra})::int`).join(", ")}]`);
+  // The median interval's fractions per set, as a CASE on the set's key (constants: evaluated once per group).
+  // Direct arguments may name grouping columns only: in the all-conditions row, cond is null.
+  const cases = [...ranks.entries()].map(([key, { r, n }]) =>
+    sql`when ${key === "*all*" ? sql`cond is null` : sql`cond = ${key}`} then array[${disc(r, n)}::float8, ${disc(n - r + 1, n)}::float8]`,
+  );
+  const fractions = cases.length ? sql`case ${sql.join(cases, sql` `)} end` : sql`null::float8[]`;
+  return sql`
+    with base as (
+      select r.author_id, r.fish_count, r.concentration as dose, coalesce(r.condition_slug, '') as cond,
+             ${TOLERATED} as tol, r.condition_outcome = 'cleared' as clr, width_bucket(r.concentration, ${edgeArray}) as bucket
+        from reports r
+       where ${accepted(groupSlug, agentSlug)}
+    )
+    select grouping(cond) = 1 as whole, cond as c,
+           count(*)::int as reports,
+           count(distinct author_id)::int as members,
+           coalesce(sum(fish_count), 0)::int as fish,
+           count(*) filter (where tol)::int as tolerated,
+           percentile_cont(array[0, 0.1, 0.25, 0.5, 0.75, 0.9, 1]::float8[]) within group (order by dose) filter (where tol) as q,
+           percentile_disc(${fractions}) within group (order by dose) filter (where tol) as mi,
+           min(dose) filter (where not tol) as lowest_adverse,
+           ${counts("")} as bn, ${counts(" and tol")} as bt, ${counts(" and clr")} as bc
+      from base
+     group by grouping sets ((), (cond))`;
+}
+
+function bandsFrom(edges: number[], row: Row, level: number): Band[] {
   const out: Band[] = [];
-  // width_bucket: i for edges[i-1] <= x < edges[i]; edges.length for x >= the last edge.
+  // width_bucket: bucket i holds edges[i-1] <= x < edges[i]; edges.length holds x >= the last edge.
   for (let i = 1; i <= edges.length; i++) {
-    const c = byBucket.get(i) ?? { n: 0, t: 0, cl: 0 };
-    if (i === edges.length && c.n === 0) continue;
-    out.push({
-      from: edges[i - 1]!, to: i < edges.length ? edges[i]! : null, reports: c.n,
-      tolerated: c.t, toleratedShare: wilson(c.t, c.n, level), cleared: c.cl, clearedShare: wilson(c.cl, c.n, level),
-    });
+    const n = Number(row.bn[i] ?? 0), t = Number(row.bt[i] ?? 0), cl = Number(row.bc[i] ?? 0);
+    if (i === edges.length && n === 0) continue;
+    out.push({ from: edges[i - 1]!, to: i < edges.length ? edges[i]! : null, reports: n, tolerated: t, toleratedShare: wilson(t, n, level), cleared: cl, clearedShare: wilson(cl, n, level) });
   }
   return out;
 }
 
-export function summaryFromRow(row: Row, group: { slug: string; name: string }, edges: number[], level: number, minReports: number): SummaryDetail {
-  const q = nums(row.q);
-  const doses = nums(row.doses) ?? [];
+export function summaryFromRow(row: Row, group: { slug: string; name: string }, edges: number[], level: number, minReports: number): Summary & { bands: Band[] } {
+  const q = row.q ? row.q.map(Number) : null;
   const nt = Number(row.tolerated);
   const rank = medianRank(nt, level);
-  const pts = (typeof row.points === "string" ? JSON.parse(row.points) : row.points) as [number, boolean, boolean][] | null;
-  const bandRows = (typeof row.bands === "string" ? JSON.parse(row.bands) : row.bands) as Row["bands"];
-  const sp = (typeof row.species === "string" ? JSON.parse(row.species) : row.species) as Row["species"];
+  const mi = row.mi ? row.mi.map(Number) : null;
   return {
     group,
     reports: Number(row.reports),
@@ -102,14 +105,37 @@ export function summaryFromRow(row: Row, group: { slug: string; name: string }, 
     toleratedShare: wilson(nt, Number(row.reports), level),
     toleratedDose: {
       min: q ? q[0]! : null, p10: q ? q[1]! : null, p25: q ? q[2]! : null, median: q ? q[3]! : null, p75: q ? q[4]! : null, p90: q ? q[5]! : null, max: q ? q[6]! : null,
-      medianInterval: rank ? { low: doses[rank.r - 1]!, high: doses[nt - rank.r]!, coverage: rank.coverage } : null,
+      medianInterval: rank && mi ? { low: mi[0]!, high: mi[1]!, coverage: rank.coverage } : null,
     },
     lowestAdverseDose: toNum(row.lowest_adverse),
     sparse: Number(row.reports) < minReports,
-    bands: bandsFrom(edges, bandRows, level),
-    points: (pts ?? []).map(([dose, tolerated, cleared]) => ({ dose: Number(dose), tolerated: Boolean(tolerated), cleared: Boolean(cleared) })),
-    species: (sp ?? []).map(([id, commonName, scientificName, n]) => ({ id, commonName, scientificName, reports: Number(n) })),
+    bands: bandsFrom(edges, row, level),
   };
+}
+
+/** The chart's anonymous points and the contributing species of one group × agent, read when its page is shown. */
+export async function getPointsAndSpecies(groupSlug: string, agentSlug: string, conditionSlug: string) {
+  const db = await getDb();
+  const cond = conditionSlug ? sql`and r.condition_slug = ${conditionSlug}` : sql``;
+  const [row] = rowsOf<{ pts: string | null; species: unknown }>(
+    await db.execute(sql`
+      select string_agg(r.concentration::text || ':' || (${TOLERATED}::int * 2 + (r.condition_outcome = 'cleared')::int)::text, ',' order by r.concentration) as pts,
+             (select json_agg(json_build_array(x.species_id, x.common_name, x.scientific_name, x.n) order by x.n desc, x.common_name)
+                from (select r2.species_id, coalesce(s.common_name, r2.species_other, '?') as common_name, s.scientific_name, count(*)::int as n
+                        from reports r2 left join species s on s.id = r2.species_id
+                       where r2.status = 'accepted' and r2.group_slug = ${groupSlug} and r2.agent_slug = ${agentSlug} and r2.concentration is not null
+                             ${conditionSlug ? sql`and r2.condition_slug = ${conditionSlug}` : sql``}
+                       group by 1, 2, 3) x) as species
+        from reports r
+       where ${accepted(groupSlug, agentSlug)} ${cond}`),
+  );
+  const points = (row?.pts ? row.pts.split(",") : []).map((p) => {
+    const [dose, code] = p.split(":");
+    const c = Number(code);
+    return { dose: Number(dose), tolerated: c >= 2, cleared: c % 2 === 1 };
+  });
+  const sp = (typeof row?.species === "string" ? JSON.parse(row.species) : row?.species) as [string | null, string, string | null, number][] | null;
+  return { points, species: (sp ?? []).map(([id, commonName, scientificName, n]) => ({ id, commonName, scientificName, reports: Number(n) })) };
 }
 
 /** Recomputes and stores one group × agent (all conditions); removes rows that no longer have reports. */
@@ -119,11 +145,22 @@ export async function recomputeGroupAgent(db: Db, groupSlug: string, agentSlug: 
   const [group] = await db.select({ slug: speciesGroups.slug, name: speciesGroups.name }).from(speciesGroups).where(eq(speciesGroups.slug, groupSlug));
   if (!agent || !group) return 0;
   const edges = [...agent.bandEdges].sort((a, b) => a - b);
-  const rows = rowsOf<Row>(await db.execute(summarySql(groupSlug, agentSlug, edges)));
-  const values = rows.map((row) => ({
-    groupSlug, agentSlug, conditionSlug: row.c, methodVersion: METHOD_VERSION, confidenceLevel: s.confidenceLevel, reports: Number(row.reports),
-    data: summaryFromRow(row, group, edges, s.confidenceLevel, s.minReports), computedAt: new Date(),
-  }));
+  // First the tolerated counts, so the median ranks are known; then every figure in one statement.
+  const counts = rowsOf<{ whole: boolean; c: string | null; n: number }>(await db.execute(toleratedCountsSql(groupSlug, agentSlug)));
+  const ranks = new Map<string, { r: number; n: number }>();
+  for (const k of counts) {
+    const rank = medianRank(Number(k.n), s.confidenceLevel);
+    if (rank) ranks.set(k.whole ? "*all*" : (k.c ?? ""), { r: rank.r, n: Number(k.n) });
+  }
+  const rows = rowsOf<Row>(await db.execute(summarySql(groupSlug, agentSlug, edges, ranks)));
+  const values = rows.map((row) => {
+    const { bands, ...summary } = summaryFromRow(row, group, edges, s.confidenceLevel, s.minReports);
+    return {
+      groupSlug, agentSlug, conditionSlug: row.whole ? "" : (row.c ?? ""), methodVersion: METHOD_VERSION, confidenceLevel: s.confidenceLevel,
+      reports: Number(row.reports), summary, detail: { bands }, computedAt: new Date(),
+    };
+  });
+  invalidateSummaryCache();
   await db.transaction(async (tx) => {
     await tx.delete(evidenceSummaries).where(and(eq(evidenceSummaries.groupSlug, groupSlug), eq(evidenceSummaries.agentSlug, agentSlug)));
     if (values.length) await tx.insert(evidenceSummaries).values(values);
@@ -158,11 +195,22 @@ export async function recomputeAll(db?: Db): Promise<number> {
   return n;
 }
 
+/** The list figures of every group for an agent (small rows: no points). */
 export async function getStoredSummaries(agentSlug: string, conditionSlug: string) {
   const db = await getDb();
   return db
-    .select({ groupSlug: evidenceSummaries.groupSlug, data: evidenceSummaries.data, confidenceLevel: evidenceSummaries.confidenceLevel, methodVersion: evidenceSummaries.methodVersion })
+    .select({ groupSlug: evidenceSummaries.groupSlug, summary: evidenceSummaries.summary })
     .from(evidenceSummaries)
     .where(and(eq(evidenceSummaries.agentSlug, agentSlug), eq(evidenceSummaries.conditionSlug, conditionSlug)));
+}
+
+/** One group's stored summary with its detail. */
+export async function getStoredSummary(groupSlug: string, agentSlug: string, conditionSlug: string) {
+  const db = await getDb();
+  const [row] = await db
+    .select({ summary: evidenceSummaries.summary, detail: evidenceSummaries.detail })
+    .from(evidenceSummaries)
+    .where(and(eq(evidenceSummaries.groupSlug, groupSlug), eq(evidenceSummaries.agentSlug, agentSlug), eq(evidenceSummaries.conditionSlug, conditionSlug)));
+  return row ? ({ ...(row.summary as object), ...(row.detail as object) } as SummaryDetail) : null;
 }
 

@@ -1,2 +1,2 @@
-export { recomputeAfterChange, recomputeAll, recomputeGroupAgent, summarySql } from "./compute";
+export { recomputeAfterChange, recomputeAll, recomputeGroupAgent, summarySql, toleratedCountsSql } from "./compute";
 export { getSummaries, getSummaryDetail } from "./queries";

@@ -4,7 +4,7 @@ import { getClubSettings } from "@/features/catalogue/server";
 import { AppError, notFound } from "@/features/shared/errors";
 import { wilson } from "../stats";
 import { ANECDOTAL_TEXT, METHOD_VERSION, type Summary, type SummaryDetail } from "../summary";
-import { getStoredSummaries } from "./compute";
+import { getPointsAndSpecies, getStoredSummaries, getStoredSummary } from "./compute";
 
 const { agents, speciesGroups, conditions } = schema;
 
@@ -36,20 +36,28 @@ async function conditionOrError(slug: string | undefined) {
 
 const strip = ({ bands: _b, points: _p, species: _s, ...summary }: SummaryDetail): Summary => summary;
 
+import { summaryCache } from "./cache";
+
+type SummaryList = Awaited<ReturnType<typeof loadSummaries>>;
+
+export async function getSummaries(agentSlug: string, conditionSlug?: string): Promise<SummaryList> {
+  return summaryCache(`${agentSlug}|${conditionSlug ?? ""}`, () => loadSummaries(agentSlug, conditionSlug));
+}
+
 /** Stored summaries for every visible group (groups without reports appear with zero counts). */
-export async function getSummaries(agentSlug: string, conditionSlug?: string) {
+async function loadSummaries(agentSlug: string, conditionSlug?: string) {
   const [agent, cond, settings] = await Promise.all([agentOrError(agentSlug), conditionOrError(conditionSlug), getClubSettings()]);
   const db = await getDb();
   const [groups, stored] = await Promise.all([
     db.select({ slug: speciesGroups.slug, name: speciesGroups.name }).from(speciesGroups).where(eq(speciesGroups.hidden, false)).orderBy(asc(speciesGroups.sortOrder), asc(speciesGroups.name)),
     getStoredSummaries(agent.slug, cond),
   ]);
-  const byGroup = new Map(stored.map((s) => [s.groupSlug, s.data as SummaryDetail]));
+  const byGroup = new Map(stored.map((s) => [s.groupSlug, s.summary as Summary]));
   const edges = [...agent.bandEdges].sort((a, b) => a - b);
   return {
     agent: agent.slug, agentName: agent.name, unit: agent.unit, condition: cond || null, confidenceLevel: settings.confidenceLevel, minReports: settings.minReports,
     anecdotal: true as const, notice: ANECDOTAL_TEXT, methodVersion: METHOD_VERSION,
-    groups: groups.map((g) => strip({ ...(byGroup.get(g.slug) ?? emptySummary(g, edges, settings.confidenceLevel)), group: g })),
+    groups: groups.map((g) => ({ ...(byGroup.get(g.slug) ?? strip(emptySummary(g, edges, settings.confidenceLevel))), group: g })),
   };
 }
 
@@ -58,9 +66,9 @@ export async function getSummaryDetail(groupSlug: string, agentSlug: string, con
   const db = await getDb();
   const [group] = await db.select({ slug: speciesGroups.slug, name: speciesGroups.name }).from(speciesGroups).where(eq(speciesGroups.slug, groupSlug));
   if (!group) throw notFound("That species group");
-  const stored = (await getStoredSummaries(agent.slug, cond)).find((s) => s.groupSlug === groupSlug);
+  const [stored, extra] = await Promise.all([getStoredSummary(groupSlug, agent.slug, cond), getPointsAndSpecies(groupSlug, agent.slug, cond)]);
   const edges = [...agent.bandEdges].sort((a, b) => a - b);
-  const data = (stored?.data as SummaryDetail | undefined) ?? emptySummary(group, edges, settings.confidenceLevel);
+  const data = { ...(stored ?? emptySummary(group, edges, settings.confidenceLevel)), ...extra };
   return {
     agent: agent.slug, agentName: agent.name, unit: agent.unit, condition: cond || null, confidenceLevel: settings.confidenceLevel, minReports: settings.minReports,
     anecdotal: true as const, notice: ANECDOTAL_TEXT, methodVersion: METHOD_VERSION, redoseHours: agent.redoseHours,
