@@ -1,2 +1,3 @@
 export * from "./schemas";
 export * from "./settings-schema";
+export * from "./admin-schemas";

@@ -2,3 +2,4 @@ export { getCatalogue } from "./queries";
 export { seedCatalogue, speciesIdOf } from "./seed";
 export { getClubSettings, updateClubSettings, type ClubSettings } from "./club";
 export { planDoseFromQuery } from "./dose";
+export { listCatalogue, createCatalogueEntry, updateCatalogueEntry, deleteCatalogueEntry, mergeSpecies, getCatalogueChanges } from "./admin";
