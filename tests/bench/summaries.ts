@@ -6,11 +6,11 @@
 // It ends with one JSON line: {"summariesThroughputRatio", "recomputeRatio", "peakRssMb"}.
 import { spawn } from "node:child_process";
 import fs from "node:fs";
-import net from "node:net";
 import os from "node:os";
 import path from "node:path";
 import autocannon from "autocannon";
 import { sql } from "drizzle-orm";
+import { freePort } from "../support/free-port";
 
 const REPORTS = Number(process.env.BENCH_REPORTS ?? 100_000);
 const DURATION = Number(process.env.BENCH_SECONDS ?? 10);
@@ -87,15 +87,6 @@ async function measureRecompute() {
   return { group, reportsInGroup: n, bareMs: bare, recomputeMs: recompute, ratio: recompute / bare };
 }
 
-async function freePort(): Promise<number> {
-  return new Promise((resolve) => {
-    const s = net.createServer();
-    s.listen(0, "127.0.0.1", () => {
-      const { port } = s.address() as net.AddressInfo;
-      s.close(() => resolve(port));
-    });
-  });
-}
 
 function rssOf(pid: number): number {
   try {

@@ -1,24 +1,14 @@
 import { execFileSync, spawnSync } from "node:child_process";
 import fs from "node:fs";
-import net from "node:net";
 import os from "node:os";
 import path from "node:path";
+import { freePort } from "./free-port";
 
 /** Whether PostgreSQL server binaries are on this machine. */
 export function hasPostgresServer(): boolean {
   return spawnSync("initdb", ["--version"]).status === 0 && spawnSync("pg_ctl", ["--version"]).status === 0;
 }
 
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = net.createServer();
-    s.listen(0, "127.0.0.1", () => {
-      const { port } = s.address() as net.AddressInfo;
-      s.close(() => resolve(port));
-    });
-    s.on("error", reject);
-  });
-}
 
 /**
  * A throwaway PostgreSQL server in a temp directory on a free loopback port. initdb and postgres

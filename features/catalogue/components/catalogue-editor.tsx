@@ -1,5 +1,6 @@
 "use client";
 
+import { Pager, TableView } from "@/features/shared/components/table-parts";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import {
   createColumnHelper, createPaginatedRowModel, createSortedRowModel, rowPaginationFeature, rowSortingFeature, sortFn_alphanumeric, sortFn_basic,
@@ -133,38 +134,8 @@ export function CatalogueEditor({ kind, title, fields, columns: shown, mergeTarg
         <button type="button" className="rounded-md border border-peat-500 px-4 py-2 font-bold" onClick={() => { setEditing(null); setValues({}); setErrors({}); setMessage(null); }}>Add new</button>
         <p aria-live="polite" className="text-sm text-peat-700">{list.isFetching ? "Loading…" : `${data.length} entries`}</p>
       </div>
-      <div className="overflow-x-auto rounded-lg border border-peat-100 bg-white">
-        <table className="w-full text-left text-sm">
-          <thead className="bg-peat-50">
-            {table.getHeaderGroups().map((g) => (
-              <tr key={g.id}>
-                {g.headers.map((h) => {
-                  const s = h.column.getIsSorted();
-                  return (
-                    <th key={h.id} scope="col" className="px-3 py-2" aria-sort={s === "asc" ? "ascending" : s === "desc" ? "descending" : undefined}>
-                      {h.column.getCanSort() ? (
-                        <button type="button" className="font-bold" onClick={h.column.getToggleSortingHandler()}><table.FlexRender header={h} />{s === "asc" ? " ▲" : s === "desc" ? " ▼" : ""}</button>
-                      ) : <table.FlexRender header={h} />}
-                    </th>
-                  );
-                })}
-              </tr>
-            ))}
-          </thead>
-          <tbody>
-            {table.getRowModel().rows.map((row) => (
-              <tr key={row.id} className="border-t border-peat-100">
-                {row.getAllCells().map((cell) => <td key={cell.id} className="px-3 py-1.5"><table.FlexRender cell={cell} /></td>)}
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </div>
-      <nav aria-label={`${title} pages`} className="flex items-center gap-3">
-        <button type="button" className="rounded border border-peat-300 px-3 py-1 disabled:opacity-40" disabled={!table.getCanPreviousPage()} onClick={() => table.previousPage()}>Previous</button>
-        <span>Page {pagination.pageIndex + 1} of {Math.max(1, table.getPageCount())}</span>
-        <button type="button" className="rounded border border-peat-300 px-3 py-1 disabled:opacity-40" disabled={!table.getCanNextPage()} onClick={() => table.nextPage()}>Next</button>
-      </nav>
+      <TableView table={table} caption={title} empty={list.isPending ? "Loading…" : "Nothing here yet."} columnCount={columns.length} small />
+      <Pager table={table} label={`${title} pages`} page={pagination.pageIndex + 1} pages={table.getPageCount()} />
 
       <form onSubmit={onSubmit} className="grid max-w-2xl gap-3 rounded-lg border border-peat-100 bg-white p-4" aria-label={editing ? `Edit ${editing.key}` : `Add to ${title}`}>
         <h3 className="text-lg font-bold">{editing ? `Edit “${editing.key}”` : "Add a new entry"}</h3>

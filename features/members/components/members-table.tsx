@@ -1,5 +1,6 @@
 "use client";
 
+import { Pager, TableView } from "@/features/shared/components/table-parts";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import {
   createColumnHelper,
@@ -152,68 +153,8 @@ export function MembersTable() {
           {query.error instanceof ApiError ? query.error.message : "The member list could not be loaded."}
         </p>
       ) : null}
-      <div className="overflow-x-auto rounded-lg border border-peat-100 bg-white">
-        <table className="w-full text-left">
-          <caption className="sr-only">Club members, sortable by column</caption>
-          <thead className="bg-peat-50">
-            {table.getHeaderGroups().map((group) => (
-              <tr key={group.id}>
-                {group.headers.map((header) => {
-                  const sorted = header.column.getIsSorted();
-                  const canSort = header.column.getCanSort();
-                  return (
-                    <th
-                      key={header.id}
-                      scope="col"
-                      className="px-3 py-2"
-                      aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : canSort ? "none" : undefined}
-                    >
-                      {canSort ? (
-                        <button type="button" className="font-bold" onClick={header.column.getToggleSortingHandler()}>
-                          <table.FlexRender header={header} />
-                          <span aria-hidden="true">{sorted === "asc" ? " ▲" : sorted === "desc" ? " ▼" : ""}</span>
-                        </button>
-                      ) : (
-                        <table.FlexRender header={header} />
-                      )}
-                    </th>
-                  );
-                })}
-              </tr>
-            ))}
-          </thead>
-          <tbody>
-            {table.getRowModel().rows.length === 0 ? (
-              <tr>
-                <td colSpan={columns.length} className="px-3 py-6 text-center text-peat-700">
-                  {query.isPending ? "Loading members…" : "No member matches."}
-                </td>
-              </tr>
-            ) : (
-              table.getRowModel().rows.map((row) => (
-                <tr key={row.id} className="border-t border-peat-100">
-                  {row.getAllCells().map((cell) => (
-                    <td key={cell.id} className="px-3 py-2 align-top">
-                      <table.FlexRender cell={cell} />
-                    </td>
-                  ))}
-                </tr>
-              ))
-            )}
-          </tbody>
-        </table>
-      </div>
-      <nav aria-label="Member list pages" className="flex items-center gap-3">
-        <button type="button" className="rounded border border-peat-300 px-3 py-1 disabled:opacity-40" disabled={!table.getCanPreviousPage()} onClick={() => table.previousPage()}>
-          Previous
-        </button>
-        <span>
-          Page {pagination.pageIndex + 1} of {pages}
-        </span>
-        <button type="button" className="rounded border border-peat-300 px-3 py-1 disabled:opacity-40" disabled={!table.getCanNextPage()} onClick={() => table.nextPage()}>
-          Next
-        </button>
-      </nav>
+      <TableView table={table} caption="Club members, sortable by column" empty={query.isPending ? "Loading members…" : "No member matches."} columnCount={columns.length} />
+      <Pager table={table} label="Member list pages" page={pagination.pageIndex + 1} pages={pages} />
     </div>
   );
 }

@@ -4,6 +4,7 @@ import { getDb, schema } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { getVisibleReportRow, recordEvent } from "@/features/reports/server";
+import { readBody } from "@/features/shared/server/http";
 import { MAX_PHOTO_BYTES, processPhoto } from "./process";
 import { photoStorage } from "./storage";
 
@@ -15,24 +16,11 @@ export async function readUpload(req: Request): Promise<{ file: Buffer; stage: s
   const limit = MAX_PHOTO_BYTES + 64 * 1024;
   const type = req.headers.get("content-type") ?? "";
   if (!type.startsWith("multipart/form-data")) throw new AppError("unsupported_type", "Send the photo as multipart/form-data with the file in the field named file.");
-  if (Number(req.headers.get("content-length") ?? 0) > limit) throw new AppError("too_large", "Photos can be at most 10 MB. Save a smaller copy and try again.");
-  const chunks: Uint8Array[] = [];
-  let size = 0;
-  const reader = req.body?.getReader();
-  if (!reader) throw new AppError("bad_request", "The upload was empty.");
-  for (;;) {
-    const { done, value } = await reader.read();
-    if (done) break;
-    size += value.byteLength;
-    if (size > limit) {
-      await reader.cancel();
-      throw new AppError("too_large", "Photos can be at most 10 MB. Save a smaller copy and try again.");
-    }
-    chunks.push(value);
-  }
+  const body = await readBody(req, limit, "Photos can be at most 10 MB. Save a smaller copy and try again.");
+  if (body.length === 0) throw new AppError("bad_request", "The upload was empty.");
   let form: FormData;
   try {
-    form = await new Response(Buffer.concat(chunks), { headers: { "content-type": type } }).formData();
+    form = await new Response(new Uint8Array(body), { headers: { "content-type": type } }).formData();
   } catch {
     throw new AppError("bad_request", "The upload could not be read as a form; send the photo in the field named file.");
   }

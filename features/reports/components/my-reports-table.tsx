@@ -1,5 +1,6 @@
 "use client";
 
+import { Pager, TableView } from "@/features/shared/components/table-parts";
 import Link from "next/link";
 import { useQuery } from "@tanstack/react-query";
 import { createColumnHelper, rowPaginationFeature, rowSortingFeature, tableFeatures, useTable, type PaginationState, type SortingState } from "@tanstack/react-table";
@@ -73,52 +74,10 @@ export function MyReportsTable() {
         <p aria-live="polite" className="text-sm text-peat-700">{query.isFetching ? "Loading…" : `${total} report${total === 1 ? "" : "s"}`}</p>
       </div>
       {query.isError ? <p role="alert" className="font-bold text-alarm-700">{query.error instanceof ApiError ? query.error.message : "Your reports could not be loaded."}</p> : null}
-      <div className="overflow-x-auto rounded-lg border border-peat-100 bg-white">
-        <table className="w-full text-left">
-          <caption className="sr-only">Your treatment reports</caption>
-          <thead className="bg-peat-50">
-            {table.getHeaderGroups().map((g) => (
-              <tr key={g.id}>
-                {g.headers.map((h) => {
-                  const sorted = h.column.getIsSorted();
-                  return (
-                    <th key={h.id} scope="col" className="px-3 py-2" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"}>
-                      <button type="button" className="font-bold" onClick={h.column.getToggleSortingHandler()}>
-                        <table.FlexRender header={h} />
-                        <span aria-hidden="true">{sorted === "asc" ? " ▲" : sorted === "desc" ? " ▼" : ""}</span>
-                      </button>
-                    </th>
-                  );
-                })}
-              </tr>
-            ))}
-          </thead>
-          <tbody>
-            {table.getRowModel().rows.length === 0 ? (
-              <tr>
-                <td colSpan={columns.length} className="px-3 py-8 text-center text-peat-700">
-                  {query.isPending ? "Loading your reports…" : status ? "No report has this status." : (
-                    <>You have not reported a treatment yet. <Link href="/reports/new">Report one</Link> or <Link href="/reports/new?course=1">start a course log</Link>.</>
-                  )}
-                </td>
-              </tr>
-            ) : (
-              table.getRowModel().rows.map((row) => (
-                <tr key={row.id} className="border-t border-peat-100">
-                  {row.getAllCells().map((cell) => (
-                    <td key={cell.id} className="px-3 py-2"><table.FlexRender cell={cell} /></td>
-                  ))}
-                </tr>
-              ))
-            )}
-          </tbody>
-        </table>
-      </div>
-      <nav aria-label="Report list pages" className="flex items-center gap-3">
-        <button type="button" className="rounded border border-peat-300 px-3 py-1 disabled:opacity-40" disabled={!table.getCanPreviousPage()} onClick={() => table.previousPage()}>Previous</button>
-        <span>Page {pagination.pageIndex + 1} of {Math.max(1, Math.ceil(total / pagination.pageSize))}</span>
-        <button type="button" className="rounded border border-peat-300 px-3 py-1 disabled:opacity-40" disabled={!table.getCanNextPage()} onClick={() => table.nextPage()}>Next</button>
-      </nav>
+      <TableView table={table} caption="Your treatment reports" empty={query.isPending ? "Loading your reports…" : status ? "No report has this status." : (
+            <>You have not reported a treatment yet. <Link href="/reports/new">Report one</Link> or <Link href="/reports/new?course=1">start a course log</Link>.</>
+          )} columnCount={columns.length} />
+      <Pager table={table} label="Report list pages" page={pagination.pageIndex + 1} pages={Math.ceil(total / pagination.pageSize)} />
     </div>
   );
 }

@@ -1,5 +1,6 @@
 "use client";
 
+import { Pager, TableView } from "@/features/shared/components/table-parts";
 import Link from "next/link";
 import { useQuery } from "@tanstack/react-query";
 import {
@@ -88,43 +89,8 @@ export function QueueTable() {
         <p aria-live="polite" className="text-sm text-peat-700">{query.isFetching ? "Loading…" : `${data.length} of ${all.length} awaiting review`}</p>
       </div>
       {query.isError ? <p role="alert" className="font-bold text-alarm-700">{query.error instanceof ApiError ? query.error.message : "The queue could not be loaded."}</p> : null}
-      <div className="overflow-x-auto rounded-lg border border-peat-100 bg-white">
-        <table className="w-full text-left">
-          <caption className="sr-only">Reports awaiting review</caption>
-          <thead className="bg-peat-50">
-            {table.getHeaderGroups().map((g) => (
-              <tr key={g.id}>
-                {g.headers.map((h) => {
-                  const s = h.column.getIsSorted();
-                  return (
-                    <th key={h.id} scope="col" className="px-3 py-2" aria-sort={s === "asc" ? "ascending" : s === "desc" ? "descending" : "none"}>
-                      <button type="button" className="font-bold" onClick={h.column.getToggleSortingHandler()}>
-                        <table.FlexRender header={h} /><span aria-hidden="true">{s === "asc" ? " ▲" : s === "desc" ? " ▼" : ""}</span>
-                      </button>
-                    </th>
-                  );
-                })}
-              </tr>
-            ))}
-          </thead>
-          <tbody>
-            {table.getRowModel().rows.length === 0 ? (
-              <tr><td colSpan={columns.length} className="px-3 py-8 text-center text-peat-700">{query.isPending ? "Loading the queue…" : "Nothing awaits review. Well done."}</td></tr>
-            ) : (
-              table.getRowModel().rows.map((row) => (
-                <tr key={row.id} className="border-t border-peat-100 align-top">
-                  {row.getAllCells().map((cell) => <td key={cell.id} className="px-3 py-2"><table.FlexRender cell={cell} /></td>)}
-                </tr>
-              ))
-            )}
-          </tbody>
-        </table>
-      </div>
-      <nav aria-label="Queue pages" className="flex items-center gap-3">
-        <button type="button" className="rounded border border-peat-300 px-3 py-1 disabled:opacity-40" disabled={!table.getCanPreviousPage()} onClick={() => table.previousPage()}>Previous</button>
-        <span>Page {pagination.pageIndex + 1} of {Math.max(1, table.getPageCount())}</span>
-        <button type="button" className="rounded border border-peat-300 px-3 py-1 disabled:opacity-40" disabled={!table.getCanNextPage()} onClick={() => table.nextPage()}>Next</button>
-      </nav>
+      <TableView table={table} caption="Reports awaiting review" empty={query.isPending ? "Loading the queue…" : "Nothing awaits review. Well done."} columnCount={columns.length} />
+      <Pager table={table} label="Queue pages" page={pagination.pageIndex + 1} pages={table.getPageCount()} />
     </div>
   );
 }

@@ -46,9 +46,14 @@ export function parseQuery<S extends z.ZodType>(req: Request, schema: S): z.infe
 }
 
 async function readLimited(req: Request, limit: number): Promise<string> {
+  return (await readBody(req, limit, `The body is larger than ${limit / 1024} KB.`)).toString("utf8");
+}
+
+/** Reads a request body, refusing (413, with `message`) one larger than `limit` bytes before it is all in memory. */
+export async function readBody(req: Request, limit: number, message: string): Promise<Buffer> {
   const declared = Number(req.headers.get("content-length") ?? "0");
-  if (declared > limit) throw new AppError("too_large", `The body is larger than ${limit / 1024} KB.`);
-  if (!req.body) return "";
+  if (declared > limit) throw new AppError("too_large", message);
+  if (!req.body) return Buffer.alloc(0);
   const reader = req.body.getReader();
   const chunks: Uint8Array[] = [];
   let size = 0;
@@ -58,11 +63,11 @@ async function readLimited(req: Request, limit: number): Promise<string> {
     size += value.byteLength;
     if (size > limit) {
       await reader.cancel();
-      throw new AppError("too_large", `The body is larger than ${limit / 1024} KB.`);
+      throw new AppError("too_large", message);
     }
     chunks.push(value);
   }
-  return Buffer.concat(chunks).toString("utf8");
+  return Buffer.concat(chunks);
 }
 
 /**
