@@ -57,7 +57,8 @@ async function createAuth() {
       window: 60,
       max: 100,
       customRules: {
-        "/sign-in/email": { window: 10, max: 3 },
+        // Ten attempts a minute per address: enough for a household or club room sharing one address, too few to guess passwords.
+        "/sign-in/email": { window: 60, max: 10 },
         "/sign-up/email": { window: 60, max: 5 },
         "/request-password-reset": { window: 60, max: 3 },
       },
