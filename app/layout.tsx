@@ -7,7 +7,7 @@ import { SiteHeader } from "./_components/site-header";
 import { QueryProvider } from "@/features/shared/components/query-provider";
 import { ANECDOTAL_NOTICE } from "@/features/shared/components/ui";
 import { getPageActor } from "@/features/members/server";
-import { getClubSettings } from "@/features/catalogue/server";
+import { getClubSettings, hasDemoData } from "@/features/catalogue/server";
 import { countAwaitingReview } from "@/features/review/server";
 import { canReview } from "@/features/shared/roles";
 
@@ -19,13 +19,18 @@ export const metadata: Metadata = {
 export default async function RootLayout({ children }: { children: ReactNode }) {
   // Every page reads the session and the club's name: render per request, never at build time.
   await connection();
-  const [actor, club] = await Promise.all([getPageActor(), getClubSettings()]);
+  const [actor, club, demo] = await Promise.all([getPageActor(), getClubSettings(), hasDemoData()]);
   const awaiting = canReview(actor) ? await countAwaitingReview() : null;
   return (
     <html lang="en" className={`${bodyFont.variable} ${displayFont.variable}`}>
       <body className="min-h-screen bg-paper font-sans text-ink antialiased">
         <QueryProvider>
           <SiteHeader actor={actor} clubName={club.name} awaiting={awaiting} />
+          {demo ? (
+            <p className="bg-reed-100 px-4 py-1 text-center text-sm text-reed-700 no-print" data-testid="demo-banner">
+              Demo club: every member, report and figure here is invented for trying Tanklore out.
+            </p>
+          ) : null}
           <main id="main" className="mx-auto max-w-6xl px-4 py-8">
             {children}
           </main>

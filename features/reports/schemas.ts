@@ -164,6 +164,8 @@ export const courseEntrySchema = z
     at: z.iso.datetime({ offset: true, error: "at must be a date and time (ISO 8601)." }),
     amountMl: positive("Amount", 100_000).optional(),
     text: text("Observation", 2000).optional(),
+    /** A photo already added to this report (POST /api/reports/:id/photos), shown with the observation. */
+    photoId: z.string().uuid("photoId must be the id of a photo of this report.").optional(),
   })
   .strict()
   .superRefine((e, ctx) => {

@@ -15,6 +15,8 @@ describe("signing in", () => {
     const page = await browser.newPage();
     await signInAs(page, "member@example.org");
     expect(await page.getByTestId("signed-in-as").textContent()).toContain("Priya Sandwell");
+    // The demo club says on every page that it is invented.
+    expect(await page.getByTestId("demo-banner").textContent()).toMatch(/invented/);
     // A member is not shown the admin links, and the admin page itself refuses them.
     expect(await page.getByRole("link", { name: "Members" }).count()).toBe(0);
     await page.goto(`${baseUrl()}/admin/members`);

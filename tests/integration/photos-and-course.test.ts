@@ -157,4 +157,17 @@ describe("the treatment course log", () => {
     expect(await runDueReminders(new Date(t0.getTime() + 8 * 24 * 3600_000))).toBe(1);
     expect(mailTo(owner.email).some((m) => /Time to record the outcome/.test(m))).toBe(true);
   });
+
+  it("attaches a photo of the report to an observation, and refuses one of another report", async () => {
+    const d = await call(draftsRoute.POST, "/api/reports/drafts", { cookie: owner.cookie, body: { courseOpen: true, fishCount: 2 } });
+    const id = d.body.id as string;
+    const photo = await (await upload(id, await jpegWithGps(), "gill.jpg")).json();
+    const ok = await call(entriesRoute.POST, `/api/reports/${id}/entries`, { params: { id }, cookie: owner.cookie, body: { kind: "observation", at: new Date().toISOString(), text: "Pale gills.", photoId: photo.id } });
+    expect(ok.status).toBe(201);
+    expect(ok.body.photoId).toBe(photo.id);
+    const elsewhere = await newDraft();
+    const foreign = await call(entriesRoute.POST, `/api/reports/${elsewhere}/entries`, { params: { id: elsewhere }, cookie: owner.cookie, body: { kind: "observation", at: new Date().toISOString(), text: "x", photoId: photo.id } });
+    expect(foreign.status).toBe(422);
+    expect(foreign.body.error.issues[0].path).toBe("photoId");
+  });
 });

@@ -32,3 +32,10 @@ export async function updateClubSettings(actorId: string, input: import("../sett
   });
   return getClubSettings();
 }
+
+/** Whether this club holds invented demo accounts (the demo seed), so every page can say so. */
+export async function hasDemoData(): Promise<boolean> {
+  const db = await getDb();
+  const [row] = await db.select({ id: schema.users.id }).from(schema.users).where(eq(schema.users.isDemo, true)).limit(1);
+  return Boolean(row);
+}

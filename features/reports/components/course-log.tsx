@@ -10,6 +10,7 @@ export interface CourseEntryView {
   at: string;
   amountMl: number | null;
   text: string | null;
+  photoId: string | null;
 }
 
 function localNow(): string {
@@ -24,6 +25,7 @@ export function CourseLog({ reportId, entries, open }: { reportId: string; entri
   const [at, setAt] = useState(localNow);
   const [amount, setAmount] = useState("");
   const [text, setText] = useState("");
+  const [photo, setPhoto] = useState<File | null>(null);
   const [error, setError] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
 
@@ -32,12 +34,24 @@ export function CourseLog({ reportId, entries, open }: { reportId: string; entri
     setBusy(true);
     setError(null);
     try {
+      let photoId: string | undefined;
+      if (kind === "observation" && photo) {
+        // The photo joins the report first (the same checks as any photo), then the observation points at it.
+        const form = new FormData();
+        form.set("file", photo);
+        form.set("stage", "during");
+        const res = await fetch(`/api/reports/${reportId}/photos`, { method: "POST", body: form });
+        const body = await res.json();
+        if (!res.ok) throw new ApiError(res.status, body.error);
+        photoId = body.id;
+      }
       await fetchJson(`/api/reports/${reportId}/entries`, {
         method: "POST",
-        body: JSON.stringify({ kind, at: new Date(at).toISOString(), ...(kind === "dose" ? { amountMl: Number(amount.replace(",", ".")) || undefined } : { text: text.trim() || undefined }) }),
+        body: JSON.stringify({ kind, at: new Date(at).toISOString(), ...(kind === "dose" ? { amountMl: Number(amount.replace(",", ".")) || undefined } : { text: text.trim() || undefined, photoId }) }),
       });
       setAmount("");
       setText("");
+      setPhoto(null);
       setAt(localNow());
       router.refresh();
     } catch (err) {
@@ -58,6 +72,11 @@ export function CourseLog({ reportId, entries, open }: { reportId: string; entri
             <li key={e.id}>
               <time dateTime={e.at} className="font-bold">{new Date(e.at).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}</time>{" "}
               — {e.kind === "dose" ? `dose of ${e.amountMl} mL` : e.text}
+              {e.photoId ? (
+                <a href={`/api/photos/${e.photoId}?size=full`} className="ml-2 inline-block align-middle">
+                  <img src={`/api/photos/${e.photoId}?size=thumb`} alt="Photo with this observation" className="inline h-12 rounded border border-peat-100" />
+                </a>
+              ) : null}
             </li>
           ))}
         </ol>
@@ -80,6 +99,8 @@ export function CourseLog({ reportId, entries, open }: { reportId: string; entri
             <>
               <label htmlFor={`${id}-text`} className="font-bold">What you saw</label>
               <textarea id={`${id}-text`} rows={3} value={text} onChange={(e) => setText(e.target.value)} className="rounded-md border border-peat-300 px-3 py-2" />
+              <label htmlFor={`${id}-photo`} className="font-bold">Photo (optional)</label>
+              <input id={`${id}-photo`} type="file" accept="image/jpeg,image/png,image/webp,image/avif" onChange={(e) => setPhoto(e.target.files?.[0] ?? null)} />
             </>
           )}
           {error ? <p role="alert" className="font-bold text-alarm-700">{error}</p> : null}

@@ -21,10 +21,14 @@ export async function addCourseEntry(actor: Actor | null, reportId: string, entr
   if (row.status !== "draft") throw new AppError("conflict", "This course has been submitted; its log is closed.");
   const db = await getDb();
   const at = new Date(entry.at);
+  if (entry.photoId) {
+    const [photo] = await db.select({ reportId: schema.photos.reportId }).from(schema.photos).where(eq(schema.photos.id, entry.photoId));
+    if (photo?.reportId !== reportId) throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "photoId", message: "That photo does not belong to this report; upload it to the report first." }]);
+  }
   return db.transaction(async (tx) => {
     const [saved] = await tx
       .insert(courseEntries)
-      .values({ reportId, kind: entry.kind, at, amountMl: entry.amountMl ?? null, text: entry.text ?? null })
+      .values({ reportId, kind: entry.kind, at, amountMl: entry.amountMl ?? null, text: entry.text ?? null, photoId: entry.photoId ?? null })
       .returning();
     if (entry.kind === "dose") {
       // The report follows the log: number of doses, and the peak single dose as "amount per dose".
@@ -41,7 +45,7 @@ export async function addCourseEntry(actor: Actor | null, reportId: string, entr
       await tx.insert(reminders).values({ reportId, userId: actor.id, kind: "outcome", dueAt: new Date(at.getTime() + (agent?.watchDays ?? 7) * 24 * HOUR) });
       await recordEvent(tx, { reportId, actorId: actor.id, action: "dose_logged", from: "draft", to: "draft", note: `${entry.amountMl} mL` });
     }
-    return { id: saved!.id, kind: saved!.kind, at: saved!.at.toISOString(), amountMl: saved!.amountMl, text: saved!.text };
+    return { id: saved!.id, kind: saved!.kind, at: saved!.at.toISOString(), amountMl: saved!.amountMl, text: saved!.text, photoId: saved!.photoId };
   });
 }
 
