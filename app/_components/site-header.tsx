@@ -13,7 +13,7 @@ export function SiteHeader({ actor, clubName, awaiting }: { actor: Actor | null;
   if (actor) links.push({ href: "/reports", label: "My reports" });
   if (awaiting !== null) links.push({ href: "/review", label: `Review (${awaiting})` });
   if (actor?.role === "admin") {
-    links.push({ href: "/admin/members", label: "Members" }, { href: "/admin/catalogue", label: "Catalogue" }, { href: "/admin/settings", label: "Club settings" }, { href: "/admin/mail", label: "Mail outbox" });
+    links.push({ href: "/admin/members", label: "Members" }, { href: "/admin/catalogue", label: "Catalogue" }, { href: "/admin/settings", label: "Club settings" }, { href: "/admin/exchange", label: "Import/export" }, { href: "/admin/mail", label: "Mail outbox" });
   }
   return (
     <header className="bg-peat-900 text-peat-50 no-print">

@@ -31,6 +31,8 @@ export const reports = pgTable(
     status: text().$type<ReportStatus>().notNull().default("draft"),
     /** "member" (filed here), "import" (CSV) or "demo" (invented demo data). */
     source: text().notNull().default("member"),
+    /** For imported reports: the pseudonymous reporter of the file, so members are still counted apart. */
+    externalReporter: text(),
 
     speciesId: text().references(() => species.id, { onUpdate: "cascade" }),
     speciesOther: text(),

@@ -62,7 +62,7 @@ export function summarySql(groupSlug: string, agentSlug: string, edges: number[]
   const fractions = cases.length ? sql`case ${sql.join(cases, sql` `)} end` : sql`null::float8[]`;
   return sql`
     with base as (
-      select r.author_id, r.fish_count, r.concentration as dose, coalesce(r.condition_slug, '') as cond,
+      select coalesce(r.external_reporter, r.author_id) as author_id, r.fish_count, r.concentration as dose, coalesce(r.condition_slug, '') as cond,
              ${TOLERATED} as tol, r.condition_outcome = 'cleared' as clr, width_bucket(r.concentration, ${edgeArray}) as bucket
         from reports r
        where ${accepted(groupSlug, agentSlug)}

@@ -1,0 +1,12 @@
+import { exportReportsCsv } from "@/features/exchange/server";
+import { requireActor } from "@/features/members/server";
+import { route } from "@/features/shared/server/http";
+
+export const dynamic = "force-dynamic";
+
+export const GET = route(async (req) => {
+  const actor = await requireActor(req.headers, ["moderator", "admin"], "export reports");
+  return new Response(await exportReportsCsv(actor), {
+    headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": 'attachment; filename="tanklore-reports.csv"' },
+  });
+});

@@ -1,0 +1,1 @@
+export { exportReportsCsv, importReportsCsv, pseudonym, reportColumns, type ImportResult } from "./reports-csv";
