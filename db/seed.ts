@@ -8,6 +8,7 @@ import { concentrationFromMl, doseMlForTarget, stockMgPerMl, toCelsius, toLitres
 import { DEFAULT_DEMO_PASSWORD, DEMO_CLUB_NAME, demoPeople, demoPeroxideTolerance, prng } from "./demo-data";
 import type { ReportStatus } from "./schema";
 import { recomputeAll } from "@/features/evidence/server";
+import { computeFlags } from "@/features/reports/server";
 
 const { users, accounts, reports, reportEvents, clubSettings } = schema;
 
@@ -76,7 +77,9 @@ async function seedReports(db: Db, ids: Map<string, string>): Promise<number> {
   statuses.forEach((status, i) => {
     // Shuffle statuses over the sequence deterministically.
     const author = authors[i % authors.length]!;
-    const sp = pick(starterSpecies);
+    // Most club reports concern a few popular groups, so their summaries have shape.
+    const popular = ["livebearers", "tetras", "corydoras", "african-cichlids", "goldfish-koi", "anabantoids"];
+    const sp = rand() < 0.6 ? pick(starterSpecies.filter((x) => popular.includes(x.group))) : pick(starterSpecies);
     const agentSlug = rand() < 0.7 ? "hydrogen-peroxide" : pick(otherAgents);
     const agent = agentBySlug.get(agentSlug)!;
     const stock = agentSlug === "hydrogen-peroxide" && rand() < 0.8 ? agent.stocks[0]! : pick(agent.stocks);
@@ -134,7 +137,6 @@ async function seedReports(db: Db, ids: Map<string, string>): Promise<number> {
       fishLost, lossCause, distress, conditionOutcome, observedDaysAfter: 5 + Math.floor(rand() * 14),
       notes: `Demo report (invented data). ${adverse ? "Fish showed stress after dosing." : "Fish came through the course."}`,
       showName: rand() < 0.5, concentration: dose,
-      flags: off ? [{ code: "stated_mismatch", message: "The stated concentration is 30 % above the computed one." }] : [],
       createdAt: created, updatedAt: status === "draft" ? created : decided,
       submittedAt: status === "draft" ? null : submitted, decidedAt: ["draft", "awaiting_review"].includes(status) ? null : decided,
     });
@@ -156,6 +158,12 @@ async function seedReports(db: Db, ids: Map<string, string>): Promise<number> {
     await tx.insert(reports).values(reportRows);
     await tx.insert(reportEvents).values(eventRows);
   });
+  // Reports awaiting review carry the flags the server computes on submission, like any other.
+  const waiting = await db.select().from(reports).where(and(eq(reports.source, "demo"), eq(reports.status, "awaiting_review")));
+  for (const row of waiting) {
+    const { flags, completeness } = await computeFlags(db, row);
+    await db.update(reports).set({ flags, completeness }).where(eq(reports.id, row.id));
+  }
   return reportRows.length;
 }
 
