@@ -12,11 +12,14 @@ export default function HomePage() {
           sum up, per group of fish, the concentrations that were tolerated, with intervals and counts.
         </p>
         <div className="mt-6 flex flex-wrap gap-3">
-          <Link href="/planner" className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white no-underline hover:bg-peat-900">
+          <Link href="/evidence" className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white no-underline hover:bg-peat-900">
+            Read the evidence
+          </Link>
+          <Link href="/planner" className="rounded-md border border-peat-500 bg-white px-4 py-2 font-bold text-peat-900 no-underline">
             Plan a cautious dose
           </Link>
-          <Link href="/cautions" className="rounded-md border border-peat-500 bg-white px-4 py-2 font-bold text-peat-900 no-underline">
-            Read the cautions
+          <Link href="/reports/new" className="rounded-md border border-peat-500 bg-white px-4 py-2 font-bold text-peat-900 no-underline">
+            Report a treatment
           </Link>
         </div>
       </section>
