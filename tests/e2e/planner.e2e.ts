@@ -26,6 +26,9 @@ describe("the dose planner", () => {
     expect(result).toContain("exactly 6.31 mL");
     expect(result).toMatch(/between\s*25\s*and\s*35 mg\/L|between 41\.7 and 58\.3 mg\/L/);
     expect(await page.getByTestId("first-dose-ml").textContent()).toBe("3 mL");
+    // The planner can start a course log with this treatment, water and the reduced first dose.
+    const course = await page.getByRole("link", { name: "Start a course log with this dose" }).getAttribute("href");
+    expect(course).toMatch(/^\/reports\/new\?course=1&agentSlug=hydrogen-peroxide&stockPercent=3&stockBasis=w%2Fv&volume=1&volumeUnit=gal_us&amountMl=3&intervalHours=48$/);
 
     // "What did my mL make?"
     await page.getByLabel("What did my mL make?").check();

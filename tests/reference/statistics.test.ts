@@ -126,5 +126,5 @@ describe("quantiles", () => {
     } finally {
       await pg.close();
     }
-  });
+  }, 60_000); // starting an in-memory PostgreSQL takes a few seconds on two busy cores
 });

@@ -297,6 +297,17 @@ export function Planner({ agents }: { agents: PlannerAgent[] }) {
           {plan ? <Result plan={plan} agent={agent} /> : <p className="text-peat-700">Fill in the steps on the left; the result appears here as you type.</p>}
         </div>
         {plan ? <Checklist plan={plan} agent={agent} doses={doses} setDoses={setDoses} start={start} setStart={setStart} /> : null}
+        {plan && volumeMode === "volume" ? (
+          <a
+            className="justify-self-start rounded-md border border-peat-500 px-4 py-2 font-bold no-underline no-print"
+            href={`/reports/new?${new URLSearchParams({
+              course: "1", agentSlug: agent.slug, stockPercent: String(stock ? stock.percent : customPercent), stockBasis: stock ? stock.basis : customBasis,
+              volume, volumeUnit, amountMl: String((plan.firstDose ?? plan).measured.ml || ""), ...(agent.redoseHours ? { intervalHours: String(agent.redoseHours) } : {}),
+            })}`}
+          >
+            Start a course log with this dose
+          </a>
+        ) : null}
       </section>
     </div>
   );

@@ -40,8 +40,10 @@ const labels: Record<string, string> = {
 
 type Form = Record<string, string> & { [k: string]: string };
 
-function initialForm(r: WizardReport | null, defaults: { agentSlug?: string }): Form {
-  return {
+export type WizardPrefill = Partial<Record<"agentSlug" | "stockPercent" | "stockBasis" | "volume" | "volumeUnit" | "amountMl" | "intervalHours", string>>;
+
+function initialForm(r: WizardReport | null, defaults: WizardPrefill): Form {
+  const form: Form = {
     speciesId: r ? (r.speciesId ?? (r.speciesOther ? "__other" : "")) : "",
     speciesOther: s(r?.speciesOther), fishCount: s(r?.fishCount), sizeClass: s(r?.sizeClass), conditionSlug: s(r?.conditionSlug), startedOn: s(r?.startedOn),
     volume: s(r?.water.volume), volumeUnit: r?.water.volumeUnit ?? "L", temperature: s(r?.water.temperature), temperatureUnit: r?.water.temperatureUnit ?? "C", ph: s(r?.water.ph), setting: s(r?.water.setting),
@@ -50,6 +52,9 @@ function initialForm(r: WizardReport | null, defaults: { agentSlug?: string }): 
     fishLost: s(r?.outcome.fishLost ?? (r ? null : 0)), lossCause: s(r?.outcome.lossCause), distress: s(r?.outcome.distress), condition: s(r?.outcome.condition), observedDaysAfter: s(r?.outcome.observedDaysAfter), notes: s(r?.outcome.notes),
     showName: r?.showName ? "yes" : "no",
   };
+  // A course started from the planner arrives with its treatment and water filled in.
+  if (!r) for (const [k, v] of Object.entries(defaults)) if (v) form[k] = v;
+  return form;
 }
 
 const num = (v: string | undefined) => v === undefined ? undefined :  (v.trim() === "" ? undefined : Number(v.replace(",", ".")));
@@ -103,11 +108,11 @@ function Fld({ fid, errs, name, label, hint, children }: { fid: string; errs: Re
   );
 }
 
-export function ReportWizard({ catalogue, report, step: initialStep, course, photos }: { catalogue: WizardCatalogue; report: WizardReport | null; step: number; course?: boolean; photos?: ReactNode }) {
+export function ReportWizard({ catalogue, report, step: initialStep, course, photos, prefill }: { catalogue: WizardCatalogue; report: WizardReport | null; step: number; course?: boolean; photos?: ReactNode; prefill?: WizardPrefill }) {
   const router = useRouter();
   const id = useId();
   const [step, setStep] = useState(Math.min(Math.max(initialStep, 0), steps.length - 1));
-  const [form, setForm] = useState<Form>(() => initialForm(report, {}));
+  const [form, setForm] = useState<Form>(() => initialForm(report, prefill ?? {}));
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [banner, setBanner] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
@@ -160,7 +165,8 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
     try {
       let reportId = report?.id;
       if (!reportId) {
-        const created = await fetchJson<{ id: string }>("/api/reports/drafts", { method: "POST", body: JSON.stringify({ ...patch, ...(course ? { courseOpen: true } : {}) }) });
+        const carried = prefill && Object.values(prefill).some(Boolean) ? JSON.parse(JSON.stringify({ ...stepPatch(1, form), ...stepPatch(2, form) })) : {};
+        const created = await fetchJson<{ id: string }>("/api/reports/drafts", { method: "POST", body: JSON.stringify({ ...carried, ...patch, ...(course ? { courseOpen: true } : {}) }) });
         reportId = created.id;
       } else if (step < 4) {
         await fetchJson(`/api/reports/${reportId}`, { method: "PATCH", body: JSON.stringify(patch) });

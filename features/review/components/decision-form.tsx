@@ -13,7 +13,7 @@ const choices = {
   accepted: [{ value: "retract", label: "Retract from the evidence (duplicate, error)" }],
 } as const;
 
-export function DecisionForm({ id, status, isMine, species }: { id: string; status: string; isMine: boolean; species: { id: string; label: string }[] | null }) {
+export function DecisionForm({ id, status, isMine, species, lossCause }: { id: string; status: string; isMine: boolean; species: { id: string; label: string }[] | null; lossCause?: string | null }) {
   const router = useRouter();
   const fid = useId();
   const options = choices[status as keyof typeof choices];
@@ -24,6 +24,8 @@ export function DecisionForm({ id, status, isMine, species }: { id: string; stat
   const [busy, setBusy] = useState(false);
   const [mapTo, setMapTo] = useState("");
   const [mapNote, setMapNote] = useState("");
+  const [cause, setCause] = useState(lossCause ?? "");
+  const [causeNote, setCauseNote] = useState("");
 
   if (isMine) return <p className="rounded-md bg-reed-100 p-3">This is your own report: another moderator has to decide on it.</p>;
   if (!options) return <p className="text-peat-700">No decision applies to a report that is {status.replace("_", " ")}.</p>;
@@ -58,6 +60,20 @@ export function DecisionForm({ id, status, isMine, species }: { id: string; stat
           <label htmlFor={`${fid}-mapnote`}>Note</label>
           <input id={`${fid}-mapnote`} value={mapNote} onChange={(e) => setMapNote(e.target.value)} className="rounded-md border border-peat-300 bg-white px-3 py-2" />
           <button type="submit" disabled={busy} className="justify-self-start rounded-md border border-peat-500 bg-white px-4 py-2 font-bold">Map species</button>
+        </form>
+      ) : null}
+      {lossCause ? (
+        <form className="grid gap-2 rounded-lg border border-peat-100 bg-white p-4" aria-label="Correct the likely cause of losses" onSubmit={(e) => { e.preventDefault(); void post(`/api/reports/${id}/corrections`, { kind: "lossCause", lossCause: cause, note: causeNote }, "Cause corrected."); }}>
+          <p className="font-bold">Likely cause of the losses (the member said: {lossCause})</p>
+          <label htmlFor={`${fid}-cause`}>Corrected cause</label>
+          <select id={`${fid}-cause`} value={cause} onChange={(e) => setCause(e.target.value)} className="rounded-md border border-peat-300 bg-white px-3 py-2">
+            <option value="treatment">The treatment</option>
+            <option value="disease">The disease</option>
+            <option value="unknown">Not sure</option>
+          </select>
+          <label htmlFor={`${fid}-causenote`}>Why</label>
+          <input id={`${fid}-causenote`} value={causeNote} onChange={(e) => setCauseNote(e.target.value)} className="rounded-md border border-peat-300 bg-white px-3 py-2" />
+          <button type="submit" disabled={busy} className="justify-self-start rounded-md border border-peat-500 px-4 py-2 font-bold">Correct the cause</button>
         </form>
       ) : null}
       <form onSubmit={onSubmit} className="grid gap-3 rounded-lg border border-peat-100 bg-white p-4" aria-label="Decision">

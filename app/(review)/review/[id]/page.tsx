@@ -56,6 +56,7 @@ export default async function ReviewReportPage({ params }: { params: Promise<{ i
         status={report.status}
         isMine={report.isMine}
         species={report.speciesId ? null : catalogue.species.map((s) => ({ id: s.id, label: `${s.commonName} (${s.scientificName})` }))}
+        lossCause={report.outcome.fishLost ? report.outcome.lossCause : null}
       />
       <ReportDetails report={report} conditionName={condition ?? null} />
       <section className="grid gap-2">
