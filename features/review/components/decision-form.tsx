@@ -28,6 +28,8 @@ export function DecisionForm({ id, status, isMine, species, lossCause }: { id: s
   const [causeNote, setCauseNote] = useState("");
 
   if (isMine) return <p className="rounded-md bg-reed-100 p-3">This is your own report: another moderator has to decide on it.</p>;
+  // After a decision the page refreshes with the new status; keep saying what happened.
+  if (!options && done) return <p role="status" className="font-bold text-peat-700">{done}</p>;
   if (!options) return <p className="text-peat-700">No decision applies to a report that is {status.replace("_", " ")}.</p>;
 
   async function post(path: string, body: unknown, ok: string) {
