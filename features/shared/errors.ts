@@ -41,11 +41,6 @@ export class AppError extends Error {
   }
 }
 
-/** Expected outcomes of a mutation, as values. */
-export type Result<T> =
-  | { ok: true; value: T }
-  | { ok: false; code: ErrorCode; message: string; fieldErrors?: FieldIssue[] };
-
 export const unauthenticated = () => new AppError("unauthenticated", "Sign in to do this.");
 export const forbidden = (what = "do this") => new AppError("forbidden", `Your role does not allow you to ${what}.`);
 export const notFound = (what = "That page") => new AppError("not_found", `${what} was not found.`);

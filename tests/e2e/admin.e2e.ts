@@ -1,18 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { baseUrl, launch, signInAs } from "./browser";
+import { describe, expect, it } from "vitest";
+import { baseUrl, signInAs, useBrowser } from "./browser";
 
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = useBrowser();
 
 describe("club officers", () => {
   it("change the confidence level, which recomputes the summaries, and are told what to fix", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     await signInAs(page, "admin@example.org");
     await page.goto(`${baseUrl()}/admin/settings`);
     await page.getByLabel("Minimum reports before a summary can be leaned on").fill("zero");
@@ -35,7 +28,7 @@ describe("club officers", () => {
   });
 
   it("read the verification mail of a new member in the outbox and edit the catalogue", async () => {
-    const visitor = await browser.newPage();
+    const visitor = await browser().newPage();
     await visitor.goto(`${baseUrl()}/sign-up`);
     await visitor.getByLabel("Display name").fill("Wren Newcomer");
     await visitor.getByLabel("E-mail").fill("wren@example.org");
@@ -44,7 +37,7 @@ describe("club officers", () => {
     await visitor.getByRole("button", { name: "Create account" }).click();
     await visitor.getByText("Check your inbox").waitFor();
 
-    const admin = await browser.newPage();
+    const admin = await browser().newPage();
     await signInAs(admin, "admin@example.org");
     await admin.goto(`${baseUrl()}/admin/mail`);
     await admin.getByRole("link", { name: "Confirm your e-mail address for Tanklore" }).first().click();

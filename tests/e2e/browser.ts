@@ -1,6 +1,6 @@
 import fs from "node:fs";
 import { chromium, type Browser, type Page } from "playwright-core";
-import { inject } from "vitest";
+import { afterAll, beforeAll, inject } from "vitest";
 
 const CHROMIUM = process.env.CHROMIUM_PATH ?? "/usr/bin/chromium";
 
@@ -14,6 +14,18 @@ export async function launch(): Promise<Browser> {
 }
 
 export const baseUrl = () => inject("baseUrl");
+
+/** One Chromium for the calling test file, started before its tests and closed after them. */
+export function useBrowser(): () => Browser {
+  let browser: Browser | undefined;
+  beforeAll(async () => {
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+  return () => browser!;
+}
 
 /** Page object for signing in through the form. */
 export async function signInAs(page: Page, email: string, password = inject("demoPassword")): Promise<void> {

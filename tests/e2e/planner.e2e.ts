@@ -1,19 +1,12 @@
 import fs from "node:fs";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { baseUrl, launch } from "./browser";
+import { describe, expect, it } from "vitest";
+import { baseUrl, useBrowser } from "./browser";
 
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = useBrowser();
 
 describe("the dose planner", () => {
   it("turns 50 mg/L in one US gallon of 3 % peroxide into millilitres as the visitor types", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     await page.goto(`${baseUrl()}/planner`);
     await page.getByText("Before you treat").waitFor();
     await page.getByLabel("Treatment").selectOption("hydrogen-peroxide");
@@ -40,7 +33,7 @@ describe("the dose planner", () => {
   });
 
   it("says what to fix beside an invalid field and remembers the chosen unit", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     await page.goto(`${baseUrl()}/planner`);
     await page.getByLabel("Water volume", { exact: true }).fill("-4");
     await page.getByLabel("Unit").selectOption("gal_imp");
@@ -54,7 +47,7 @@ describe("the dose planner", () => {
   });
 
   it("works from tank dimensions in inches and prints a clean plan", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     await page.goto(`${baseUrl()}/planner?agent=hydrogen-peroxide&target=30&fraction=0.5`);
     await page.getByLabel("Work it out from the tank").check();
     await page.getByLabel("Length").fill("24");

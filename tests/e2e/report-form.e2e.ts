@@ -1,19 +1,12 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import sharp from "sharp";
-import type { Browser } from "playwright-core";
-import { baseUrl, launch, signInAs } from "./browser";
+import { baseUrl, signInAs, useBrowser } from "./browser";
 
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = useBrowser();
 
 describe("filing a report", () => {
   it("walks the steps, survives a reload, uploads a photo and submits for review", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     await signInAs(page, "member2@example.org");
     await page.goto(`${baseUrl()}/reports/new`);
 

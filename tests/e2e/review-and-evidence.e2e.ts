@@ -1,14 +1,8 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, Page } from "playwright-core";
-import { baseUrl, launch, signInAs } from "./browser";
+import { describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { baseUrl, signInAs, useBrowser } from "./browser";
 
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = useBrowser();
 
 async function api(page: Page, path: string, method: string, body?: unknown) {
   return page.evaluate(
@@ -22,7 +16,7 @@ async function api(page: Page, path: string, method: string, body?: unknown) {
 
 describe("review", () => {
   it("a moderator returns a report, the member fixes and resubmits it, and the moderator accepts it", async () => {
-    const member = await browser.newPage();
+    const member = await browser().newPage();
     await signInAs(member, "member@example.org");
     const created = await api(member, "/api/reports", "POST", {
       speciesId: "betta-splendens", fishCount: 1, sizeClass: "adult", conditionSlug: "fin-rot", startedOn: "2026-11-15",
@@ -34,7 +28,7 @@ describe("review", () => {
     expect(created.status).toBe(201);
     const id = created.body.id as string;
 
-    const mod = await browser.newPage();
+    const mod = await browser().newPage();
     await signInAs(mod, "moderator@example.org");
     await mod.goto(`${baseUrl()}/review`);
     await mod.getByRole("link", { name: /Review \(\d+\)/ }).waitFor();
@@ -74,7 +68,7 @@ describe("review", () => {
 
 describe("evidence", () => {
   it("lists groups, draws the chart, and the first-dose link lands in the planner prefilled", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     await page.goto(`${baseUrl()}/evidence?agent=hydrogen-peroxide`);
     await page.getByTestId("evidence-table").waitFor();
     expect(await page.getByText("Anecdotal evidence").first().isVisible()).toBe(true);

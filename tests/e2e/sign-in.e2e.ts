@@ -1,18 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { baseUrl, launch, signInAs } from "./browser";
+import { describe, expect, it } from "vitest";
+import { baseUrl, signInAs, useBrowser } from "./browser";
 
-let browser: Browser;
-beforeAll(async () => {
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = useBrowser();
 
 describe("signing in", () => {
   it("shows the demo member's name after signing in through the form", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     await signInAs(page, "member@example.org");
     expect(await page.getByTestId("signed-in-as").textContent()).toContain("Priya Sandwell");
     // The demo club says on every page that it is invented.
@@ -27,7 +20,7 @@ describe("signing in", () => {
   });
 
   it("says what is wrong when the password does not match", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     await page.goto(`${baseUrl()}/sign-in`);
     await page.getByLabel("E-mail").fill("member2@example.org");
     await page.getByLabel("Password").fill("not-the-password");
@@ -40,7 +33,7 @@ describe("signing in", () => {
   });
 
   it("lets the demo admin sort the members table and see every demo account", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     await signInAs(page, "admin@example.org");
     await page.goto(`${baseUrl()}/admin/members`);
     // Twelve demo accounts, and any the other browser tests signed up.

@@ -1,6 +1,7 @@
 "use client";
 
 import { Pager, TableView } from "@/features/shared/components/table-parts";
+import { useServerTable } from "@/features/shared/components/use-server-table";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import {
   createColumnHelper,
@@ -8,8 +9,6 @@ import {
   rowSortingFeature,
   tableFeatures,
   useTable,
-  type PaginationState,
-  type SortingState,
 } from "@tanstack/react-table";
 import { useDeferredValue, useId, useState } from "react";
 import { ApiError, fetchJson } from "@/features/shared/fetch-json";
@@ -75,34 +74,16 @@ export function MembersTable() {
   const id = useId();
   const [q, setQ] = useState("");
   const [role, setRole] = useState("");
-  const [sorting, setSorting] = useState<SortingState>([{ id: "name", desc: false }]);
-  const [pagination, setPagination] = useState<PaginationState>({ pageIndex: 0, pageSize: 20 });
+  const server = useServerTable([{ id: "name", desc: false }]);
+  const { pagination } = server;
   const deferredQ = useDeferredValue(q);
-  const sort = sorting[0];
-  const query = useQuery(
-    membersQuery({
-      q: deferredQ.trim(),
-      role,
-      sort: sort?.id ?? "name",
-      dir: sort?.desc ? "desc" : "asc",
-      page: pagination.pageIndex + 1,
-      pageSize: pagination.pageSize,
-    }),
-  );
+  const query = useQuery(membersQuery({ q: deferredQ.trim(), role, ...server.request }));
   const table = useTable({
     features,
     columns,
     data: query.data?.members ?? emptyRows,
     rowCount: query.data?.total ?? 0,
-    state: { sorting, pagination },
-    onSortingChange: (u) => {
-      setSorting(u);
-      setPagination((p) => ({ ...p, pageIndex: 0 }));
-    },
-    onPaginationChange: setPagination,
-    manualSorting: true,
-    manualPagination: true,
-    enableMultiSort: false,
+    ...server.options,
     getRowId: (row) => row.id,
   });
   const total = query.data?.total ?? 0;
@@ -120,7 +101,7 @@ export function MembersTable() {
             placeholder="Name or e-mail"
             onChange={(e) => {
               setQ(e.target.value);
-              setPagination((p) => ({ ...p, pageIndex: 0 }));
+              server.firstPage();
             }}
           />
         </div>
@@ -133,7 +114,7 @@ export function MembersTable() {
             value={role}
             onChange={(e) => {
               setRole(e.target.value);
-              setPagination((p) => ({ ...p, pageIndex: 0 }));
+              server.firstPage();
             }}
           >
             <option value="">Any role</option>

@@ -1,4 +1,4 @@
-import { AppError, forbidden, unauthenticated } from "@/features/shared/errors";
+import { forbidden, unauthenticated } from "@/features/shared/errors";
 import { isRole, type Actor, type Role } from "@/features/shared/roles";
 import { getAuth } from "./auth";
 
@@ -25,4 +25,3 @@ export function assertRole(actor: Actor | null, allowed: readonly Role[], what?:
   if (!allowed.includes(actor.role)) throw forbidden(what);
 }
 
-export { AppError };

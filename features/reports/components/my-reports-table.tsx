@@ -1,9 +1,10 @@
 "use client";
 
 import { Pager, TableView } from "@/features/shared/components/table-parts";
+import { useServerTable } from "@/features/shared/components/use-server-table";
 import Link from "next/link";
 import { useQuery } from "@tanstack/react-query";
-import { createColumnHelper, rowPaginationFeature, rowSortingFeature, tableFeatures, useTable, type PaginationState, type SortingState } from "@tanstack/react-table";
+import { createColumnHelper, rowPaginationFeature, rowSortingFeature, tableFeatures, useTable } from "@tanstack/react-table";
 import { useId, useState } from "react";
 import { ApiError } from "@/features/shared/fetch-json";
 import { myReportsQuery, type MyReportRow } from "../api/queries";
@@ -38,24 +39,15 @@ const columns = helper.columns([
 export function MyReportsTable() {
   const id = useId();
   const [status, setStatus] = useState("");
-  const [sorting, setSorting] = useState<SortingState>([{ id: "updatedAt", desc: true }]);
-  const [pagination, setPagination] = useState<PaginationState>({ pageIndex: 0, pageSize: 20 });
-  const sort = sorting[0];
-  const query = useQuery(myReportsQuery({ status, sort: sort?.id ?? "updatedAt", dir: sort?.desc ? "desc" : "asc", page: pagination.pageIndex + 1, pageSize: pagination.pageSize }));
+  const server = useServerTable([{ id: "updatedAt", desc: true }]);
+  const { pagination } = server;
+  const query = useQuery(myReportsQuery({ status, ...server.request }));
   const table = useTable({
     features,
     columns,
     data: query.data?.reports ?? empty,
     rowCount: query.data?.total ?? 0,
-    state: { sorting, pagination },
-    onSortingChange: (u) => {
-      setSorting(u);
-      setPagination((p) => ({ ...p, pageIndex: 0 }));
-    },
-    onPaginationChange: setPagination,
-    manualSorting: true,
-    manualPagination: true,
-    enableMultiSort: false,
+    ...server.options,
     getRowId: (r) => r.id,
   });
   const total = query.data?.total ?? 0;
@@ -64,7 +56,7 @@ export function MyReportsTable() {
       <div className="flex flex-wrap items-end gap-4">
         <div className="grid gap-1">
           <label htmlFor={`${id}-status`} className="font-bold">Status</label>
-          <select id={`${id}-status`} className="rounded-md border border-peat-300 bg-white px-3 py-2" value={status} onChange={(e) => { setStatus(e.target.value); setPagination((p) => ({ ...p, pageIndex: 0 })); }}>
+          <select id={`${id}-status`} className="rounded-md border border-peat-300 bg-white px-3 py-2" value={status} onChange={(e) => { setStatus(e.target.value); server.firstPage(); }}>
             <option value="">Any status</option>
             {reportStatuses.map((s) => (
               <option key={s} value={s}>{statusLabels[s]}</option>

@@ -4,72 +4,44 @@ import type { ReportDraft, ReportInput } from "../schemas";
 export type ReportRow = typeof schema.reports.$inferSelect;
 export type ReportColumns = Partial<typeof schema.reports.$inferInsert>;
 
+type Section = "water" | "treatment" | "outcome";
+
+/** One table of where each API field lives: [column, section of the nested body or null, field name there]. */
+const fields: [keyof ReportRow, Section | null, string][] = [
+  ["speciesId", null, "speciesId"], ["speciesOther", null, "speciesOther"], ["fishCount", null, "fishCount"], ["sizeClass", null, "sizeClass"],
+  ["conditionSlug", null, "conditionSlug"], ["startedOn", null, "startedOn"], ["showName", null, "showName"],
+  ["waterVolume", "water", "volume"], ["waterVolumeUnit", "water", "volumeUnit"], ["temperature", "water", "temperature"],
+  ["temperatureUnit", "water", "temperatureUnit"], ["ph", "water", "ph"], ["setting", "water", "setting"],
+  ["agentSlug", "treatment", "agentSlug"], ["stockPercent", "treatment", "stockPercent"], ["stockBasis", "treatment", "stockBasis"],
+  ["stockDensityGPerMl", "treatment", "stockDensityGPerMl"], ["amountMl", "treatment", "amountMl"], ["statedConcentration", "treatment", "statedConcentration"],
+  ["doses", "treatment", "doses"], ["intervalHours", "treatment", "intervalHours"], ["otherTreatments", "treatment", "otherTreatments"],
+  ["fishLost", "outcome", "fishLost"], ["lossCause", "outcome", "lossCause"], ["distress", "outcome", "distress"],
+  ["conditionOutcome", "outcome", "condition"], ["observedDaysAfter", "outcome", "observedDaysAfter"], ["notes", "outcome", "notes"],
+];
+
 /** Nested API body → flat columns (only the fields present). */
 export function toColumns(input: ReportInput | ReportDraft): ReportColumns {
-  const c: ReportColumns = {};
-  const set = <K extends keyof ReportColumns>(k: K, v: ReportColumns[K] | undefined) => {
-    if (v !== undefined) c[k] = v;
-  };
-  set("speciesId", input.speciesId);
-  set("speciesOther", input.speciesOther);
-  set("fishCount", input.fishCount);
-  set("sizeClass", input.sizeClass);
-  set("conditionSlug", input.conditionSlug);
-  set("startedOn", input.startedOn);
-  set("showName", input.showName);
-  const w = input.water;
-  if (w) {
-    set("waterVolume", w.volume);
-    set("waterVolumeUnit", w.volumeUnit);
-    set("temperature", w.temperature);
-    set("temperatureUnit", w.temperatureUnit);
-    set("ph", w.ph);
-    set("setting", w.setting);
+  const c: Record<string, unknown> = {};
+  const body = input as Record<string, unknown>;
+  for (const [column, section, name] of fields) {
+    const v = section ? (body[section] as Record<string, unknown> | undefined)?.[name] : body[name];
+    if (v !== undefined) c[column] = v;
   }
-  const t = input.treatment;
-  if (t) {
-    set("agentSlug", t.agentSlug);
-    set("stockPercent", t.stockPercent);
-    set("stockBasis", t.stockBasis);
-    set("stockDensityGPerMl", t.stockDensityGPerMl);
-    set("amountMl", t.amountMl);
-    set("statedConcentration", t.statedConcentration);
-    set("doses", t.doses);
-    set("intervalHours", t.intervalHours);
-    set("otherTreatments", t.otherTreatments);
-  }
-  const o = input.outcome;
-  if (o) {
-    set("fishLost", o.fishLost);
-    set("lossCause", o.lossCause);
-    set("distress", o.distress);
-    set("conditionOutcome", o.condition);
-    set("observedDaysAfter", o.observedDaysAfter);
-    set("notes", o.notes);
-  }
-  return c;
+  return c as ReportColumns;
 }
 
-const u = <T,>(v: T | null | undefined): T | undefined => (v === null ? undefined : v);
-
-/** Flat row → the nested shape of the API body (what a complete report is checked against). */
+/**
+ * Flat row → the nested shape of the API body (what a complete report is checked against). Empty columns
+ * become absent fields, except speciesId (null means "not listed") and a loss cause once losses are known.
+ */
 export function toInput(r: ReportRow): Record<string, unknown> {
-  return {
-    speciesId: r.speciesId,
-    ...(r.speciesOther ? { speciesOther: r.speciesOther } : {}),
-    fishCount: u(r.fishCount),
-    sizeClass: u(r.sizeClass),
-    conditionSlug: u(r.conditionSlug),
-    startedOn: u(r.startedOn),
-    showName: r.showName,
-    water: { volume: u(r.waterVolume), volumeUnit: u(r.waterVolumeUnit), temperature: u(r.temperature), temperatureUnit: u(r.temperatureUnit), ph: u(r.ph), setting: u(r.setting) },
-    treatment: {
-      agentSlug: u(r.agentSlug), stockPercent: u(r.stockPercent), stockBasis: u(r.stockBasis), stockDensityGPerMl: u(r.stockDensityGPerMl),
-      amountMl: u(r.amountMl), statedConcentration: u(r.statedConcentration), doses: u(r.doses), intervalHours: u(r.intervalHours), otherTreatments: u(r.otherTreatments),
-    },
-    outcome: {
-      fishLost: u(r.fishLost), lossCause: r.fishLost === null ? undefined : r.lossCause, distress: u(r.distress), condition: u(r.conditionOutcome),
-      observedDaysAfter: u(r.observedDaysAfter), notes: u(r.notes),
-    },
-  };
+  const out: Record<string, unknown> = { water: {}, treatment: {}, outcome: {} };
+  for (const [column, section, name] of fields) {
+    const v = r[column];
+    const keepNull = column === "speciesId" || (column === "lossCause" && r.fishLost !== null);
+    if (v === null && !keepNull) continue;
+    if (section) (out[section] as Record<string, unknown>)[name] = v;
+    else out[name] = v;
+  }
+  return out;
 }

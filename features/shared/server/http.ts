@@ -92,8 +92,7 @@ function checkOrigin(req: Request): void {
 
 export function errorResponse(err: unknown): Response {
   if (err instanceof AppError) {
-    const headers: Record<string, string> = {};
-    return json(err.toBody(), { status: err.status, headers });
+    return json(err.toBody(), err.status);
   }
   if (err instanceof z.ZodError) {
     const e = invalid(err);
