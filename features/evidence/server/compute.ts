@@ -3,6 +3,7 @@ import { getDb, schema, type Db } from "@/db/client";
 import { getClubSettings } from "@/features/catalogue/server";
 import { medianRank, wilson } from "../stats";
 import { invalidateSummaryCache } from "./cache";
+import { doseResponses } from "./dose-response";
 import { METHOD_VERSION, type Band, type Summary, type SummaryDetail } from "../summary";
 
 const { evidenceSummaries, agents, speciesGroups } = schema;
@@ -153,11 +154,12 @@ export async function recomputeGroupAgent(db: Db, groupSlug: string, agentSlug: 
     if (rank) ranks.set(k.whole ? "*all*" : (k.c ?? ""), { r: rank.r, n: Number(k.n) });
   }
   const rows = rowsOf<Row>(await db.execute(summarySql(groupSlug, agentSlug, edges, ranks)));
+  const doseResponseOf = await doseResponses(db, accepted(groupSlug, agentSlug), TOLERATED, s.confidenceLevel);
   const values = rows.map((row) => {
     const { bands, ...summary } = summaryFromRow(row, group, edges, s.confidenceLevel, s.minReports);
     return {
       groupSlug, agentSlug, conditionSlug: row.whole ? "" : (row.c ?? ""), methodVersion: METHOD_VERSION, confidenceLevel: s.confidenceLevel,
-      reports: Number(row.reports), summary, detail: { bands }, computedAt: new Date(),
+      reports: Number(row.reports), summary: { ...summary, doseResponse: doseResponseOf(row.whole ? null : (row.c ?? "")) }, detail: { bands }, computedAt: new Date(),
     };
   });
   invalidateSummaryCache();
