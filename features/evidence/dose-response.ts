@@ -196,17 +196,14 @@ function profileLimit(d: Data, llHat: number, u0: number, b0: number, dir: -1 | 
     return { dev: 2 * (llHat - p.ll), b: p.b };
   };
   // Step outward, doubling, until the deviance passes the cut-off: that brackets the limit.
-  let inner = u0, innerB = b0, outer = u0;
-  for (let step = 0.05; ; step *= 2) {
+  let inner = u0, innerB = b0, step = 0.05;
+  for (; dev(u0 + dir * step, innerB).dev < cut; step *= 2) {
     if (step > SEARCH_DECADES) return null;
-    outer = u0 + dir * step;
-    const r = dev(outer, innerB);
-    if (r.dev >= cut) break;
-    inner = outer;
-    innerB = r.b;
+    inner = u0 + dir * step;
+    innerB = profileLogLik(d, inner, innerB).b;
   }
   // Bisection between the bracket's ends, to the last bits of u.
-  let lo = inner, hi = outer;
+  let lo = inner, hi = u0 + dir * step;
   for (let i = 0; i < 200 && Math.abs(hi - lo) > 1e-13 * (1 + Math.abs(lo)); i++) {
     const mid = (lo + hi) / 2;
     const r = dev(mid, innerB);
