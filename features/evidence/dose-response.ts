@@ -155,32 +155,45 @@ function informationAt(d: Data, xbar: number, alpha: number, beta: number): [num
   return [i00, i01, i11];
 }
 
-/** max over b of ℓ given BMD = 10^u, i.e. a = logit(bmr) − b·u: concave in b, so Newton with step halving. */
-function profileLogLik(d: Data, u: number, start: number): { ll: number; b: number } {
+/** ℓ, its derivative in b, minus its second derivative in b, and Σ(y − n·p), at a = logit(bmr) − b·u: one pass. */
+function profilePass(d: Data, u: number, b: number) {
   const L = logit(BMR);
+  let ll = 0, g = 0, h = 0, r = 0;
+  for (let i = 0; i < d.x.length; i++) {
+    const t = d.x[i]! - u;
+    const eta = L + b * t;
+    const e = Math.exp(-Math.abs(eta));
+    const p = eta >= 0 ? 1 / (1 + e) : e / (1 + e);
+    const n = d.n[i]!, res = d.y[i]! - n * p;
+    ll += d.y[i]! * eta - n * (Math.max(eta, 0) + Math.log1p(e));
+    g += res * t;
+    h += n * p * (1 - p) * t * t;
+    r += res;
+  }
+  return { ll, g, h, r };
+}
+
+/**
+ * max over b of ℓ given BMD = 10^u, i.e. a = logit(bmr) − b·u: concave in b, so Newton with step halving.
+ * Also returns Σ(y − n·p) there: by the envelope theorem d(max ℓ)/du = −b·Σ(y − n·p).
+ */
+function profileLogLik(d: Data, u: number, start: number): { ll: number; b: number; r: number } {
   let b = start;
-  const ll = (bb: number) => logLik(d, L - bb * u, bb);
-  let cur = ll(b);
+  let cur = profilePass(d, u, b);
   for (let iter = 0; iter < 200; iter++) {
-    let g = 0, h = 0;
-    for (let i = 0; i < d.x.length; i++) {
-      const t = d.x[i]! - u;
-      const p = expit(L + b * t);
-      g += (d.y[i]! - d.n[i]! * p) * t;
-      h += d.n[i]! * p * (1 - p) * t * t;
-    }
-    if (!(h > 0)) break;
-    let step = g / h;
-    let next = ll(b + step);
-    for (let k = 0; k < 60 && !(next >= cur - 1e-12 * Math.abs(cur)); k++) {
+    if (!(cur.h > 0)) break;
+    let step = cur.g / cur.h;
+    let next = profilePass(d, u, b + step);
+    for (let k = 0; k < 60 && !(next.ll >= cur.ll - 1e-12 * Math.abs(cur.ll)); k++) {
       step /= 2;
-      next = ll(b + step);
+      next = profilePass(d, u, b + step);
     }
     b += step;
     cur = next;
-    if (Math.abs(step) <= 1e-14 * (1 + Math.abs(b))) break;
+    // Newton converges quadratically: after a step this small the remaining error is below 1e-14.
+    if (Math.abs(step) <= 1e-8 * (1 + Math.abs(b))) break;
   }
-  return { ll: cur, b };
+  return { ll: cur.ll, b, r: cur.r };
 }
 
 /** 2·(ℓ̂ − max ℓ | BMD = dose) for these trials (ℓ̂ from the fit). */
@@ -189,31 +202,38 @@ export function profileDeviance(trials: Trial[], fit: Pick<DoseResponseFit, "a" 
   return 2 * (logLik(d, fit.a, fit.b) - profileLogLik(d, Math.log10(dose), fit.b).ll);
 }
 
-/** The u on one side of u0 (dir −1 or +1) where the profile deviance reaches `cut`; null if it never does. */
-function profileLimit(d: Data, llHat: number, u0: number, b0: number, dir: -1 | 1, cut: number): number | null {
-  const dev = (u: number, start: number) => {
+/**
+ * The u on one side of u0 (dir −1 or +1) where the profile deviance reaches `cut`; null if it never does.
+ * Brackets it stepping outward from the Wald guess, then Newton on the deviance (its slope in u is 2·b·Σ(y − n·p)),
+ * falling back to bisection whenever a step would leave the bracket.
+ */
+function profileLimit(d: Data, llHat: number, u0: number, b0: number, seU: number, dir: -1 | 1, cut: number): number | null {
+  const at = (u: number, start: number) => {
     const p = profileLogLik(d, u, start);
-    return { dev: 2 * (llHat - p.ll), b: p.b };
+    return { u, dev: 2 * (llHat - p.ll), slope: 2 * p.b * p.r, b: p.b };
   };
-  // Step outward, doubling, until the deviance passes the cut-off: that brackets the limit.
-  let inner = u0, innerB = b0, step = 0.05;
-  for (; dev(u0 + dir * step, innerB).dev < cut; step *= 2) {
+  let inner = { u: u0, dev: 0, slope: 0, b: b0 };
+  let step = Math.min(Math.max(Math.sqrt(cut) * seU, 1e-3), 1);
+  let outer = at(u0 + dir * step, b0);
+  while (outer.dev < cut) {
     if (step > SEARCH_DECADES) return null;
-    inner = u0 + dir * step;
-    innerB = profileLogLik(d, inner, innerB).b;
+    inner = outer;
+    step *= 2;
+    outer = at(u0 + dir * step, inner.b);
   }
-  // Bisection between the bracket's ends, to the last bits of u.
-  let lo = inner, hi = u0 + dir * step;
-  for (let i = 0; i < 200 && Math.abs(hi - lo) > 1e-13 * (1 + Math.abs(lo)); i++) {
-    const mid = (lo + hi) / 2;
-    const r = dev(mid, innerB);
-    if (r.dev >= cut) hi = mid;
-    else {
-      lo = mid;
-      innerB = r.b;
-    }
+  let cur = outer;
+  for (let i = 0; i < 200; i++) {
+    let u = cur.u - (cur.dev - cut) / cur.slope;
+    const lo = Math.min(inner.u, outer.u), hi = Math.max(inner.u, outer.u);
+    if (!(u > lo && u < hi)) u = (inner.u + outer.u) / 2;
+    const next = at(u, cur.b);
+    if (next.dev >= cut) outer = next;
+    else inner = next;
+    const moved = Math.abs(next.u - cur.u);
+    cur = next;
+    if (Math.abs(cur.dev - cut) < 1e-11 || moved <= 1e-14 * (1 + Math.abs(cur.u)) || Math.abs(outer.u - inner.u) <= 1e-14 * (1 + Math.abs(cur.u))) break;
   }
-  return (lo + hi) / 2;
+  return cur.u;
 }
 
 const fmt = (v: number) => Number(v.toPrecision(3)).toString();
@@ -261,8 +281,10 @@ export function fitDoseResponse(trials: Trial[], level: number): DoseResponse {
   const llHat = logLik(d, a, b);
   const u0 = (logit(BMR) - a) / b;
   const cut = profileCutoff(level);
-  const uL = profileLimit(d, llHat, u0, b, -1, cut);
-  const uU = profileLimit(d, llHat, u0, b, 1, cut);
+  // Delta-method standard error of log10 bmd: only to size the first step of the search for the limits.
+  const seU = Math.sqrt(Math.max(0, varA + 2 * u0 * covAB + u0 * u0 * vBe)) / b;
+  const uL = profileLimit(d, llHat, u0, b, seU, -1, cut);
+  const uU = profileLimit(d, llHat, u0, b, seU, 1, cut);
   if (uL === null || uU === null) {
     return none(`The reports do not show the risk rising with dose clearly enough to bound the benchmark dose at the ${level} % level.`);
   }

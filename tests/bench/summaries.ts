@@ -4,6 +4,7 @@
 //   2. the time to recompute one group after an accept against the bare SQL aggregate for that group;
 //   3. peak memory (RSS) of the server and of this process.
 // It ends with one JSON line: {"summariesThroughputRatio", "recomputeRatio", "peakRssMb"}.
+// BENCH_RECOMPUTE_ONLY=1 stops after step 2 (no build, no server).
 import { spawn } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
@@ -20,7 +21,7 @@ process.env.BETTER_AUTH_SECRET ??= "bench-secret-bench-secret-bench-secret-00";
 
 const { getDb, closeDb } = await import("@/db/client");
 const { seedCatalogue } = await import("@/features/catalogue/server");
-const { recomputeAll, recomputeGroupAgent, summarySql, toleratedCountsSql } = await import("@/features/evidence/server");
+const { recomputeAll, recomputeGroupAgent, summarySql, toleratedCountsSql, doseResponses, doseTrialsSql } = await import("@/features/evidence/server");
 const { medianRank } = await import("@/features/evidence");
 
 const rowsOf = (r: unknown) => (r as { rows: Record<string, unknown>[] }).rows;
@@ -83,8 +84,13 @@ async function measureRecompute() {
   }
   const bare = await time(() => db.execute(summarySql(group, "hydrogen-peroxide", edges, ranks)));
   const recompute = await time(() => recomputeGroupAgent(db, group, "hydrogen-peroxide"));
+  // The dose–response part of the recompute on its own: its SQL aggregate plus the fits of every condition set.
+  const tolerated = sql.raw("(not (coalesce(r.fish_lost, 0) > 0 and coalesce(r.loss_cause, 'unknown') in ('treatment', 'unknown')) and coalesce(r.distress, 'none') <> 'severe')");
+  const acceptedHere = sql`r.status = 'accepted' and r.group_slug = ${group} and r.agent_slug = 'hydrogen-peroxide' and r.concentration is not null`;
+  const doseResponse = await time(() => doseResponses(db, acceptedHere, tolerated, 95));
+  const doseTrials = await time(() => db.execute(doseTrialsSql(acceptedHere, tolerated)));
   const [{ n }] = rowsOf(await db.execute(sql`select count(*)::int as n from reports where group_slug = ${group} and status = 'accepted'`)) as [{ n: number }];
-  return { group, reportsInGroup: n, bareMs: bare, recomputeMs: recompute, ratio: recompute / bare };
+  return { group, reportsInGroup: n, bareMs: bare, recomputeMs: recompute, doseResponseMs: doseResponse, doseTrialsMs: doseTrials, ratio: recompute / bare };
 }
 
 
@@ -104,8 +110,14 @@ async function load(url: string) {
 
 await seed();
 const recompute = await measureRecompute();
-console.log(`recompute of ${recompute.group} (${recompute.reportsInGroup} reports): ${recompute.recomputeMs.toFixed(1)} ms; bare SQL aggregate ${recompute.bareMs.toFixed(1)} ms; ratio ${recompute.ratio.toFixed(2)}`);
+console.log(`recompute of ${recompute.group} (${recompute.reportsInGroup} reports): ${recompute.recomputeMs.toFixed(1)} ms (of which the dose–response aggregate and fits ${recompute.doseResponseMs.toFixed(1)} ms, its SQL alone ${recompute.doseTrialsMs.toFixed(1)} ms); bare SQL aggregate ${recompute.bareMs.toFixed(1)} ms; ratio ${recompute.ratio.toFixed(2)}`);
 await closeDb();
+if (process.env.BENCH_RECOMPUTE_ONLY === "1") {
+  // Just the recompute ratio: no build, no server.
+  fs.rmSync(dir, { recursive: true, force: true });
+  console.log(JSON.stringify({ recomputeRatio: Number(recompute.ratio.toFixed(3)) }));
+  process.exit(0);
+}
 
 const { buildIfNeeded } = await import("@/db/serve");
 buildIfNeeded();
