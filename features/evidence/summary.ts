@@ -56,8 +56,8 @@ export const summaryQuerySchema = z.object({
   condition: z.string().min(1).optional(),
 });
 
-/** Either shape, readable as `doseResponse?.bmdl` (undefined where there is no fit). */
-export type DoseResponseView = DoseResponseFit | (DoseResponseNone & { [K in Exclude<keyof DoseResponseFit, "model">]?: undefined });
+/** Either shape, readable as `doseResponse?.bmdl` or `doseResponse?.reason` (undefined where it does not apply). */
+export type DoseResponseView = (DoseResponseFit & { fit?: undefined; reason?: undefined }) | (DoseResponseNone & { [K in Exclude<keyof DoseResponseFit, "model">]?: undefined });
 // Stored rows from an older method may lack doseResponse until the recompute on start: optional in the type.
 type WithDoseResponse<T> = Omit<T, "doseResponse"> & { doseResponse?: DoseResponseView };
 export type Summary = WithDoseResponse<z.infer<typeof summarySchema>>;
