@@ -3,7 +3,7 @@ import { getDb, schema, type Db } from "@/db/client";
 import { getClubSettings } from "@/features/catalogue/server";
 import { medianRank, wilson } from "../stats";
 import { invalidateSummaryCache } from "./cache";
-import { doseResponses } from "./dose-response";
+import { doseResponseOf, doseTrials } from "./dose-response";
 import { METHOD_VERSION, type Band, type Summary, type SummaryDetail } from "../summary";
 
 const { evidenceSummaries, agents, speciesGroups } = schema;
@@ -146,20 +146,20 @@ export async function recomputeGroupAgent(db: Db, groupSlug: string, agentSlug: 
   const [group] = await db.select({ slug: speciesGroups.slug, name: speciesGroups.name }).from(speciesGroups).where(eq(speciesGroups.slug, groupSlug));
   if (!agent || !group) return 0;
   const edges = [...agent.bandEdges].sort((a, b) => a - b);
-  // First the tolerated counts, so the median ranks are known; then every figure in one statement.
-  const counts = rowsOf<{ whole: boolean; c: string | null; n: number }>(await db.execute(toleratedCountsSql(groupSlug, agentSlug)));
+  // First the reports by distinct dose per condition set (the dose–response fit's trials), whose tolerated counts
+  // are the n the median ranks need; then every other figure in one statement.
+  const sets = await doseTrials(db, accepted(groupSlug, agentSlug), TOLERATED);
   const ranks = new Map<string, { r: number; n: number }>();
-  for (const k of counts) {
-    const rank = medianRank(Number(k.n), s.confidenceLevel);
-    if (rank) ranks.set(k.whole ? "*all*" : (k.c ?? ""), { r: rank.r, n: Number(k.n) });
+  for (const [key, { tolerated }] of sets) {
+    const rank = medianRank(tolerated, s.confidenceLevel);
+    if (rank) ranks.set(key, { r: rank.r, n: tolerated });
   }
   const rows = rowsOf<Row>(await db.execute(summarySql(groupSlug, agentSlug, edges, ranks)));
-  const doseResponseOf = await doseResponses(db, accepted(groupSlug, agentSlug), TOLERATED, s.confidenceLevel);
   const values = rows.map((row) => {
     const { bands, ...summary } = summaryFromRow(row, group, edges, s.confidenceLevel, s.minReports);
     return {
       groupSlug, agentSlug, conditionSlug: row.whole ? "" : (row.c ?? ""), methodVersion: METHOD_VERSION, confidenceLevel: s.confidenceLevel,
-      reports: Number(row.reports), summary: { ...summary, doseResponse: doseResponseOf(row.whole ? null : (row.c ?? "")) }, detail: { bands }, computedAt: new Date(),
+      reports: Number(row.reports), summary: { ...summary, doseResponse: doseResponseOf(sets, row.whole ? "*all*" : (row.c ?? ""), s.confidenceLevel) }, detail: { bands }, computedAt: new Date(),
     };
   });
   invalidateSummaryCache();

@@ -6,8 +6,9 @@ const rowsOf = <T,>(r: unknown) => (r as { rows: T[] }).rows;
 
 /**
  * The dose–response fit's input for one group × agent, for all conditions and each condition at once: accepted
- * reports with a dose above zero, grouped by distinct dose with their adverse and tolerated counts, folded into
- * one row of arrays per condition set so that few rows leave the database.
+ * reports grouped by distinct dose with their adverse and tolerated counts, folded into one row of arrays per
+ * condition set so that few rows leave the database. Doses at or below zero stay in (their tolerated counts are
+ * part of the summary's n); the fit drops them.
  * `accepted` and `tolerated` are the summary's own conditions on reports `r` (compute.ts), so the two agree.
  */
 export function doseTrialsSql(accepted: SQL, tolerated: SQL) {
@@ -17,21 +18,35 @@ export function doseTrialsSql(accepted: SQL, tolerated: SQL) {
                    count(*) filter (where not tol)::int as na, count(*) filter (where tol)::int as nt
               from (select coalesce(r.condition_slug, '') as cond, r.concentration as dose, ${tolerated} as tol
                       from reports r
-                     where ${accepted} and r.concentration > 0) b
+                     where ${accepted}) b
              group by grouping sets ((dose), (cond, dose))) g
      group by whole, c`;
 }
 
-/**
- * Fits the dose–response model for every condition set of one group × agent from one SQL aggregate.
- * Returns a lookup by condition key ("" or null for all conditions); a set with no dosed reports gets `fit: null`.
- */
-export async function doseResponses(db: Db, accepted: SQL, tolerated: SQL, level: number): Promise<(condition: string | null) => DoseResponse> {
+export interface DoseTrials {
+  trials: Trial[];
+  /** Tolerated reports in the set (any dose): the n of the median interval's ranks. */
+  tolerated: number;
+}
+
+/** One SQL aggregate, by condition set: key "*all*" for all conditions, else the condition slug ("" for none). */
+export async function doseTrials(db: Db, accepted: SQL, tolerated: SQL): Promise<Map<string, DoseTrials>> {
   const rows = rowsOf<{ whole: boolean; c: string | null; d: unknown[]; na: unknown[]; nt: unknown[] }>(await db.execute(doseTrialsSql(accepted, tolerated)));
-  const fits = new Map<string, DoseResponse>();
+  const sets = new Map<string, DoseTrials>();
   for (const row of rows) {
     const trials: Trial[] = row.d.map((dose, i) => ({ dose: Number(dose), adverse: Number(row.na[i]), n: Number(row.na[i]) + Number(row.nt[i]) }));
-    fits.set(row.whole ? "*all*" : (row.c ?? ""), fitDoseResponse(trials, level));
+    sets.set(row.whole ? "*all*" : (row.c ?? ""), { trials, tolerated: row.nt.reduce<number>((sum, t) => sum + Number(t), 0) });
   }
-  return (condition) => fits.get(condition === null ? "*all*" : condition) ?? fitDoseResponse([], level);
+  return sets;
+}
+
+/** The fit for one condition set (`fit: null` with a reason when it has too few reports, or none). */
+export function doseResponseOf(sets: Map<string, DoseTrials>, key: string, level: number): DoseResponse {
+  return fitDoseResponse(sets.get(key)?.trials ?? [], level);
+}
+
+/** Every condition set's fit of one group × agent (the bench times this part of the recompute alone). */
+export async function doseResponses(db: Db, accepted: SQL, tolerated: SQL, level: number): Promise<Map<string, DoseResponse>> {
+  const sets = await doseTrials(db, accepted, tolerated);
+  return new Map([...sets.keys()].map((k) => [k, doseResponseOf(sets, k, level)]));
 }
