@@ -5,6 +5,7 @@ import * as decisionRoute from "@/app/api/reports/[id]/decision/route";
 import * as summariesRoute from "@/app/api/summaries/route";
 import * as summaryRoute from "@/app/api/summaries/[groupSlug]/route";
 import * as csvRoute from "@/app/api/export/summaries.csv/route";
+import * as openapiRoute from "@/app/api/openapi.json/route";
 import { getDb, schema } from "@/db/client";
 import { seedCatalogue } from "@/features/catalogue/server";
 import { fitDoseResponse, METHOD_VERSION, type Trial } from "@/features/evidence";
@@ -86,6 +87,25 @@ describe("the dose–response fit through the API", () => {
     const s = await detail("tetras");
     expect(s.reports).toBe(3);
     expect(s.doseResponse).toEqual({ model: "logit-log10", fit: null, reason: expect.stringMatching(/Only 3 reports.*at least 10/) });
+  });
+
+  it("answers no curve from separated data", async () => {
+    // Six tolerated courses at 5–30 mg/L, six that went badly at 35–60: a dose splits the outcomes perfectly.
+    for (let i = 0; i < 12; i++) await accepted(members[i % 3]!, "betta-splendens", 5 * (i + 1), i >= 6, "white-spot");
+    const s = await detail("anabantoids");
+    expect(s.reports).toBe(12);
+    expect(s.doseResponse).toEqual({ model: "logit-log10", fit: null, reason: expect.stringMatching(/split cleanly by dose/) });
+    expect(s.doseResponse.curve).toBeUndefined();
+  });
+
+  it("documents doseResponse in the OpenAPI document", async () => {
+    const r = await call(openapiRoute.GET, "/api/openapi.json");
+    const schema = r.body.paths["/api/summaries/{groupSlug}"].get.responses["200"].content["application/json"].schema;
+    const shapes = schema.properties.doseResponse.anyOf;
+    expect(shapes).toHaveLength(2);
+    expect(Object.keys(shapes[0].properties)).toEqual(["model", "a", "b", "seA", "seB", "covAB", "bmr", "bmd", "bmdl", "bmdu", "deviance", "df", "curve"]);
+    expect(shapes[1].properties.fit).toEqual({ type: "null" });
+    expect(schema.required).toContain("doseResponse");
   });
 
   it("recomputes summaries stored by an older method when asked at start", async () => {
