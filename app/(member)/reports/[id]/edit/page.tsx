@@ -1,10 +1,10 @@
-import { notFound, redirect } from "next/navigation";
+import { redirect } from "next/navigation";
 import { getPageActor } from "@/features/members/server";
 import { getReportById } from "@/features/reports/server";
 import { ReportWizard } from "@/features/reports/components/report-wizard";
 import { PhotoUploader } from "@/features/photos/components/photo-uploader";
 import { PageTitle } from "@/features/shared/components/ui";
-import { AppError } from "@/features/shared/errors";
+import { pageData } from "@/features/shared/server/page";
 import { wizardCatalogue } from "../../_wizard-catalogue";
 
 export const metadata = { title: "Edit report" };
@@ -12,10 +12,7 @@ export const metadata = { title: "Edit report" };
 export default async function EditReportPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ step?: string }> }) {
   const [{ id }, { step }] = await Promise.all([params, searchParams]);
   const actor = await getPageActor();
-  const report = await getReportById(actor, id).catch((err) => {
-    if (err instanceof AppError && err.code === "not_found") notFound();
-    throw err;
-  });
+  const report = await pageData(getReportById(actor, id));
   if (!report.isMine || !["draft", "returned"].includes(report.status)) redirect(`/reports/${id}`);
   return (
     <div className="grid gap-6">
