@@ -52,7 +52,20 @@ export default tseslint.config(
   }),
   {
     files: ["app/**/*.{ts,tsx}", "*.{ts,tsx,mjs}"],
-    rules: { "no-restricted-imports": ["error", { patterns: [dbOnlyInServer] }] },
+    rules: {
+      "no-restricted-imports": [
+        "error",
+        {
+          patterns: [dbOnlyInServer],
+          // Unchecked helpers that features use after their own check; a page or handler would skip it.
+          paths: [
+            { name: "@/features/reports/server", importNames: ["getReportRowById", "getVisibleReportRow", "recordEvent", "derive", "computeFlags"], message: "Unchecked report helper: call getReportById, getReportHistory or another function that takes the caller." },
+            { name: "@/features/mail/server", importNames: ["sendMail"], message: "Mail goes out from the feature that has checked its caller." },
+            { name: "@/features/photos/server", importNames: ["photoStorage", "DiskStorage"], message: "Photos are read through getPhotoFile, which checks the caller." },
+          ],
+        },
+      ],
+    },
   },
   {
     // Client components never reach server code or the database.
