@@ -5,6 +5,7 @@ import { ReportWizard } from "@/features/reports/components/report-wizard";
 import { PhotoUploader } from "@/features/photos/components/photo-uploader";
 import { PageTitle } from "@/features/shared/components/ui";
 import { pageData } from "@/features/shared/server/page";
+import { canEditReport } from "@/features/shared/policies";
 import { wizardCatalogue } from "../../_wizard-catalogue";
 
 export const metadata = { title: "Edit report" };
@@ -13,7 +14,8 @@ export default async function EditReportPage({ params, searchParams }: { params:
   const [{ id }, { step }] = await Promise.all([params, searchParams]);
   const actor = await getPageActor();
   const report = await pageData(getReportById(actor, id));
-  if (!report.isMine || !["draft", "returned"].includes(report.status)) redirect(`/reports/${id}`);
+  // updateReport checks again on every save; this only sends the reader to a page they can use.
+  if (!canEditReport(actor, { authorId: report.author?.id ?? "", status: report.status })) redirect(`/reports/${id}`);
   return (
     <div className="grid gap-6">
       <PageTitle>{report.status === "returned" ? "Fix and resubmit" : "Edit draft report"}</PageTitle>
