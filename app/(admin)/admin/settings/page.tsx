@@ -5,6 +5,7 @@ import { recomputeAll } from "@/features/evidence/server";
 import { getPageActor } from "@/features/members/server";
 import { PageTitle } from "@/features/shared/components/ui";
 import { pageData } from "@/features/shared/server/page";
+import { canEditClubSettings } from "@/features/shared/policies";
 
 export const metadata = { title: "Club settings" };
 
@@ -12,7 +13,7 @@ export const metadata = { title: "Club settings" };
 async function saveSettings(prev: SettingsState, form: FormData): Promise<SettingsState> {
   "use server";
   const actor = await getPageActor();
-  if (actor?.role !== "admin") return { ...prev, ok: false, message: "Only club officers (admins) may change the settings.", fieldErrors: {} };
+  if (!canEditClubSettings(actor)) return { ...prev, ok: false, message: "Only club officers (admins) may change the settings.", fieldErrors: {} };
   const raw = Object.fromEntries(form.entries());
   const parsed = clubSettingsSchema.safeParse(raw);
   if (!parsed.success) {
