@@ -7,7 +7,7 @@ const root = path.resolve(import.meta.dirname, "../..");
 // playwright-core in Debian's Chromium. Files run one at a time against the one server.
 export default defineConfig({
   root,
-  resolve: { alias: { "@": root } },
+  resolve: { alias: { "@": root, "server-only": path.join(root, "tests/support/server-only.ts") } },
   test: {
     name: "e2e",
     include: ["tests/e2e/**/*.e2e.ts"],

@@ -1,8 +1,10 @@
+import "server-only";
 import { count, desc, eq } from "drizzle-orm";
 import type { z } from "zod";
 import { getDb, schema } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
+import { canManageCatalogue, type Caller } from "@/features/shared/policies";
 import { catalogueInputs, type CatalogueKind } from "../admin-schemas";
 import { speciesIdOf } from "./seed";
 
@@ -10,7 +12,7 @@ const { speciesGroups, species, agents, conditions, stockForms, reports, catalog
 
 function assertAdmin(actor: Actor | null): asserts actor is Actor {
   if (!actor) throw new AppError("unauthenticated", "Sign in to manage the catalogue.");
-  if (actor.role !== "admin") throw new AppError("forbidden", "Only club officers (admins) may change the catalogue.");
+  if (!canManageCatalogue(actor)) throw new AppError("forbidden", "Only club officers (admins) may change the catalogue.");
 }
 
 const tables = {
@@ -125,7 +127,9 @@ export async function mergeSpecies(actor: Actor | null, key: string, into: strin
   return { key, into, reportsMoved: touched.length, groups: [...new Set([from.groupSlug, to.groupSlug])] };
 }
 
-export async function getCatalogueChanges(limit = 30) {
+/** The catalogue- and settings-change log, newest first, for admins. */
+export async function getCatalogueChanges({ actor }: Caller, limit = 30) {
+  assertAdmin(actor);
   const db = await getDb();
   const rows = await db
     .select({ id: catalogueChanges.id, entity: catalogueChanges.entity, entityKey: catalogueChanges.entityKey, action: catalogueChanges.action, at: catalogueChanges.at, actorName: schema.users.name })

@@ -1,5 +1,8 @@
+import "server-only";
 import { eq } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";
+import type { Actor } from "@/features/shared/roles";
+import { authorize, canEditClubSettings, type Caller } from "@/features/shared/policies";
 
 export interface ClubSettings {
   name: string;
@@ -9,6 +12,7 @@ export interface ClubSettings {
   defaultTemperatureUnit: string;
 }
 
+/** Public: the club's name and the figures every summary states (level, minimum, units). */
 export async function getClubSettings(): Promise<ClubSettings> {
   const db = await getDb();
   const [row] = await db.select().from(schema.clubSettings).where(eq(schema.clubSettings.id, 1));
@@ -21,8 +25,16 @@ export async function getClubSettings(): Promise<ClubSettings> {
   };
 }
 
+/** The settings form's data, for admins. */
+export async function getClubSettingsForEdit({ actor }: Caller): Promise<ClubSettings> {
+  authorize(actor, canEditClubSettings, "change the club's settings");
+  return getClubSettings();
+}
+
 /** An admin changes the club's settings; the change is recorded with before and after. */
-export async function updateClubSettings(actorId: string, input: import("../settings-schema").ClubSettingsInput): Promise<ClubSettings> {
+export async function updateClubSettings(actor: Actor | null, input: import("../settings-schema").ClubSettingsInput): Promise<ClubSettings> {
+  authorize(actor, canEditClubSettings, "change the club's settings");
+  const actorId = actor.id;
   const db = await getDb();
   const before = await getClubSettings();
   await db.transaction(async (tx) => {
@@ -33,7 +45,7 @@ export async function updateClubSettings(actorId: string, input: import("../sett
   return getClubSettings();
 }
 
-/** Whether this club holds invented demo accounts (the demo seed), so every page can say so. */
+/** Public: whether this club holds invented demo accounts (the demo seed), so every page can say so. */
 export async function hasDemoData(): Promise<boolean> {
   const db = await getDb();
   const [row] = await db.select({ id: schema.users.id }).from(schema.users).where(eq(schema.users.isDemo, true)).limit(1);

@@ -1,3 +1,4 @@
+import "server-only";
 const store = globalThis as unknown as { __tankloreSummaries?: Map<string, { at: number; value: unknown }> };
 const CACHE_MS = 10_000;
 

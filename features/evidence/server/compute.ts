@@ -1,3 +1,4 @@
+import "server-only";
 import { and, eq, sql } from "drizzle-orm";
 import { getDb, schema, type Db } from "@/db/client";
 import { getClubSettings } from "@/features/catalogue/server";

@@ -1,2 +1,3 @@
-export { sendMail, listCaughtMail, readCaughtMail, mailDir } from "./mailer";
+import "server-only";
+export { sendMail, listCaughtMail, readCaughtMail, mailDir, maskLinks } from "./mailer";
 export { verificationMail, resetMail } from "./templates";

@@ -1,3 +1,4 @@
+import "server-only";
 import type { OutgoingMail } from "./mailer";
 
 const footer = "\n\n— Tanklore, your club's treatment-outcome registry.\nYou get this because of an action on your account.";

@@ -1,3 +1,4 @@
+import "server-only";
 export { getAuth, authSecret } from "./auth";
 export { getActor, requireActor, assertRole } from "./session";
 export { getMembers, getMemberById, getRoleChangesByUserId } from "./queries";

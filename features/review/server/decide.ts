@@ -1,3 +1,4 @@
+import "server-only";
 import { and, desc, eq } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { getDb, schema } from "@/db/client";

@@ -1,3 +1,4 @@
+import "server-only";
 import { z } from "zod";
 import { AppError, type FieldIssue } from "../errors";
 
