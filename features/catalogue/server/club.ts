@@ -1,5 +1,6 @@
 import { eq } from "drizzle-orm";
-import { getDb, schema } from "@/db/client";
+import { getDb, schema, type Db } from "@/db/client";
+import { enqueueEvidenceRecomputeWhere, wakeEvidenceWorker } from "@/features/shared/server/evidence-outbox";
 
 export interface ClubSettings {
   name: string;
@@ -9,8 +10,9 @@ export interface ClubSettings {
   defaultTemperatureUnit: string;
 }
 
-export async function getClubSettings(): Promise<ClubSettings> {
-  const db = await getDb();
+/** `q`: an open transaction to read through (the evidence worker reads settings with the figures it replaces). */
+export async function getClubSettings(q?: Pick<Db, "select">): Promise<ClubSettings> {
+  const db = q ?? (await getDb());
   const [row] = await db.select().from(schema.clubSettings).where(eq(schema.clubSettings.id, 1));
   return {
     name: row?.name ?? "Tanklore club",
@@ -25,11 +27,15 @@ export async function getClubSettings(): Promise<ClubSettings> {
 export async function updateClubSettings(actorId: string, input: import("../settings-schema").ClubSettingsInput): Promise<ClubSettings> {
   const db = await getDb();
   const before = await getClubSettings();
+  // The confidence level and the minimum shape every summary; the name and default units none.
+  const movesFigures = (input.confidenceLevel !== undefined && input.confidenceLevel !== before.confidenceLevel) || (input.minReports !== undefined && input.minReports !== before.minReports);
   await db.transaction(async (tx) => {
     await tx.insert(schema.clubSettings).values({ id: 1 }).onConflictDoNothing();
     await tx.update(schema.clubSettings).set({ ...input, updatedAt: new Date() }).where(eq(schema.clubSettings.id, 1));
     await tx.insert(schema.catalogueChanges).values({ actorId, entity: "club_settings", entityKey: "1", action: "update", before, after: input });
+    if (movesFigures) await enqueueEvidenceRecomputeWhere(tx);
   });
+  if (movesFigures) wakeEvidenceWorker();
   return getClubSettings();
 }
 

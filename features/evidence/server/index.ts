@@ -1,2 +1,3 @@
-export { recomputeAfterChange, recomputeAll, recomputeGroupAgent, summarySql, toleratedCountsSql } from "./compute";
+export { lockPair, recomputeGroupAgent, replacePairFigures, summarySql, toleratedCountsSql } from "./compute";
+export { drainEvidenceOutbox, recomputeAfterChange, recomputeAll, startEvidenceWorker, stopEvidenceWorker, type DrainResult } from "./worker";
 export { getSummaries, getSummaryDetail } from "./queries";
