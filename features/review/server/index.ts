@@ -1,3 +1,4 @@
 export { getReviewQueue, countAwaitingReview, getGroupContext } from "./queue";
+export { listAllReports } from "./all-reports";
 export { decideReport, correctReport, type DecisionResult } from "./decide";
 export { sendModeratorDigests, startDigestScheduler } from "./digest";
