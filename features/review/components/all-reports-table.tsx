@@ -97,32 +97,32 @@ export function AllReportsTable({ groups, agents, initial }: { groups: { slug: s
       <div className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-4" role="search" aria-label="Filter reports">
         <div className={field}>
           <label htmlFor={`${id}-status`} className="font-bold">Status</label>
-          <Select id={`${id}-status`} value={filters.status} onChange={set("status")}>
+          <Select id={`${id}-status`} className="w-full min-w-0" value={filters.status} onChange={set("status")}>
             <option value="">Any status</option>
             {listedStatuses.map((s) => <option key={s} value={s}>{statusLabels[s]}</option>)}
           </Select>
         </div>
         <div className={field}>
           <label htmlFor={`${id}-group`} className="font-bold">Species group</label>
-          <Select id={`${id}-group`} value={filters.group} onChange={set("group")}>
+          <Select id={`${id}-group`} className="w-full min-w-0" value={filters.group} onChange={set("group")}>
             <option value="">Any group</option>
             {groups.map((g) => <option key={g.slug} value={g.slug}>{g.name}</option>)}
           </Select>
         </div>
         <div className={field}>
           <label htmlFor={`${id}-agent`} className="font-bold">Treatment</label>
-          <Select id={`${id}-agent`} value={filters.agent} onChange={set("agent")}>
+          <Select id={`${id}-agent`} className="w-full min-w-0" value={filters.agent} onChange={set("agent")}>
             <option value="">Any treatment</option>
             {agents.map((a) => <option key={a.slug} value={a.slug}>{a.name}</option>)}
           </Select>
         </div>
         <div className={field}>
           <label htmlFor={`${id}-member`} className="font-bold">Member</label>
-          <TextInput id={`${id}-member`} value={filters.member} placeholder="Name or e-mail" onChange={set("member")} />
+          <TextInput id={`${id}-member`} className="w-full min-w-0" value={filters.member} placeholder="Name or e-mail" onChange={set("member")} />
         </div>
         <div className={field}>
           <label htmlFor={`${id}-dateof`} className="font-bold">Dates apply to</label>
-          <Select id={`${id}-dateof`} value={filters.dateOf} onChange={set("dateOf")}>
+          <Select id={`${id}-dateof`} className="w-full min-w-0" value={filters.dateOf} onChange={set("dateOf")}>
             <option value="submitted">Submitted</option>
             <option value="decided">Decided</option>
             <option value="started">Treatment started</option>
@@ -130,11 +130,11 @@ export function AllReportsTable({ groups, agents, initial }: { groups: { slug: s
         </div>
         <div className={field}>
           <label htmlFor={`${id}-from`} className="font-bold">From</label>
-          <TextInput id={`${id}-from`} type="date" value={filters.from} onChange={set("from")} />
+          <TextInput id={`${id}-from`} className="w-full min-w-0" type="date" value={filters.from} onChange={set("from")} />
         </div>
         <div className={field}>
           <label htmlFor={`${id}-to`} className="font-bold">To (inclusive)</label>
-          <TextInput id={`${id}-to`} type="date" value={filters.to} onChange={set("to")} />
+          <TextInput id={`${id}-to`} className="w-full min-w-0" type="date" value={filters.to} onChange={set("to")} />
         </div>
         <div className="flex items-end">
           <button
