@@ -31,14 +31,14 @@ describe("club officers", () => {
     await page.getByLabel("Minimum reports before a summary can be leaned on").fill("5");
     await page.getByLabel("Confidence level of intervals").selectOption("90");
     await page.getByRole("button", { name: "Save settings" }).click();
-    await page.getByText(/summaries were recomputed/).waitFor();
+    await page.getByText(/summary is being recomputed/).waitFor();
     await page.goto(`${baseUrl()}/evidence?agent=hydrogen-peroxide`);
     await page.getByText("Intervals are 90 %").waitFor();
 
     await page.goto(`${baseUrl()}/admin/settings`);
     await page.getByLabel("Confidence level of intervals").selectOption("95");
     await page.getByRole("button", { name: "Save settings" }).click();
-    await page.getByText(/summaries were recomputed/).waitFor();
+    await page.getByText(/summary is being recomputed/).waitFor();
     await page.close();
   });
 

@@ -3,8 +3,10 @@ import { count, eq } from "drizzle-orm";
 import * as healthRoute from "@/app/api/health/route";
 import * as catalogueRoute from "@/app/api/catalogue/route";
 import * as membersRoute from "@/app/api/admin/members/route";
+import * as decisionRoute from "@/app/api/reports/[id]/decision/route";
 import { closeDb, getDb, schema } from "@/db/client";
 import { seedDemo } from "@/db/seed";
+import { drainEvidenceOutbox } from "@/features/evidence/server";
 import { call } from "../support/http";
 import { signIn } from "../support/factories";
 import { hasPostgresServer, startPostgres } from "../support/pg-server";
@@ -50,5 +52,31 @@ describe("on a PostgreSQL server (DATABASE_URL)", () => {
     expect(members.body.members.map((m: { email: string }) => m.email).sort()).toEqual(["keeper10@example.org", "moderator@example.org"]);
     const [admin] = await db.select().from(schema.users).where(eq(schema.users.email, "admin@example.org"));
     expect(admin?.role).toBe("admin");
+  });
+
+  it("accepts waiting reports in parallel and the drained summaries count every accepted report", async () => {
+    const db = await getDb();
+    const waiting = await db.select({ id: schema.reports.id, authorId: schema.reports.authorId }).from(schema.reports).where(eq(schema.reports.status, "awaiting_review"));
+    expect(waiting.length).toBeGreaterThan(1);
+    const [mod, admin] = [await signIn("moderator@example.org", "pg-demo-password"), await signIn("admin@example.org", "pg-demo-password")];
+    const answers = await Promise.all(
+      waiting.map((r, i) => call(decisionRoute.POST, `/api/reports/${r.id}/decision`, { params: { id: r.id }, cookie: i % 2 ? mod : admin, body: { decision: "accept" } })),
+    );
+    const accepted = answers.filter((a) => a.status === 200).length;
+    expect(accepted).toBeGreaterThan(0); // a demo account's own report answers 403; every other is accepted
+    await drainEvidenceOutbox();
+    const [left] = await db.select({ n: count() }).from(schema.evidenceOutbox);
+    expect(left?.n).toBe(0);
+    const counts = await db
+      .select({ group: schema.reports.groupSlug, agent: schema.reports.agentSlug, n: count() })
+      .from(schema.reports)
+      .where(eq(schema.reports.status, "accepted"))
+      .groupBy(schema.reports.groupSlug, schema.reports.agentSlug);
+    const stored = await db
+      .select({ group: schema.evidenceSummaries.groupSlug, agent: schema.evidenceSummaries.agentSlug, n: schema.evidenceSummaries.reports })
+      .from(schema.evidenceSummaries)
+      .where(eq(schema.evidenceSummaries.conditionSlug, ""));
+    const key = (x: { group: string | null; agent: string | null; n: number }) => `${x.group}/${x.agent}/${x.n}`;
+    expect(stored.map(key).sort()).toEqual(counts.map(key).sort());
   });
 });

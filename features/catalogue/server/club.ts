@@ -1,8 +1,9 @@
 import "server-only";
 import { eq } from "drizzle-orm";
-import { getDb, schema } from "@/db/client";
+import { getDb, schema, type Db } from "@/db/client";
 import type { Actor } from "@/features/shared/roles";
 import { authorize, canEditClubSettings, type Caller } from "@/features/shared/policies";
+import { enqueueEvidenceRecomputeWhere, wakeEvidenceWorker } from "@/features/shared/server/evidence-outbox";
 
 export interface ClubSettings {
   name: string;
@@ -12,9 +13,12 @@ export interface ClubSettings {
   defaultTemperatureUnit: string;
 }
 
-/** Public: the club's name and the figures every summary states (level, minimum, units). */
-export async function getClubSettings(): Promise<ClubSettings> {
-  const db = await getDb();
+/**
+ * Public: the club's name and the figures every summary states (level, minimum, units).
+ * `q`: an open transaction to read through (the evidence worker reads settings with the figures it replaces).
+ */
+export async function getClubSettings(q?: Pick<Db, "select">): Promise<ClubSettings> {
+  const db = q ?? (await getDb());
   const [row] = await db.select().from(schema.clubSettings).where(eq(schema.clubSettings.id, 1));
   return {
     name: row?.name ?? "Tanklore club",
@@ -37,11 +41,15 @@ export async function updateClubSettings(actor: Actor | null, input: import("../
   const actorId = actor.id;
   const db = await getDb();
   const before = await getClubSettings();
+  // The confidence level and the minimum shape every summary; the name and default units none.
+  const movesFigures = (input.confidenceLevel !== undefined && input.confidenceLevel !== before.confidenceLevel) || (input.minReports !== undefined && input.minReports !== before.minReports);
   await db.transaction(async (tx) => {
     await tx.insert(schema.clubSettings).values({ id: 1 }).onConflictDoNothing();
     await tx.update(schema.clubSettings).set({ ...input, updatedAt: new Date() }).where(eq(schema.clubSettings.id, 1));
     await tx.insert(schema.catalogueChanges).values({ actorId, entity: "club_settings", entityKey: "1", action: "update", before, after: input });
+    if (movesFigures) await enqueueEvidenceRecomputeWhere(tx);
   });
+  if (movesFigures) wakeEvidenceWorker();
   return getClubSettings();
 }
 

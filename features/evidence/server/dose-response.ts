@@ -30,7 +30,7 @@ export interface DoseTrials {
 }
 
 /** One SQL aggregate, by condition set: key "*all*" for all conditions, else the condition slug ("" for none). */
-export async function doseTrials(db: Db, accepted: SQL, tolerated: SQL): Promise<Map<string, DoseTrials>> {
+export async function doseTrials(db: Pick<Db, "execute">, accepted: SQL, tolerated: SQL): Promise<Map<string, DoseTrials>> {
   const rows = rowsOf<{ whole: boolean; c: string | null; d: unknown[]; na: unknown[]; nt: unknown[] }>(await db.execute(doseTrialsSql(accepted, tolerated)));
   const sets = new Map<string, DoseTrials>();
   for (const row of rows) {

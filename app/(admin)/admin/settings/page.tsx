@@ -1,7 +1,6 @@
 import { clubSettingsSchema } from "@/features/catalogue";
-import { getClubSettingsForEdit, updateClubSettings } from "@/features/catalogue/server";
+import { getClubSettings, getClubSettingsForEdit, updateClubSettings } from "@/features/catalogue/server";
 import { SettingsForm, type SettingsState } from "@/features/catalogue/components/settings-form";
-import { recomputeAll } from "@/features/evidence/server";
 import { getPageActor } from "@/features/members/server";
 import { PageTitle } from "@/features/shared/components/ui";
 import { pageData } from "@/features/shared/server/page";
@@ -20,9 +19,11 @@ async function saveSettings(prev: SettingsState, form: FormData): Promise<Settin
     const fieldErrors = Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message]));
     return { ...prev, ok: false, message: "Some settings need fixing; nothing was changed.", fieldErrors };
   }
+  const before = await getClubSettings();
   const saved = await updateClubSettings(actor, parsed.data);
-  const n = await recomputeAll();
-  return { ok: true, message: `Saved. ${n} summaries were recomputed with the new settings.`, fieldErrors: {}, values: saved };
+  const recomputing = saved.confidenceLevel !== before.confidenceLevel || saved.minReports !== before.minReports;
+  const message = recomputing ? "Saved. Every summary is being recomputed with the new settings; the evidence pages show them within a few seconds." : "Saved.";
+  return { ok: true, message, fieldErrors: {}, values: saved };
 }
 
 export default async function SettingsPage() {
