@@ -1,2 +1,2 @@
 export { sendMail, listCaughtMail, readCaughtMail, mailDir } from "./mailer";
-export { verificationMail, resetMail } from "./templates";
+export { verificationMail, resetMail, signUpAttemptMail, signInLockedMail } from "./templates";
