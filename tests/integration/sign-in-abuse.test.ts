@@ -61,6 +61,20 @@ describe("per-account limit on wrong passwords", () => {
     expect((await signIn(other.email, PASSWORD)).status).toBe(200);
   });
 
+  it("lifts the pause when the owner resets the password", async () => {
+    const user = await signedInUser("member");
+    for (let i = 0; i < 11; i++) await signIn(user.email, `wrong-password-${i}`);
+    expect((await signIn(user.email, PASSWORD)).status).toBe(429);
+    await call(authRoute.POST, "/api/auth/request-password-reset", { body: { email: user.email, redirectTo: "/reset-password" } });
+    await settleBackgroundMail();
+    const mail = mailTo(user.email).find((m) => /Subject: Choose a new Tanklore password/.test(m))!;
+    const link = new URL(linkIn(mail));
+    const hop = await call(authRoute.GET, link.pathname + link.search);
+    const token = new URL(hop.res.headers.get("location")!, "http://localhost:3000").searchParams.get("token")!;
+    expect((await call(authRoute.POST, "/api/auth/reset-password", { body: { newPassword: "a-fresh-password-2", token } })).status).toBe(200);
+    expect((await signIn(user.email, "a-fresh-password-2")).status).toBe(200);
+  });
+
   it("counts parallel guesses too", async () => {
     const user = await signedInUser("member");
     const results = await Promise.all(Array.from({ length: 14 }, (_, i) => signIn(user.email, `parallel-wrong-${i}`)));

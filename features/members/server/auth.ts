@@ -12,6 +12,7 @@ import { resetMail, signUpAttemptMail, verificationMail } from "@/features/mail/
 import { ac, admin, member, moderator } from "./access";
 import { sendMailLater } from "./background-mail";
 import { CLIENT_ADDRESS_HEADER } from "./client-address";
+import { clearSignInAttempts } from "./sign-in-guard";
 
 /**
  * The admin plugin's own routes. All are closed: roles change only through the app's
@@ -59,6 +60,10 @@ async function createAuth() {
       },
       // A reset is what someone does when they fear another has the password: sign out everywhere.
       revokeSessionsOnPasswordReset: true,
+      // A reset proves the mailbox: it lifts a pause on password sign-in (the pause message says so).
+      async onPasswordReset({ user }) {
+        await clearSignInAttempts(user.email);
+      },
       // Sign-up with a known address answers like a fresh one; the owner hears of it instead.
       async onExistingUserSignUp({ user }) {
         sendMailLater(signUpAttemptMail(user.email, user.name, `${publicBaseUrl()}/sign-in`, `${publicBaseUrl()}/forgot-password`));
