@@ -1,6 +1,5 @@
 import { setRoleSchema } from "@/features/members";
-import { changeMemberRole, getActor, handleAuthRequest, authPath } from "@/features/members/server";
-import { assertRole } from "@/features/members/server";
+import { assertRole, authPath, changeMemberRole, getActor, handleAuthRequest } from "@/features/members/server";
 import { errorResponse, json, parseJson, route } from "@/features/shared/server/http";
 
 // better-auth's own routes (sign-up, sign-in, sign-out, session, verification, password reset),
