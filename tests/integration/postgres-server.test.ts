@@ -9,6 +9,8 @@ import { seedDemo } from "@/db/seed";
 import { drainEvidenceOutbox } from "@/features/evidence/server";
 import { call } from "../support/http";
 import { signIn } from "../support/factories";
+import * as authRoute from "@/app/api/auth/[...all]/route";
+import { resetAuthForTests } from "@/features/members/server/auth";
 import { hasPostgresServer, startPostgres } from "../support/pg-server";
 
 // The same schema, migrations, queries and auth on a real PostgreSQL server. Its binaries come
@@ -78,5 +80,31 @@ describe("on a PostgreSQL server (DATABASE_URL)", () => {
       .where(eq(schema.evidenceSummaries.conditionSlug, ""));
     const key = (x: { group: string | null; agent: string | null; n: number }) => `${x.group}/${x.agent}/${x.n}`;
     expect(stored.map(key).sort()).toEqual(counts.map(key).sort());
+  });
+
+  it("keeps both sign-in limits in the server's tables", async () => {
+    process.env.RATE_LIMIT = "on";
+    process.env.TRUSTED_PROXY_HOPS = "1";
+    resetAuthForTests();
+    try {
+      const statuses: number[] = [];
+      for (let i = 0; i < 11; i++) {
+        const r = await call(authRoute.POST, "/api/auth/sign-in/email", {
+          body: { email: "member@example.org", password: `wrong-password-${i}` },
+          headers: { "x-forwarded-for": `198.51.100.${i + 1}` },
+        });
+        statuses.push(r.status);
+      }
+      expect(statuses).toEqual([...Array(10).fill(401), 429]);
+      const db = await getDb();
+      const [limit] = await db.select().from(schema.signInLimits).where(eq(schema.signInLimits.email, "member@example.org"));
+      expect(limit?.lockedUntil).toBeInstanceOf(Date);
+      const [counted] = await db.select({ n: count() }).from(schema.rateLimits);
+      expect(counted?.n).toBeGreaterThanOrEqual(10);
+    } finally {
+      process.env.RATE_LIMIT = "off";
+      delete process.env.TRUSTED_PROXY_HOPS;
+      resetAuthForTests();
+    }
   });
 });

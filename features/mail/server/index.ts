@@ -1,3 +1,3 @@
 import "server-only";
 export { sendMail, listCaughtMail, readCaughtMail, mailDir, maskLinks } from "./mailer";
-export { verificationMail, resetMail } from "./templates";
+export { verificationMail, resetMail, signUpAttemptMail, signInLockedMail } from "./templates";
