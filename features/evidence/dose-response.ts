@@ -131,11 +131,14 @@ function newton(d: Data, xbar: number): { alpha: number; beta: number; info: [nu
       s1 /= 2;
       next = ll(alpha + s0, beta + s1);
     }
+    // No step along Newton's direction raises the likelihood: at its maximum to rounding.
+    if (!(next >= cur - 1e-12 * Math.abs(cur))) return { alpha, beta, info: informationAt(d, xbar, alpha, beta) };
     alpha += s0;
     beta += s1;
     cur = next;
     if (!Number.isFinite(alpha) || !Number.isFinite(beta) || Math.abs(beta) > 1e6) return null;
-    if (Math.abs(s0) <= 1e-13 * (1 + Math.abs(alpha)) && Math.abs(s1) <= 1e-13 * (1 + Math.abs(beta))) {
+    // Quadratic convergence: once a full step is this small, the error left after it is far below rounding.
+    if (Math.abs(s0) <= 1e-9 * (1 + Math.abs(alpha)) && Math.abs(s1) <= 1e-9 * (1 + Math.abs(beta))) {
       return { alpha, beta, info: informationAt(d, xbar, alpha, beta) };
     }
   }
@@ -180,6 +183,12 @@ function profilePass(d: Data, u: number, b: number) {
 function profileLogLik(d: Data, u: number, start: number): { ll: number; b: number; r: number } {
   let b = start;
   let cur = profilePass(d, u, b);
+  // Far from where `start` came from, the fitted risks can saturate at 0 or 1 (no curvature left to follow):
+  // start from a flat curve instead, where every risk is bmr.
+  if (!(cur.h > 0) || !Number.isFinite(cur.ll)) {
+    b = 0;
+    cur = profilePass(d, u, b);
+  }
   for (let iter = 0; iter < 200; iter++) {
     if (!(cur.h > 0)) break;
     let step = cur.g / cur.h;
@@ -188,6 +197,7 @@ function profileLogLik(d: Data, u: number, start: number): { ll: number; b: numb
       step /= 2;
       next = profilePass(d, u, b + step);
     }
+    if (!(next.ll >= cur.ll - 1e-12 * Math.abs(cur.ll))) break;
     b += step;
     cur = next;
     // Newton converges quadratically: after a step this small the remaining error is below 1e-14.

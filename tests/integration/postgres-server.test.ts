@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { count, eq } from "drizzle-orm";
+import { and, count, eq } from "drizzle-orm";
 import * as healthRoute from "@/app/api/health/route";
 import * as catalogueRoute from "@/app/api/catalogue/route";
 import * as membersRoute from "@/app/api/admin/members/route";
@@ -44,6 +44,12 @@ describe("on a PostgreSQL server (DATABASE_URL)", () => {
     expect(again.reportsCreated).toBe(0);
     const [n] = await db.select({ n: count() }).from(schema.reports);
     expect(n?.n).toBe(150);
+
+    // The dose–response aggregate's arrays come back through node-postgres too: the demo's tetras get a fit.
+    const [tetras] = await db.select().from(schema.evidenceSummaries).where(and(eq(schema.evidenceSummaries.groupSlug, "tetras"), eq(schema.evidenceSummaries.agentSlug, "hydrogen-peroxide"), eq(schema.evidenceSummaries.conditionSlug, "")));
+    const dr = (tetras?.summary as { doseResponse: { bmd: number; bmdl: number; curve: unknown[] } }).doseResponse;
+    expect(dr.bmdl).toBeLessThan(dr.bmd);
+    expect(dr.curve).toHaveLength(50);
 
     const cat = await call(catalogueRoute.GET, "/api/catalogue");
     expect(cat.body.agents.find((a: { slug: string }) => a.slug === "hydrogen-peroxide")).toMatchObject({ unit: "mg/L" });

@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import fc from "fast-check";
 import { uncmin } from "numeric";
 import { chiSquare1Quantile, fitDoseResponse, isFitted, profileCutoff, profileDeviance, type DoseResponseFit, type Trial } from "@/features/evidence";
 import { generatedReports } from "../support/dose-data";
@@ -212,5 +213,37 @@ describe("cases where the model cannot be estimated answer fit null with a reaso
 
   it("a slope too weak to bound the benchmark dose", () => {
     expect(reasonOf([{ dose: 10, n: 6, adverse: 2 }, { dose: 20, n: 6, adverse: 2 }, { dose: 40, n: 6, adverse: 3 }])).toMatch(/clearly enough to bound/);
+  });
+});
+
+describe("any set of reports", () => {
+  it("gives either a proper fit or a reason, never a curve from separated data", () => {
+    let fits = 0;
+    const trial = fc.record({ dose: fc.integer({ min: 1, max: 200 }), n: fc.integer({ min: 1, max: 8 }), adverse: fc.integer({ min: 0, max: 8 }) });
+    fc.assert(
+      fc.property(fc.array(trial, { minLength: 0, maxLength: 25, size: "max" }), fc.constantFrom(80, 90, 95, 99), (raw, level) => {
+        const trials = raw.map((t) => ({ ...t, adverse: Math.min(t.adverse, t.n) }));
+        const d = fitDoseResponse(trials, level);
+        if (!isFitted(d)) {
+          expect(d.reason.length).toBeGreaterThan(10);
+          return;
+        }
+        // A fit only where the outcomes overlap in dose: some adverse dose below some tolerated dose.
+        const adverseDoses = trials.filter((t) => t.adverse > 0).map((t) => t.dose);
+        const toleratedDoses = trials.filter((t) => t.n > t.adverse).map((t) => t.dose);
+        expect(Math.min(...adverseDoses)).toBeLessThan(Math.max(...toleratedDoses));
+        expect(Math.max(...adverseDoses)).toBeGreaterThan(Math.min(...toleratedDoses));
+        fits++;
+        expect(d.b).toBeGreaterThan(0);
+        expect(d.bmdl).toBeLessThan(d.bmd);
+        expect(d.bmd).toBeLessThan(d.bmdu);
+        expect(Math.abs(profileDeviance(trials, d, d.bmdl) - profileCutoff(level))).toBeLessThan(1e-6);
+        expect(Math.abs(profileDeviance(trials, d, d.bmdu) - profileCutoff(level))).toBeLessThan(1e-6);
+        for (const p of d.curve) expect(p.low <= p.risk && p.risk <= p.high).toBe(true);
+      }),
+      { numRuns: 300, seed: 20261202 },
+    );
+    // Enough of the random sets are fitted for the checks above to mean something.
+    expect(fits).toBeGreaterThan(20);
   });
 });

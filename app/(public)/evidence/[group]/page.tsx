@@ -94,7 +94,8 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
                 <p data-testid="risk-text">
                   In words: at {fmtDose(read.dose)} {s.unit}{usual != null ? " (the median tolerated dose)" : ""} about {pct(read.risk)} of courses went badly, {s.confidenceLevel} % interval {pct(read.low)}–{pct(read.high)}.
                   {" "}The fitted chance reaches 10 % at {fmtDose(dr.bmd)} {s.unit} (BMD₁₀); the lower limit, BMDL₁₀, is {fmtDose(dr.bmdl)} {s.unit}, the upper {fmtDose(dr.bmdu)} {s.unit}.
-                  {" "}Courses below the BMDL₁₀ have gone badly too: it is not a safe dose.
+                  {dr.bmd < dr.curve[0]!.dose ? ` That is below the lowest reported dose (${fmtDose(dr.curve[0]!.dose)} ${s.unit}): read from the fitted curve beyond the reports, an extrapolation.` : ""}
+                  {" "}Courses can go badly below the BMDL₁₀ too: it is not a safe dose.
                 </p>
               </>
             ) : (
