@@ -1,3 +1,4 @@
+import { settleBackgroundMail } from "@/features/members/server";
 import { beforeAll, describe, expect, it } from "vitest";
 import * as authRoute from "@/app/api/auth/[...all]/route";
 import { getDb } from "@/db/client";
@@ -69,6 +70,7 @@ beforeAll(async () => {
   // The takeover path's first step: anyone may ask a reset for the admin's address.
   const ask = await call(authRoute.POST, "/api/auth/request-password-reset", { body: { email: ad.email, redirectTo: "/reset-password" } });
   expect(ask.status).toBe(200);
+  await settleBackgroundMail();
   const mail = mailTo(ad.email).find((x) => /Subject: Choose a new Tanklore password/.test(x))!;
   // better-auth puts the reset token in the link's path: /api/auth/reset-password/<token>?callbackURL=…
   resetToken = new URL(linkIn(mail)).pathname.split("/").pop()!;

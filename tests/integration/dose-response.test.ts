@@ -1,3 +1,4 @@
+import { drainEvidenceOutbox } from "@/features/evidence/server";
 import { beforeAll, describe, expect, it } from "vitest";
 import { and, eq } from "drizzle-orm";
 import * as reportsRoute from "@/app/api/reports/route";
@@ -40,7 +41,7 @@ async function accepted(author: U, speciesId: string, dose: number, adverse: boo
   expect(d.body.status).toBe("accepted");
 }
 
-const detail = async (group: string, q = "") => (await call(summaryRoute.GET, `/api/summaries/${group}?agent=hydrogen-peroxide${q}`, { params: { groupSlug: group } })).body;
+const detail = async (group: string, q = "") => (await drainEvidenceOutbox(), await call(summaryRoute.GET, `/api/summaries/${group}?agent=hydrogen-peroxide${q}`, { params: { groupSlug: group } })).body;
 const trialsOf = (rs: { dose: number; adverse: boolean }[]): Trial[] => rs.map((r) => ({ dose: r.dose, n: 1, adverse: r.adverse ? 1 : 0 }));
 
 describe("the dose–response fit through the API", () => {
