@@ -6,6 +6,12 @@ const nextConfig: NextConfig = {
   serverExternalPackages: ["@electric-sql/pglite", "sharp", "smtp-server", "nodemailer", "mailparser", "pg"],
   poweredByHeader: false,
   typedRoutes: false,
+  experimental: {
+    // With proxy.ts (security headers) Next.js buffers each request body for it and silently cuts one longer
+    // than this. Keep it above the largest body any route accepts (the 20 MB CSV import), so a cut body is
+    // always one the route's own limit refuses with 413 rather than a truncated file read as whole.
+    proxyClientMaxBodySize: "21mb",
+  },
   // The app is served from this checkout; keep the build inside it.
   turbopack: { root: import.meta.dirname },
 };

@@ -1,6 +1,6 @@
 import { sql } from "drizzle-orm";
 import { getDb, getDbKind } from "@/db/client";
-import { json, route } from "@/features/shared/server/http";
+import { json, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -9,3 +9,5 @@ export const GET = route(async () => {
   await db.execute(sql`select 1`);
   return json({ status: "ok", database: await getDbKind() });
 });
+
+export const { POST, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET");

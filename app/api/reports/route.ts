@@ -1,7 +1,7 @@
 import { listMineQuerySchema, reportInputSchema } from "@/features/reports";
 import { createReport, getReportsByAuthorId } from "@/features/reports/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, parseQuery, route } from "@/features/shared/server/http";
+import { json, parseJson, parseQuery, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -15,3 +15,5 @@ export const GET = route(async (req) => {
   const actor = await requireActor(req.headers);
   return json(await getReportsByAuthorId(actor, parseQuery(req, listMineQuerySchema)));
 });
+
+export const { PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET", "POST");

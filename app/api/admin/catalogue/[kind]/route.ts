@@ -2,7 +2,7 @@ import { catalogueInputs, parseCatalogueKind as kindOf } from "@/features/catalo
 import { createCatalogueEntry, listCatalogue } from "@/features/catalogue/server";
 import { recomputeAll } from "@/features/evidence/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, route } from "@/features/shared/server/http";
+import { json, parseJson, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -19,3 +19,5 @@ export const POST = route<{ kind: string }>(async (req, { params }) => {
   if (kind === "stock-forms") await recomputeAll();
   return json(r, 201);
 });
+
+export const { PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET", "POST");

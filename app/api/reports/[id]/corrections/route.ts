@@ -2,7 +2,7 @@ import { correctionSchema } from "@/features/review";
 import { correctReport } from "@/features/review/server";
 import { recomputeAfterChange } from "@/features/evidence/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, route } from "@/features/shared/server/http";
+import { json, parseJson, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -16,3 +16,5 @@ export const POST = route<{ id: string }>(async (req, { params }) => {
   }
   return json({ id: r.id, status: r.status });
 });
+
+export const { GET, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("POST");

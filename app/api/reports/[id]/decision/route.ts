@@ -2,7 +2,7 @@ import { decisionSchema } from "@/features/review";
 import { decideReport } from "@/features/review/server";
 import { recomputeAfterChange } from "@/features/evidence/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, route } from "@/features/shared/server/http";
+import { json, parseJson, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -14,3 +14,5 @@ export const POST = route<{ id: string }>(async (req, { params }) => {
   if (result.status === "accepted" || result.status === "retracted") await recomputeAfterChange([{ groupSlug: result.groupSlug, agentSlug: result.agentSlug }]);
   return json({ id: result.id, status: result.status });
 });
+
+export const { GET, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("POST");

@@ -2,7 +2,7 @@ import { mergeSpeciesInput } from "@/features/catalogue";
 import { mergeSpecies } from "@/features/catalogue/server";
 import { recomputeAll } from "@/features/evidence/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, route } from "@/features/shared/server/http";
+import { json, parseJson, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -13,3 +13,5 @@ export const POST = route<{ key: string }>(async (req, { params }) => {
   await recomputeAll();
   return json(r);
 });
+
+export const { GET, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("POST");
