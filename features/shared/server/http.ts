@@ -246,9 +246,16 @@ export function refuseOtherMethods(...allowed: Method[]): Record<Method | "OPTIO
 
 /**
  * For routes that read the request themselves (better-auth's `/api/auth/*`): refuses control characters in the
- * query and in a JSON or form body with 422 in the error envelope, and hands back an equivalent request to read.
+ * path (404), the query and a JSON or form body (422) in the error envelope, and hands back an equivalent request.
  */
 export async function refuseControlCharactersIn(req: Request): Promise<Request> {
+  refuseControlCharactersInParams(new URL(req.url).pathname.split("/").map((segment) => {
+    try {
+      return decodeURIComponent(segment);
+    } catch {
+      return segment;
+    }
+  }));
   refuseControlCharactersInQuery(req);
   if (SAFE_METHODS.has(req.method) || !req.body) return req;
   const type = req.headers.get("content-type") ?? "";
