@@ -24,10 +24,12 @@ const printable = (key: string) => key.replace(CONTROL_ALL, (ch) => `\\u${ch.cha
  */
 export function controlCharacterIssues(value: unknown, root = ""): FieldIssue[] {
   const issues: FieldIssue[] = [];
-  const stack: { v: unknown; path: string }[] = [{ v: value, path: root }];
+  const stack: { v: unknown; path: string; badName?: string }[] = [{ v: value, path: root }];
   while (stack.length > 0 && issues.length < MAX_CONTROL_ISSUES) {
-    const { v, path } = stack.pop()!;
-    if (typeof v === "string") {
+    const { v, path, badName } = stack.pop()!;
+    if (badName) {
+      issues.push({ path, message: `Remove the control character ${codePoint(badName)} from this field's name.` });
+    } else if (typeof v === "string") {
       const m = CONTROL.exec(v);
       if (m) issues.push({ path: path || "(body)", message: `Remove the control character ${codePoint(m[0])}: text may hold tabs and line breaks, no other control characters.` });
     } else if (v !== null && typeof v === "object") {
@@ -36,9 +38,7 @@ export function controlCharacterIssues(value: unknown, root = ""): FieldIssue[] 
       for (let i = entries.length - 1; i >= 0; i--) {
         const [k, x] = entries[i]!;
         const at = path ? `${path}.${printable(k)}` : printable(k);
-        const m = CONTROL.exec(k);
-        if (m) issues.push({ path: at, message: `Remove the control character ${codePoint(m[0])} from this field's name.` });
-        else stack.push({ v: x, path: at });
+        stack.push({ v: x, path: at, badName: CONTROL.exec(k)?.[0] });
       }
     }
   }
