@@ -21,6 +21,13 @@ describe("the control-character walk", () => {
     expect(controlCharacterIssues(Array.from({ length: 500 }, () => "\u0000"))).toHaveLength(50);
   });
 
+  it("checks a query parameter named __proto__ like any other", async () => {
+    const { parseQuery } = await import("@/features/shared/server/http");
+    const { z } = await import("zod");
+    expect(() => parseQuery(new Request("http://localhost/x?__proto__=a%00&__proto__=b"), z.object({}))).toThrow(/control characters/);
+    expect(parseQuery(new Request("http://localhost/x?__proto__=ok"), z.object({}))).toEqual({});
+  });
+
   it("also guards the club settings form, which posts to a server action", () => {
     expect(clubSettingsSchema.safeParse({ name: "Fin\u0000 club", confidenceLevel: 95, minReports: 3, defaultVolumeUnit: "L", defaultTemperatureUnit: "C" }).success).toBe(false);
   });

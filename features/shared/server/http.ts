@@ -52,7 +52,8 @@ function refuseControlCharacters(body: unknown): void {
 
 /** Issues for URL-encoded parameters (a query or a form body); a repeated name is checked in every copy. */
 function parameterIssues(params: URLSearchParams): FieldIssue[] {
-  const values: Record<string, string[]> = {};
+  // No prototype: a parameter named __proto__ is a parameter like any other.
+  const values: Record<string, string[]> = Object.create(null);
   for (const [k, v] of params) (values[k] ??= []).push(v);
   // The walk sees each name's list of copies; the issue names the parameter, not the copy.
   return controlCharacterIssues(values).map((i) => ({ ...i, path: i.path.replace(/\.\d+$/, "") }));
