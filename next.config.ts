@@ -6,10 +6,16 @@ const nextConfig: NextConfig = {
   serverExternalPackages: ["@electric-sql/pglite", "sharp", "smtp-server", "nodemailer", "mailparser", "pg"],
   poweredByHeader: false,
   typedRoutes: false,
+  experimental: {
+    // With proxy.ts (security headers) Next.js buffers each request body for it and silently cuts one longer
+    // than this. Keep it above the largest body any route accepts (the 20 MB CSV import), so a cut body is
+    // always one the route's own limit refuses with 413 rather than a truncated file read as whole.
+    proxyClientMaxBodySize: "21mb",
+    // forbidden() and unauthorized() from next/navigation: data functions refuse a caller, pages answer 403/401.
+    authInterrupts: true,
+  },
   // The app is served from this checkout; keep the build inside it.
   turbopack: { root: import.meta.dirname },
-  // forbidden() and unauthorized() from next/navigation: data functions refuse a caller, pages answer 403/401.
-  experimental: { authInterrupts: true },
 };
 
 export default nextConfig;

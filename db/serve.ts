@@ -6,7 +6,7 @@ import { acquireLock, releaseLock } from "./lock";
 
 const root = process.cwd();
 const nextBin = path.join(root, "node_modules", "next", "dist", "bin", "next");
-const sources = ["app", "features", "db", "drizzle", "public", "fonts", "package-lock.json", "next.config.ts", "tailwind.config.ts", "postcss.config.mjs", "tsconfig.json"];
+const sources = ["app", "features", "db", "drizzle", "public", "fonts", "proxy.ts", "instrumentation.ts", "instrumentation-client.ts", "package-lock.json", "next.config.ts", "tailwind.config.ts", "postcss.config.mjs", "tsconfig.json"];
 
 function newestMtime(p: string): number {
   if (!fs.existsSync(p)) return 0;

@@ -38,7 +38,7 @@ export const pastDate = z
   .refine((s) => Date.parse(`${s}T00:00:00Z`) <= Date.now() + 86_400_000, "startedOn cannot be in the future.")
   .refine((s) => s >= "1990-01-01", "startedOn must be in 1990 or later.");
 
-export const waterSchema = z.object({
+export const waterSchema = z.strictObject({
   volume: positive("Water volume", 1_000_000),
   volumeUnit: enumOf(volumeUnits, "volumeUnit"),
   temperature: z.number({ error: "Temperature must be a number." }),
@@ -47,7 +47,7 @@ export const waterSchema = z.object({
   setting: enumOf(settings, "setting"),
 });
 
-export const treatmentSchema = z.object({
+export const treatmentSchema = z.strictObject({
   agentSlug: z.string({ error: "Choose the treatment agent." }).min(1, "Choose the treatment agent."),
   stockPercent: positive("Stock strength", 100).optional(),
   stockBasis: z.enum(["w/v", "w/w"], { error: "stockBasis must be w/v or w/w." }).optional(),
@@ -59,7 +59,7 @@ export const treatmentSchema = z.object({
   otherTreatments: text("Other treatments", 500).optional(),
 });
 
-export const outcomeSchema = z.object({
+export const outcomeSchema = z.strictObject({
   fishLost: int("Fish lost", 0, 100_000),
   lossCause: enumOf(lossCauses, "lossCause").nullable(),
   distress: enumOf(distressLevels, "distress"),

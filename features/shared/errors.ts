@@ -4,6 +4,7 @@ export const errorStatus = {
   unauthenticated: 401,
   forbidden: 403,
   not_found: 404,
+  method_not_allowed: 405,
   conflict: 409,
   too_large: 413,
   unsupported_type: 415,

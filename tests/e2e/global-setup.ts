@@ -21,6 +21,9 @@ export default async function setup(project: TestProject) {
     // tests/integration/sign-in-rate-limit.test.ts.
     RATE_LIMIT: "off",
   };
+  // Vitest sets TEST=true, which better-auth takes for a test run and then skips its origin (CSRF) check:
+  // the server under test must behave as in production.
+  delete (env as NodeJS.ProcessEnv).TEST;
   const tsx = ["--import", "tsx"];
   const build = spawnSync(process.execPath, [...tsx, "-e", "const m = await import('./db/serve.ts'); m.buildIfNeeded();"], { cwd: root, env, stdio: "inherit" });
   if (build.status !== 0) throw new Error("next build failed");

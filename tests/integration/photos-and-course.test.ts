@@ -31,7 +31,7 @@ function upload(id: string, data: Buffer, name: string, cookie = owner.cookie, t
   const form = new FormData();
   form.set("file", new Blob([new Uint8Array(data)], { type }), name);
   form.set("stage", "before");
-  const req = new Request(`${BASE}/api/reports/${id}/photos`, { method: "POST", body: form, headers: { cookie } });
+  const req = new Request(`${BASE}/api/reports/${id}/photos`, { method: "POST", body: form, headers: { cookie, origin: BASE } });
   return photosRoute.POST(req, { params: Promise.resolve({ id }) });
 }
 

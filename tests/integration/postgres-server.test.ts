@@ -4,13 +4,16 @@ import * as healthRoute from "@/app/api/health/route";
 import * as catalogueRoute from "@/app/api/catalogue/route";
 import * as membersRoute from "@/app/api/admin/members/route";
 import * as decisionRoute from "@/app/api/reports/[id]/decision/route";
-import { closeDb, getDb, schema } from "@/db/client";
 import { seedDemo } from "@/db/seed";
 import { drainEvidenceOutbox } from "@/features/evidence/server";
-import { call } from "../support/http";
-import { signIn } from "../support/factories";
 import * as authRoute from "@/app/api/auth/[...all]/route";
 import { resetAuthForTests } from "@/features/members/server/auth";
+import sharp from "sharp";
+import * as reportsRoute from "@/app/api/reports/route";
+import * as photosRoute from "@/app/api/reports/[id]/photos/route";
+import { closeDb, getDb, schema } from "@/db/client";
+import { BASE, call } from "../support/http";
+import { reportBody, signIn } from "../support/factories";
 import { hasPostgresServer, startPostgres } from "../support/pg-server";
 
 // The same schema, migrations, queries and auth on a real PostgreSQL server. Its binaries come
@@ -112,5 +115,23 @@ describe("on a PostgreSQL server (DATABASE_URL)", () => {
       delete process.env.TRUSTED_PROXY_HOPS;
       resetAuthForTests();
     }
+  });
+
+  it("holds the 12-photo limit when 20 uploads to one draft run at once on several connections", async () => {
+    const cookie = await signIn("member@example.org", "pg-demo-password");
+    const created = await call(reportsRoute.POST, "/api/reports", { body: reportBody({ speciesId: null, speciesOther: "An unlisted tetra" }), cookie });
+    expect(created.status).toBe(201);
+    const id = created.body.id as string;
+    const jpeg = await sharp({ create: { width: 320, height: 240, channels: 3, background: "#1e6e5a" } }).jpeg().toBuffer();
+    const upload = () => {
+      const form = new FormData();
+      form.set("file", new Blob([new Uint8Array(jpeg)], { type: "image/jpeg" }), "tank.jpg");
+      return photosRoute.POST(new Request(`${BASE}/api/reports/${id}/photos`, { method: "POST", body: form, headers: { cookie, origin: BASE } }), { params: Promise.resolve({ id }) });
+    };
+    const statuses = (await Promise.all(Array.from({ length: 20 }, upload))).map((r) => r.status);
+    expect(statuses.filter((s) => s === 201)).toHaveLength(12);
+    expect(statuses.filter((s) => s === 409)).toHaveLength(8);
+    const [n] = await (await getDb()).select({ n: count() }).from(schema.photos).where(eq(schema.photos.reportId, id));
+    expect(n?.n).toBe(12);
   });
 });

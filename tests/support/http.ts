@@ -14,6 +14,8 @@ export interface CallOptions {
 export async function call(handler: Handler, path: string, opts: CallOptions = {}): Promise<{ status: number; body: any; res: Response }> {
   const headers: Record<string, string> = { ...opts.headers };
   if (opts.cookie) headers.cookie = opts.cookie;
+  // As a browser would: a state-changing request from our own pages names our origin (route() checks it).
+  if (opts.cookie && !["GET", "HEAD"].includes(opts.method ?? (opts.body !== undefined ? "POST" : "GET")) && !("origin" in headers)) headers.origin = BASE;
   let body: BodyInit | undefined;
   if (opts.body !== undefined) {
     headers["content-type"] ??= "application/json";

@@ -1,6 +1,8 @@
 import { getCatalogue } from "@/features/catalogue/server";
-import { json, route } from "@/features/shared/server/http";
+import { json, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
 export const GET = route(async () => json(await getCatalogue()));
+
+export const { POST, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET");

@@ -1,6 +1,8 @@
-import { json, route } from "@/features/shared/server/http";
+import { json, refuseOtherMethods, route } from "@/features/shared/server/http";
 import { checkHealth } from "@/features/shared/server/health";
 
 export const dynamic = "force-dynamic";
 
 export const GET = route(async () => json(await checkHealth()));
+
+export const { POST, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET");

@@ -6,7 +6,7 @@ import { correctionSchema, decisionSchema, queueQuerySchema } from "@/features/r
 import { summariesResponseSchema, summaryDetailSchema, summaryQuerySchema } from "@/features/evidence";
 import { catalogueInputs, mergeSpeciesInput } from "@/features/catalogue";
 import { changeRoleSchema, listMembersQuerySchema, memberListSchema, memberSchema } from "@/features/members";
-import { json, route } from "@/features/shared/server/http";
+import { json, route, refuseOtherMethods } from "@/features/shared/server/http";
 import { buildOpenApi, type Operation } from "@/features/shared/server/openapi";
 
 export const dynamic = "force-static";
@@ -63,3 +63,5 @@ export const GET = route(async () =>
     }),
   ),
 );
+
+export const { POST, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET");

@@ -2,7 +2,7 @@ import { listMineQuerySchema, reportInputSchema } from "@/features/reports";
 import { createReport, getReportsByAuthorId } from "@/features/reports/server";
 import { listAllReports } from "@/features/review/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, parseQuery, route } from "@/features/shared/server/http";
+import { json, parseJson, parseQuery, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -19,3 +19,5 @@ export const GET = route(async (req) => {
   if (params.scope === "all") return json(await listAllReports({ actor, params }));
   return json(await getReportsByAuthorId(actor, parseQuery(req, listMineQuerySchema)));
 });
+
+export const { PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET", "POST");

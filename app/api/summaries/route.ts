@@ -1,6 +1,6 @@
 import { summaryQuerySchema } from "@/features/evidence";
 import { getSummaries } from "@/features/evidence/server";
-import { json, parseQuery, route } from "@/features/shared/server/http";
+import { json, parseQuery, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -9,3 +9,5 @@ export const GET = route(async (req) => {
   const q = parseQuery(req, summaryQuerySchema);
   return json(await getSummaries(q.agent, q.condition));
 });
+
+export const { POST, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET");

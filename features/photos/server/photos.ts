@@ -1,7 +1,7 @@
 import "server-only";
 import crypto from "node:crypto";
-import { eq } from "drizzle-orm";
-import { getDb, schema } from "@/db/client";
+import { count, eq } from "drizzle-orm";
+import { getDb, schema, type Db } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { getVisibleReportRow, recordEvent } from "@/features/reports/server";
@@ -31,6 +31,13 @@ export async function readUpload(req: Request): Promise<{ file: Buffer; stage: s
   return { file: Buffer.from(await file.arrayBuffer()), stage };
 }
 
+const tooManyPhotos = () => new AppError("conflict", `A report holds at most ${MAX_PHOTOS_PER_REPORT} photos; remove one first.`);
+
+async function countPhotos(db: Pick<Db, "select">, reportId: string): Promise<number> {
+  const [row] = await db.select({ n: count() }).from(schema.photos).where(eq(schema.photos.reportId, reportId));
+  return row?.n ?? 0;
+}
+
 export async function addPhoto(actor: Actor | null, reportId: string, file: Buffer, stage: string) {
   if (!actor) throw new AppError("unauthenticated", "Sign in to add photos.");
   const report = await getVisibleReportRow(actor, reportId);
@@ -38,8 +45,8 @@ export async function addPhoto(actor: Actor | null, reportId: string, file: Buff
   if (!["draft", "returned"].includes(report.status)) throw new AppError("conflict", "Photos can be added while the report is a draft or returned for changes.");
   if (!(stages as readonly string[]).includes(stage)) throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "stage", message: "stage must be before, during or after." }]);
   const db = await getDb();
-  const existing = await db.select({ id: schema.photos.id }).from(schema.photos).where(eq(schema.photos.reportId, reportId));
-  if (existing.length >= MAX_PHOTOS_PER_REPORT) throw new AppError("conflict", `A report holds at most ${MAX_PHOTOS_PER_REPORT} photos; remove one first.`);
+  // A quick refusal before the costly image work; the count that counts is taken under the lock below.
+  if ((await countPhotos(db, reportId)) >= MAX_PHOTOS_PER_REPORT) throw tooManyPhotos();
   const r = await processPhoto(file);
   const id = crypto.randomUUID();
   const storage = photoStorage();
@@ -48,8 +55,15 @@ export async function addPhoto(actor: Actor | null, reportId: string, file: Buff
   await storage.put(fullKey, r.full);
   await storage.put(thumbKey, r.thumb);
   try {
-    await db.insert(schema.photos).values({ id, reportId, uploaderId: actor.id, stage, width: r.width, height: r.height, bytes: r.full.length, fullKey, thumbKey });
-    await recordEvent(db, { reportId, actorId: actor.id, action: "photo_added", from: report.status, to: report.status, note: stage });
+    await db.transaction(async (tx) => {
+      // Parallel uploads to one report queue on its row (FOR UPDATE; PGlite runs one transaction at a time anyway),
+      // so each counts the photos the others stored and the limit holds.
+      const [locked] = await tx.select({ status: schema.reports.status }).from(schema.reports).where(eq(schema.reports.id, reportId)).for("update");
+      if (!locked || !["draft", "returned"].includes(locked.status)) throw new AppError("conflict", "Photos can be added while the report is a draft or returned for changes.");
+      if ((await countPhotos(tx, reportId)) >= MAX_PHOTOS_PER_REPORT) throw tooManyPhotos();
+      await tx.insert(schema.photos).values({ id, reportId, uploaderId: actor.id, stage, width: r.width, height: r.height, bytes: r.full.length, fullKey, thumbKey });
+      await recordEvent(tx, { reportId, actorId: actor.id, action: "photo_added", from: locked.status, to: locked.status, note: stage });
+    });
   } catch (err) {
     await storage.remove(fullKey);
     await storage.remove(thumbKey);

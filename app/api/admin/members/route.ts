@@ -1,6 +1,6 @@
 import { listMembersQuerySchema } from "@/features/members";
 import { getMembers, requireActor } from "@/features/members/server";
-import { json, parseQuery, route } from "@/features/shared/server/http";
+import { json, parseQuery, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -9,3 +9,5 @@ export const GET = route(async (req) => {
   const query = parseQuery(req, listMembersQuerySchema);
   return json(await getMembers({ actor }, query));
 });
+
+export const { POST, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET");

@@ -1,12 +1,12 @@
 import { setRoleSchema } from "@/features/members";
 import { assertRole, authPath, changeMemberRole, getActor, handleAuthRequest } from "@/features/members/server";
-import { errorResponse, json, parseJson, route } from "@/features/shared/server/http";
+import { errorResponse, json, parseJson, refuseControlCharactersIn, refuseOtherMethods, route } from "@/features/shared/server/http";
 
 // better-auth's own routes (sign-up, sign-in, sign-out, session, verification, password reset),
 // behind the app's body, field and sign-in limits (handleAuthRequest).
 async function handle(req: Request): Promise<Response> {
   try {
-    return await handleAuthRequest(req);
+    return await handleAuthRequest(await refuseControlCharactersIn(req));
   } catch (err) {
     return errorResponse(err);
   }
@@ -24,3 +24,4 @@ export const GET = handle;
 export async function POST(req: Request, ctx: { params: Promise<{ all: string[] }> }): Promise<Response> {
   return authPath(req) === "/admin/set-role" ? setRole(req, ctx) : handle(req);
 }
+export const { PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET", "POST");

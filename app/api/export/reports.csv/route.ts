@@ -1,6 +1,6 @@
 import { exportReportsCsv } from "@/features/exchange/server";
 import { requireActor } from "@/features/members/server";
-import { route } from "@/features/shared/server/http";
+import { route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -10,3 +10,5 @@ export const GET = route(async (req) => {
     headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": 'attachment; filename="tanklore-reports.csv"' },
   });
 });
+
+export const { POST, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET");

@@ -1,7 +1,7 @@
 import Papa from "papaparse";
 import { summaryQuerySchema } from "@/features/evidence";
 import { getSummaries } from "@/features/evidence/server";
-import { parseQuery, route } from "@/features/shared/server/http";
+import { parseQuery, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -22,3 +22,5 @@ export const GET = route(async (req) => {
     headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="tanklore-summaries-${s.agent}.csv"` },
   });
 });
+
+export const { POST, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET");

@@ -1,8 +1,8 @@
-import { json } from "@/features/shared/server/http";
+import { json, refuseOtherMethods, route } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
 // Liveness without touching the database (for load balancers; also the benchmark's trivial route).
-export async function GET(): Promise<Response> {
-  return json({ status: "ok" });
-}
+export const GET = route(async () => json({ status: "ok" }));
+
+export const { POST, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET");

@@ -2,7 +2,7 @@ import { importReportsCsv } from "@/features/exchange/server";
 import { recomputeAfterChange } from "@/features/evidence/server";
 import { requireActor } from "@/features/members/server";
 import { AppError } from "@/features/shared/errors";
-import { json, readBody, route } from "@/features/shared/server/http";
+import { json, readBody, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -16,3 +16,5 @@ export const POST = route(async (req) => {
   await recomputeAfterChange(result.touched);
   return json({ imported: result.imported, rejected: result.rejected });
 });
+
+export const { GET, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("POST");

@@ -1,7 +1,7 @@
 import { getPhotoFile, removePhoto } from "@/features/photos/server";
 import { requireActor } from "@/features/members/server";
 import { AppError } from "@/features/shared/errors";
-import { json, route } from "@/features/shared/server/http";
+import { json, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 type P = { id: string };
@@ -22,3 +22,5 @@ export const DELETE = route<P>(async (req, { params }) => {
   const actor = await requireActor(req.headers);
   return json(await removePhoto(actor, (await params).id));
 });
+
+export const { POST, PUT, PATCH, OPTIONS } = refuseOtherMethods("GET", "DELETE");

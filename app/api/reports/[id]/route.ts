@@ -1,7 +1,7 @@
 import { reportDraftSchema } from "@/features/reports";
 import { deleteDraft, getReportById, updateReport } from "@/features/reports/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, route } from "@/features/shared/server/http";
+import { json, parseJson, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 type P = { id: string };
@@ -21,3 +21,5 @@ export const DELETE = route<P>(async (req, { params }) => {
   const actor = await requireActor(req.headers);
   return json(await deleteDraft(actor, (await params).id));
 });
+
+export const { POST, PUT, OPTIONS } = refuseOtherMethods("GET", "PATCH", "DELETE");

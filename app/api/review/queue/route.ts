@@ -1,7 +1,7 @@
 import { queueQuerySchema } from "@/features/review";
 import { getReviewQueue } from "@/features/review/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseQuery, route } from "@/features/shared/server/http";
+import { json, parseQuery, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -9,3 +9,5 @@ export const GET = route(async (req) => {
   const actor = await requireActor(req.headers, ["moderator", "admin"], "see the review queue");
   return json(await getReviewQueue(actor, parseQuery(req, queueQuerySchema).order));
 });
+
+export const { POST, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET");

@@ -1,6 +1,6 @@
 import { summaryQuerySchema } from "@/features/evidence";
 import { getSummaryDetail } from "@/features/evidence/server";
-import { json, parseQuery, route } from "@/features/shared/server/http";
+import { json, parseQuery, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -8,3 +8,5 @@ export const GET = route<{ groupSlug: string }>(async (req, { params }) => {
   const q = parseQuery(req, summaryQuerySchema);
   return json(await getSummaryDetail((await params).groupSlug, q.agent, q.condition));
 });
+
+export const { POST, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET");

@@ -1,7 +1,7 @@
 import { catalogueInputs, parseCatalogueKind as kindOf } from "@/features/catalogue";
 import { createCatalogueEntry, listCatalogue } from "@/features/catalogue/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, route } from "@/features/shared/server/http";
+import { json, parseJson, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -17,3 +17,5 @@ export const POST = route<{ kind: string }>(async (req, { params }) => {
   const r = await createCatalogueEntry(actor, kind, body as never);
   return json(r, 201);
 });
+
+export const { PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET", "POST");

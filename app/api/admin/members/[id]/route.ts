@@ -1,6 +1,6 @@
 import { changeRoleSchema } from "@/features/members";
 import { changeMemberRole, getActor } from "@/features/members/server";
-import { json, parseJson, route } from "@/features/shared/server/http";
+import { json, parseJson, route, refuseOtherMethods } from "@/features/shared/server/http";
 import { assertRole } from "@/features/members/server";
 
 export const dynamic = "force-dynamic";
@@ -12,3 +12,5 @@ export const PATCH = route<{ id: string }>(async (req, { params }) => {
   const body = await parseJson(req, changeRoleSchema);
   return json({ member: await changeMemberRole(actor, id, body.role) });
 });
+
+export const { GET, POST, PUT, DELETE, OPTIONS } = refuseOtherMethods("PATCH");

@@ -1,7 +1,7 @@
 import { correctionSchema } from "@/features/review";
 import { correctReport } from "@/features/review/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, route } from "@/features/shared/server/http";
+import { json, parseJson, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -13,3 +13,5 @@ export const POST = route<{ id: string }>(async (req, { params }) => {
   const r = await correctReport(actor, id, await parseJson(req, correctionSchema));
   return json({ id: r.id, status: r.status });
 });
+
+export const { GET, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("POST");

@@ -1,7 +1,7 @@
 import { decisionSchema } from "@/features/review";
 import { decideReport } from "@/features/review/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, route } from "@/features/shared/server/http";
+import { json, parseJson, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -12,3 +12,5 @@ export const POST = route<{ id: string }>(async (req, { params }) => {
   const result = await decideReport(actor, id, await parseJson(req, decisionSchema));
   return json({ id: result.id, status: result.status });
 });
+
+export const { GET, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("POST");

@@ -1,7 +1,7 @@
 import { courseEntrySchema } from "@/features/reports";
 import { addCourseEntry } from "@/features/reports/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, route } from "@/features/shared/server/http";
+import { json, parseJson, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -10,3 +10,5 @@ export const POST = route<{ id: string }>(async (req, { params }) => {
   const { id } = await params;
   return json(await addCourseEntry(actor, id, await parseJson(req, courseEntrySchema)), 201);
 });
+
+export const { GET, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("POST");

@@ -1,6 +1,6 @@
 import { addPhoto, readUpload } from "@/features/photos/server";
 import { requireActor } from "@/features/members/server";
-import { json, route } from "@/features/shared/server/http";
+import { json, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -10,3 +10,5 @@ export const POST = route<{ id: string }>(async (req, { params }) => {
   const { file, stage } = await readUpload(req);
   return json(await addPhoto(actor, id, file, stage), 201);
 });
+
+export const { GET, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("POST");

@@ -1,7 +1,7 @@
 import { cataloguePatchInputs, parseCatalogueKind as kindOf } from "@/features/catalogue";
 import { deleteCatalogueEntry, updateCatalogueEntry } from "@/features/catalogue/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, route } from "@/features/shared/server/http";
+import { json, parseJson, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 type P = { kind: string; key: string };
@@ -21,3 +21,5 @@ export const DELETE = route<P>(async (req, { params }) => {
   const { kind, key } = await params;
   return json(await deleteCatalogueEntry(actor, kindOf(kind), key));
 });
+
+export const { GET, POST, PUT, OPTIONS } = refuseOtherMethods("PATCH", "DELETE");

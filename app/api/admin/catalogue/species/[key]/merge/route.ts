@@ -1,7 +1,7 @@
 import { mergeSpeciesInput } from "@/features/catalogue";
 import { mergeSpecies } from "@/features/catalogue/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, route } from "@/features/shared/server/http";
+import { json, parseJson, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -11,3 +11,5 @@ export const POST = route<{ key: string }>(async (req, { params }) => {
   const r = await mergeSpecies(actor, (await params).key, body.into, body.note);
   return json(r);
 });
+
+export const { GET, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("POST");
