@@ -113,3 +113,24 @@ export function redoseChecklist(start: Date, doses: number, redoseHours: number 
   }
   return items;
 }
+
+export interface CourseItem extends ChecklistItem {
+  /** For doses: the measured mL to add and the concentration it makes. */
+  doseMl?: number;
+  concentration?: number;
+  reduced?: boolean;
+}
+
+/**
+ * The dated course of a plan: the first dose reduced when the plan has a first-dose fraction below 1, later doses
+ * full, each followed by a check, then the days of watching.
+ */
+export function courseSchedule(plan: Plan, start: Date, doses: number, redoseHours: number | null, watchDays: number): CourseItem[] {
+  let n = 0;
+  return redoseChecklist(start, doses, redoseHours, watchDays).map((item) => {
+    if (item.kind !== "dose") return item;
+    const reduced = n++ === 0 && plan.firstDose !== undefined && plan.firstDose.fraction < 1;
+    const d = reduced ? plan.firstDose! : plan;
+    return { ...item, doseMl: d.measured.ml > 0 ? d.measured.ml : d.doseMl, concentration: d.concentration, reduced };
+  });
+}

@@ -1,8 +1,8 @@
 import { doseQuerySchema } from "@/features/dosing";
-import { planDoseFromQuery } from "@/features/catalogue/server";
+import { planDoseWithEvidence } from "@/features/evidence/server";
 import { json, parseQuery, route } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
 // Public: no sign-in needed.
-export const GET = route(async (req) => json(await planDoseFromQuery(parseQuery(req, doseQuerySchema))));
+export const GET = route(async (req) => json(await planDoseWithEvidence(parseQuery(req, doseQuerySchema))));
