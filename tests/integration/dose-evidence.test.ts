@@ -2,6 +2,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import ICAL from "ical.js";
 import * as doseRoute from "@/app/api/dose/route";
 import * as icsRoute from "@/app/api/dose/plan.ics/route";
+import * as openapiRoute from "@/app/api/openapi.json/route";
 import * as reportsRoute from "@/app/api/reports/route";
 import * as decisionRoute from "@/app/api/reports/[id]/decision/route";
 import { getDb } from "@/db/client";
@@ -160,5 +161,21 @@ describe("GET /api/dose/plan.ics", () => {
     const bad = await ics({ ...base, target: 20, start: "tomorrow", doses: 3 });
     expect(bad.status).toBe(422);
     expect(bad.body.error.issues.map((i: { path: string }) => i.path)).toContain("start");
+  });
+});
+
+describe("the OpenAPI document", () => {
+  it("describes the dose planner's warnings, evidence, first dose and stock reading, and the calendar", async () => {
+    const r = await call(openapiRoute.GET, "/api/openapi.json");
+    const dose = r.body.paths["/api/dose"].get;
+    const props = dose.responses["200"].content["application/json"].schema.properties;
+    expect(props.warnings.items.properties.code.enum).toEqual(expect.arrayContaining(["above_ceiling", "at_or_above_lowest_adverse", "above_highest_tolerated", "sparse_evidence", "no_evidence"]));
+    expect(props.evidence.properties.lowestAdverseDose).toBeDefined();
+    expect(Object.keys(props.suggestedFirstDose.anyOf?.[0]?.properties ?? props.suggestedFirstDose.properties)).toEqual(expect.arrayContaining(["fraction", "concentration", "doseMl"]));
+    expect(props.stock.properties.of.enum).toEqual(["compound", "agent"]);
+    expect(dose.parameters.map((p: { name: string }) => p.name)).toEqual(expect.arrayContaining(["speciesId", "group"]));
+    const ics = r.body.paths["/api/dose/plan.ics"].get;
+    expect(Object.keys(ics.responses["200"].content)).toEqual(["text/calendar"]);
+    expect(ics.parameters.map((p: { name: string }) => p.name)).toEqual(expect.arrayContaining(["start", "doses", "intervalHours"]));
   });
 });
