@@ -7,15 +7,15 @@ import { PageTitle } from "@/features/shared/components/ui";
 export const metadata = { title: "Dose planner" };
 
 export default async function PlannerPage() {
-  const { agents } = await getCatalogue();
+  const { agents, species, speciesGroups } = await getCatalogue();
   return (
     <div className="grid gap-6">
-      <PageTitle lead="Turn a target concentration and your tank's volume into millilitres of your stock bottle — or check what the millilitres you added made. Start with a reduced dose.">
+      <PageTitle lead="Say which fish you are treating to see what club members reported for them, then turn a target concentration and your tank's volume into millilitres of your stock bottle — or check what the millilitres you added made. Start with a reduced dose.">
         Dose planner
       </PageTitle>
       <Cautions compact />
       <Suspense>
-        <Planner agents={agents} />
+        <Planner agents={agents} fish={{ species, groups: speciesGroups.map((g) => ({ slug: g.slug, name: g.name })) }} />
       </Suspense>
     </div>
   );
