@@ -12,6 +12,7 @@ import {
   suggestFirstDose,
   type DoseQuery,
   type GuardEvidence,
+  type Plan,
   type StockReading,
   type VolumeInput,
 } from "@/features/dosing";
@@ -82,7 +83,10 @@ const stockEcho = (s: StockReading) => ({
  * when a species or group is named, that group's evidence (loaded by `loadEvidence`), offering a cautious first dose.
  * `scheduled` adds later doses to the checks (the calendar's course).
  */
-export async function planDoseFromQuery<E extends GuardEvidence>(q: DoseQuery, options: { loadEvidence?: EvidenceLoader<E>; scheduled?: { label: string; concentration: number }[] } = {}) {
+export async function planDoseFromQuery<E extends GuardEvidence>(
+  q: DoseQuery,
+  options: { loadEvidence?: EvidenceLoader<E>; scheduled?: (plan: Plan) => { label: string; concentration: number }[] } = {},
+) {
   const { agent, stock } = await readQueryStock(q);
   const groupSlug = await groupOfQuery(q);
   const unit = agent.unit === "g/L" ? "g/L" : "mg/L";
@@ -114,7 +118,7 @@ export async function planDoseFromQuery<E extends GuardEvidence>(q: DoseQuery, o
   const doses = [
     { label: plan.target !== null ? "the target" : "the concentration your mL make", concentration: plan.concentration },
     ...(plan.firstDose ? [{ label: "the first dose", concentration: plan.firstDose.concentration }] : []),
-    ...(options.scheduled ?? []),
+    ...(options.scheduled?.(plan) ?? []),
   ];
   const warnings = doseWarnings({ unit, ceiling: agent.plausibleCeiling, doses, evidence });
 

@@ -272,7 +272,7 @@ export function Planner({ agents, fish }: { agents: PlannerAgent[]; fish: Planne
     const median = evidence.toleratedDose.median;
     setValue("mode", "target");
     setValue("target", String(Number(median.toPrecision(3))), { shouldValidate: true });
-    const f = suggested.concentration / Number(median.toPrecision(3));
+    const f = suggested.limitedBy === "median" ? suggested.fraction : suggested.concentration / Number(median.toPrecision(3));
     const preset = fractions.find((x) => x.value !== "custom" && Math.abs(Number(x.value) - f) < 1e-6);
     setValue("fractionChoice", preset?.value ?? "custom");
     setValue("fraction", String(Number(f.toPrecision(3))), { shouldValidate: true });
