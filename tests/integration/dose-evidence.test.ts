@@ -179,3 +179,33 @@ describe("the OpenAPI document", () => {
     expect(ics.parameters.map((p: { name: string }) => p.name)).toEqual(expect.arrayContaining(["start", "doses", "intervalHours"]));
   });
 });
+
+describe("how a report's concentration reads its stock strength", () => {
+  const copper = (treatment: Record<string, unknown>) =>
+    reportBody({ water: { volume: 100, volumeUnit: "L" }, treatment: { agentSlug: "copper", stockPercent: 1, stockBasis: "w/v", amountMl: 2, doses: 1, ...treatment } });
+
+  it("reads a bare 1 % w/v copper as Cu²⁺, like /api/dose: 2 mL in 100 L makes 0.2 mg/L", async () => {
+    const body = copper({});
+    delete body.treatment.intervalHours;
+    const r = await call(reportsRoute.POST, "/api/reports", { body, cookie: member.cookie });
+    expect(r.status).toBe(201);
+    expect(r.body.concentration).toBeCloseTo(0.2, 12);
+  });
+
+  it("applies the copper sulfate fraction when the report names that stock form", async () => {
+    const body = copper({ stockFormId: "cu-sulfate-1" });
+    delete body.treatment.intervalHours;
+    const r = await call(reportsRoute.POST, "/api/reports", { body, cookie: member.cookie });
+    expect(r.status).toBe(201);
+    // 2 mL × 2.54513 mg/mL (IUPAC atomic weights, see the reference test) / 100 L = 0.0509 mg/L.
+    expect(r.body.concentration).toBeCloseTo(0.0509026, 6);
+  });
+
+  it("answers 422 for a stock form of another agent", async () => {
+    const body = copper({ stockFormId: "h2o2-3" });
+    delete body.treatment.intervalHours;
+    const r = await call(reportsRoute.POST, "/api/reports", { body, cookie: member.cookie });
+    expect(r.status).toBe(422);
+    expect(r.body.error.issues.map((i: { path: string }) => i.path)).toContain("treatment.stockFormId");
+  });
+});

@@ -483,7 +483,7 @@ export function Planner({ agents, fish }: { agents: PlannerAgent[]; fish: Planne
           <a
             className="justify-self-start rounded-md border border-peat-500 px-4 py-2 font-bold no-underline no-print"
             href={`/reports/new?${new URLSearchParams({
-              course: "1", agentSlug: agent.slug, stockPercent: String(stock ? stock.percent : getValues("stockPercent")), stockBasis: stock ? stock.basis : values.basis,
+              course: "1", agentSlug: agent.slug, ...(stock ? { stockFormId: stock.id } : {}), stockPercent: String(stock ? stock.percent : getValues("stockPercent")), stockBasis: stock ? stock.basis : values.basis,
               volume: values.volume, volumeUnit: values.volumeUnit, amountMl: String((plan.firstDose ?? plan).measured.ml || ""), ...(agent.redoseHours ? { intervalHours: String(agent.redoseHours) } : {}),
             })}`}
           >
