@@ -26,11 +26,15 @@ export interface Plan {
   target: number | null;
   doseMl: number;
   concentration: number;
+  /** Grams of the active the full dose puts in the water: for salt, the dry salt to dissolve instead of brine. */
+  activeGrams: number;
   measured: Measure;
   firstDose?: { fraction: number; doseMl: number; concentration: number; measured: Measure };
   /** Where the label strength has a published tolerance: the concentration it really gives lies in this range. */
   strengthRange?: { lowPercent: number; highPercent: number; concentrationLow: number; concentrationHigh: number; source: string };
 }
+
+const mgPerLPerUnit = (unit: ConcentrationUnit) => (unit === "g/L" ? 1000 : 1);
 
 export function volumeLitres(w: VolumeInput): number {
   if (w.kind === "volume") {
@@ -72,6 +76,7 @@ export function planDose(input: PlanInput): Plan {
     target: hasTarget ? input.target! : null,
     doseMl,
     concentration,
+    activeGrams: (concentration * mgPerLPerUnit(input.unit) * volumeL) / 1000,
     measured: measurable(doseMl),
   };
   if (f !== undefined) {

@@ -84,6 +84,7 @@ export const doseResponseSchema = z.object({
   target: z.number().nullable(),
   doseMl: z.number(),
   concentration: z.number(),
+  activeGrams: z.number().describe("grams of the active the full dose adds (for salt: dry salt to dissolve instead of brine)"),
   measured: measureSchema,
   firstDose: z.object({ fraction: z.number(), doseMl: z.number(), concentration: z.number(), measured: measureSchema }).optional(),
   strengthRange: z

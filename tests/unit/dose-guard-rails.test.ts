@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { doseWarnings, readStrength, suggestFirstDose, type GuardEvidence } from "@/features/dosing";
+import { doseWarnings, planDose, readStrength, suggestFirstDose, type GuardEvidence } from "@/features/dosing";
 
 /** A group whose lowest adverse dose (19.2) lies below its tolerated median (25.1): the case that must be loud. */
 const tetras: GuardEvidence = {
@@ -116,5 +116,14 @@ describe("reading a stock strength", () => {
     expect(r.mgPerMl).toBeCloseTo(395.5, 9);
     expect(() => readStrength({ percent: 35, basis: "w/w" })).toThrow(/density/);
     expect(() => readStrength({ percent: 35, basis: "w/v", preset: h2o2 })).toThrow(/w\/w/);
+  });
+});
+
+describe("salt in grams as well as brine", () => {
+  it("gives the dry salt for 3 g/L in 40 L as 120 g, beside the mL of 10 % brine", () => {
+    const plan = planDose({ agentSlug: "salt", unit: "g/L", stock: { percent: 10, basis: "w/v" }, water: { kind: "volume", volume: 40, unit: "L" }, target: 3 });
+    // 3 g/L × 40 L = 120 g; 10 % w/v brine holds 100 mg/mL, so 120 000 mg / 100 mg/mL = 1200 mL.
+    expect(plan.activeGrams).toBeCloseTo(120, 10);
+    expect(plan.doseMl).toBeCloseTo(1200, 10);
   });
 });

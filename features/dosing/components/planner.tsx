@@ -558,6 +558,12 @@ function Result({ plan, agent }: { plan: Plan; agent: PlannerAgent }) {
         <dl className="mt-3 grid grid-cols-[max-content_1fr] gap-x-4 text-sm">
           <dt className="font-bold">Water</dt><dd data-testid="volume-l">{fmtSig(plan.volumeL)} L</dd>
           <dt className="font-bold">Stock</dt><dd>{fmtSig(plan.stockMgPerMl)} mg of active per mL</dd>
+          {u === "g/L" ? (
+            <>
+              <dt className="font-bold">Or dry salt</dt>
+              <dd data-testid="dry-grams">{fmtSig(plan.activeGrams)} g, dissolved in tank water before adding{plan.firstDose && plan.firstDose.fraction < 1 ? ` (first dose ${fmtSig(plan.activeGrams * plan.firstDose.fraction)} g)` : ""}</dd>
+            </>
+          ) : null}
         </dl>
       </div>
       {full.ml === 0 ? (
