@@ -5,7 +5,8 @@ import * as icsRoute from "@/app/api/dose/plan.ics/route";
 import * as openapiRoute from "@/app/api/openapi.json/route";
 import * as reportsRoute from "@/app/api/reports/route";
 import * as decisionRoute from "@/app/api/reports/[id]/decision/route";
-import { getDb } from "@/db/client";
+import { eq } from "drizzle-orm";
+import { getDb, schema } from "@/db/client";
 import { seedCatalogue } from "@/features/catalogue/server";
 import { call } from "../support/http";
 import { reportBody, signedInUser } from "../support/factories";
@@ -207,5 +208,22 @@ describe("how a report's concentration reads its stock strength", () => {
     const r = await call(reportsRoute.POST, "/api/reports", { body, cookie: member.cookie });
     expect(r.status).toBe(422);
     expect(r.body.error.issues.map((i: { path: string }) => i.path)).toContain("treatment.stockFormId");
+  });
+});
+
+describe("the club's first-dose share", () => {
+  it("offers ⅓ of the usual dose once the club chooses it, and never more than the keeper's own fraction", async () => {
+    const db = await getDb();
+    await db.update(schema.clubSettings).set({ firstDoseFraction: 1 / 3 }).where(eq(schema.clubSettings.id, 1));
+    try {
+      const third = await get({ ...base, group: "corydoras", target: 10 });
+      // ⅓ × 20 (the corydoras median) = 6.67 mg/L, below the lowest adverse 12.
+      expect(third.body.suggestedFirstDose.fraction).toBeCloseTo(1 / 3, 12);
+      expect(third.body.suggestedFirstDose.concentration).toBeCloseTo(20 / 3, 12);
+      const quarter = await get({ ...base, group: "corydoras", target: 10, fraction: 0.25 });
+      expect(quarter.body.suggestedFirstDose.concentration).toBeCloseTo(5, 12);
+    } finally {
+      await db.update(schema.clubSettings).set({ firstDoseFraction: 0.5 }).where(eq(schema.clubSettings.id, 1));
+    }
   });
 });

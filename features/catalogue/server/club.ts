@@ -7,6 +7,8 @@ export interface ClubSettings {
   minReports: number;
   defaultVolumeUnit: string;
   defaultTemperatureUnit: string;
+  /** ½ or ⅓: the share of a group's usual dose offered as a first dose. */
+  firstDoseFraction: number;
 }
 
 export async function getClubSettings(): Promise<ClubSettings> {
@@ -18,6 +20,7 @@ export async function getClubSettings(): Promise<ClubSettings> {
     minReports: row?.minReports ?? 5,
     defaultVolumeUnit: row?.defaultVolumeUnit ?? "L",
     defaultTemperatureUnit: row?.defaultTemperatureUnit ?? "C",
+    firstDoseFraction: row?.firstDoseFraction ?? 0.5,
   };
 }
 

@@ -1,6 +1,7 @@
 import { and, eq } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";
 import { AppError } from "@/features/shared/errors";
+import { getClubSettings } from "./club";
 import {
   DEFAULT_FIRST_DOSE_FRACTION,
   doseMlForTarget,
@@ -124,8 +125,9 @@ export async function planDoseFromQuery<E extends GuardEvidence>(
 
   const answer = { ...plan, stock: stockEcho(stock), warnings };
   if (evidence === undefined) return answer;
-  // No club setting for the first-dose fraction yet: ½, or the keeper's own fraction where that is more cautious.
-  const suggested = suggestFirstDose(evidence, Math.min(q.fraction ?? DEFAULT_FIRST_DOSE_FRACTION, DEFAULT_FIRST_DOSE_FRACTION));
+  // The club's default share (½ or ⅓), or the keeper's own fraction where that is more cautious.
+  const clubFraction = (await getClubSettings()).firstDoseFraction ?? DEFAULT_FIRST_DOSE_FRACTION;
+  const suggested = suggestFirstDose(evidence, Math.min(q.fraction ?? clubFraction, clubFraction));
   const suggestedFirstDose = suggested
     ? (() => {
         const doseMl = doseMlForTarget(suggested.concentration, plan.volumeL, stock.mgPerMl, unit);

@@ -125,7 +125,7 @@ const plannerResolver: Resolver<PlannerValues> = async (values, context, options
 
 const fishLabel = (s: PlannerFish["species"][number]) => `${s.commonName} (${s.scientificName})`;
 
-export function Planner({ agents, fish }: { agents: PlannerAgent[]; fish: PlannerFish }) {
+export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAgent[]; fish: PlannerFish; firstDoseFraction: number }) {
   const params = useSearchParams();
   const id = useId();
   const initialAgent = agents.find((a) => a.slug === params.get("agent")) ?? agents[0]!;
@@ -245,7 +245,7 @@ export function Planner({ agents, fish }: { agents: PlannerAgent[]; fish: Planne
     : [];
   const warningKey = warnings.map((w) => w.message).join("|");
   const cleared = warnings.length === 0 || acknowledged === warningKey;
-  const suggested = suggestFirstDose(evidence ?? null);
+  const suggested = suggestFirstDose(evidence ?? null, firstDoseFraction);
 
   const errorOf = (name: keyof PlannerValues) => formState.errors[name]?.message;
   const field = (name: keyof PlannerValues) => ({

@@ -1,0 +1,1 @@
+ALTER TABLE "club_settings" ADD COLUMN "first_dose_fraction" double precision DEFAULT 0.5 NOT NULL;
