@@ -7,50 +7,50 @@ const num = (field: string) =>
 const positive = (field: string) => num(field).refine((v) => v > 0, `${field} must be above 0.`);
 
 const doseQueryFields = z.object({
-    agent: z.string({ error: "agent is required: an agent slug from /api/catalogue." }).min(1, "agent is required."),
-    stockPercent: positive("stockPercent").refine((v) => v <= 100, "stockPercent is at most 100.").optional(),
-    stockFormId: z.string().min(1).optional(),
-    basis: z.enum(["w/v", "w/w"], { error: "basis must be w/v or w/w." }).optional(),
-    densityGPerMl: positive("densityGPerMl").refine((v) => v >= 0.5 && v <= 3, "densityGPerMl must be between 0.5 and 3 g/mL.").optional(),
-    volume: positive("volume").optional(),
-    volumeUnit: z.enum(volumeUnits, { error: "volumeUnit must be L, mL, gal_us or gal_imp." }).optional(),
-    length: positive("length").optional(),
-    width: positive("width").optional(),
-    depth: positive("depth").optional(),
-    lengthUnit: z.enum(lengthUnits, { error: "lengthUnit must be cm or in." }).optional(),
-    displacementPercent: num("displacementPercent").refine((v) => v >= 0 && v < 100, "displacementPercent must be from 0 up to (not including) 100.").optional(),
-    target: positive("target").optional(),
-    addedMl: positive("addedMl").optional(),
-    fraction: num("fraction").refine((v) => v > 0 && v <= 1, "fraction must be above 0 and at most 1 (for example 0.5 for a half dose).").optional(),
-    speciesId: z.string().min(1, "speciesId names a species from /api/catalogue.").optional(),
-    group: z.string().min(1, "group names a species group slug from /api/catalogue.").optional(),
-  });
+  agent: z.string({ error: "agent is required: an agent slug from /api/catalogue." }).min(1, "agent is required."),
+  stockPercent: positive("stockPercent").refine((v) => v <= 100, "stockPercent is at most 100.").optional(),
+  stockFormId: z.string().min(1).optional(),
+  basis: z.enum(["w/v", "w/w"], { error: "basis must be w/v or w/w." }).optional(),
+  densityGPerMl: positive("densityGPerMl").refine((v) => v >= 0.5 && v <= 3, "densityGPerMl must be between 0.5 and 3 g/mL.").optional(),
+  volume: positive("volume").optional(),
+  volumeUnit: z.enum(volumeUnits, { error: "volumeUnit must be L, mL, gal_us or gal_imp." }).optional(),
+  length: positive("length").optional(),
+  width: positive("width").optional(),
+  depth: positive("depth").optional(),
+  lengthUnit: z.enum(lengthUnits, { error: "lengthUnit must be cm or in." }).optional(),
+  displacementPercent: num("displacementPercent").refine((v) => v >= 0 && v < 100, "displacementPercent must be from 0 up to (not including) 100.").optional(),
+  target: positive("target").optional(),
+  addedMl: positive("addedMl").optional(),
+  fraction: num("fraction").refine((v) => v > 0 && v <= 1, "fraction must be above 0 and at most 1 (for example 0.5 for a half dose).").optional(),
+  speciesId: z.string().min(1, "speciesId names a species from /api/catalogue.").optional(),
+  group: z.string().min(1, "group names a species group slug from /api/catalogue.").optional(),
+});
 
 type DoseQueryFields = z.infer<typeof doseQueryFields>;
 
 function checkDoseQuery(q: DoseQueryFields, ctx: z.RefinementCtx) {
-    if (q.stockPercent === undefined && q.stockFormId === undefined) {
-      ctx.addIssue({ code: "custom", path: ["stockPercent"], message: "stockPercent is required (or a stockFormId from the catalogue)." });
+  if (q.stockPercent === undefined && q.stockFormId === undefined) {
+    ctx.addIssue({ code: "custom", path: ["stockPercent"], message: "stockPercent is required (or a stockFormId from the catalogue)." });
+  }
+  const byVolume = q.volume !== undefined || q.volumeUnit !== undefined;
+  const dims = [q.length, q.width, q.depth, q.lengthUnit].some((v) => v !== undefined);
+  if (byVolume && dims) {
+    ctx.addIssue({ code: "custom", path: ["volume"], message: "Give the volume or the tank's dimensions, not both." });
+  } else if (byVolume) {
+    if (q.volume === undefined) ctx.addIssue({ code: "custom", path: ["volume"], message: "volume is required with volumeUnit." });
+    if (q.volumeUnit === undefined) ctx.addIssue({ code: "custom", path: ["volumeUnit"], message: "volumeUnit is required with volume: L, mL, gal_us or gal_imp." });
+  } else if (dims) {
+    for (const f of ["length", "width", "depth", "lengthUnit"] as const) {
+      if (q[f] === undefined) ctx.addIssue({ code: "custom", path: [f], message: `${f} is required when giving the tank's dimensions.` });
     }
-    const byVolume = q.volume !== undefined || q.volumeUnit !== undefined;
-    const dims = [q.length, q.width, q.depth, q.lengthUnit].some((v) => v !== undefined);
-    if (byVolume && dims) {
-      ctx.addIssue({ code: "custom", path: ["volume"], message: "Give the volume or the tank's dimensions, not both." });
-    } else if (byVolume) {
-      if (q.volume === undefined) ctx.addIssue({ code: "custom", path: ["volume"], message: "volume is required with volumeUnit." });
-      if (q.volumeUnit === undefined) ctx.addIssue({ code: "custom", path: ["volumeUnit"], message: "volumeUnit is required with volume: L, mL, gal_us or gal_imp." });
-    } else if (dims) {
-      for (const f of ["length", "width", "depth", "lengthUnit"] as const) {
-        if (q[f] === undefined) ctx.addIssue({ code: "custom", path: [f], message: `${f} is required when giving the tank's dimensions.` });
-      }
-    } else {
-      ctx.addIssue({ code: "custom", path: ["volume"], message: "Give the water volume (volume and volumeUnit) or the tank's length, width, depth and lengthUnit." });
-    }
-    if (q.target !== undefined && q.addedMl !== undefined) {
-      ctx.addIssue({ code: "custom", path: ["addedMl"], message: "Give either target or addedMl, not both." });
-    } else if (q.target === undefined && q.addedMl === undefined) {
-      ctx.addIssue({ code: "custom", path: ["target"], message: "Give a target concentration, or addedMl to see what a dose made." });
-    }
+  } else {
+    ctx.addIssue({ code: "custom", path: ["volume"], message: "Give the water volume (volume and volumeUnit) or the tank's length, width, depth and lengthUnit." });
+  }
+  if (q.target !== undefined && q.addedMl !== undefined) {
+    ctx.addIssue({ code: "custom", path: ["addedMl"], message: "Give either target or addedMl, not both." });
+  } else if (q.target === undefined && q.addedMl === undefined) {
+    ctx.addIssue({ code: "custom", path: ["target"], message: "Give a target concentration, or addedMl to see what a dose made." });
+  }
 }
 
 /** Query of GET /api/dose (docs/api.md). Cross-field rules say which field to fix. */
