@@ -131,7 +131,7 @@ async function seedReports(db: Db, ids: Map<string, string>): Promise<number> {
       conditionSlug: agentSlug === "salt" ? pick(["white-spot", "none-preventive", "fin-rot"]) : pick(["white-spot", "gill-flukes", "skin-flukes", "ichthyobodo", "trichodina", "columnaris", "none-preventive"]),
       startedOn, waterVolume: volume, waterVolumeUnit: volumeUnit, volumeL, temperature, temperatureUnit, temperatureC: toCelsius(temperature, temperatureUnit),
       ph, setting: pick(["bare", "bare", "planted", "other"]),
-      agentSlug, stockPercent: stock.percent, stockBasis: stock.basis, stockDensityGPerMl: stock.densityGPerMl, stockActiveFraction: stock.activeFraction ?? 1,
+      agentSlug, stockFormId: stock.id, stockPercent: stock.percent, stockBasis: stock.basis, stockDensityGPerMl: stock.densityGPerMl, stockActiveFraction: stock.activeFraction ?? 1,
       amountMl, statedConcentration: off ? Math.round(dose * 1.3 * 10) / 10 : rand() < 0.4 ? Math.round(dose) : null,
       doses, intervalHours: doses > 1 ? agent.redoseHours : null, otherTreatments: null,
       fishLost, lossCause, distress, conditionOutcome, observedDaysAfter: 5 + Math.floor(rand() * 14),

@@ -56,6 +56,8 @@ export const stockForms = pgTable(
     densityGPerMl: doublePrecision(),
     /** Share of the dissolved compound's mass that is the dosed active (e.g. Cu²⁺ in CuSO₄·5H₂O); 1 when the same. */
     activeFraction: doublePrecision().notNull().default(1),
+    /** What the percentage is of when that is a compound (e.g. copper sulfate pentahydrate); null: the agent's own measure. */
+    compound: text(),
     sortOrder: integer().notNull().default(0),
     hidden: boolean().notNull().default(false),
   },

@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { check, integer, jsonb, pgTable, serial, text, timestamp } from "drizzle-orm/pg-core";
+import { check, doublePrecision, integer, jsonb, pgTable, serial, text, timestamp } from "drizzle-orm/pg-core";
 import { users } from "./auth";
 
 /** One row (id = 1): the club's own settings, edited by admins. */
@@ -12,6 +12,8 @@ export const clubSettings = pgTable(
     minReports: integer().notNull().default(5),
     defaultVolumeUnit: text().notNull().default("L"),
     defaultTemperatureUnit: text().notNull().default("C"),
+    /** The share of a group's usual dose the planner offers as a first dose: ½, or ⅓ for a cautious club. */
+    firstDoseFraction: doublePrecision().notNull().default(0.5),
     updatedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [

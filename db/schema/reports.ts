@@ -54,6 +54,8 @@ export const reports = pgTable(
     setting: text(),
 
     agentSlug: text().references(() => agents.slug, { onUpdate: "cascade" }),
+    /** The catalogue stock form the reporter named, if any: only a named form's active fraction applies. */
+    stockFormId: text(),
     stockPercent: doublePrecision(),
     stockBasis: text(),
     stockDensityGPerMl: doublePrecision(),

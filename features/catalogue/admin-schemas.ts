@@ -38,13 +38,19 @@ const stockFormFields = z
     basis: z.enum(["w/v", "w/w"], { error: "basis must be w/v or w/w." }),
     densityGPerMl: z.number().min(0.5).max(3).nullable().default(null),
     activeFraction: z.number().gt(0).max(1).default(1),
+    compound: z.string().trim().min(2, "Name the compound in at least 2 characters.").max(120).nullable().default(null),
     hidden: hidden.default(false),
   })
   .strict();
-export const stockFormInput = stockFormFields.refine((s) => s.basis === "w/v" || s.densityGPerMl !== null, {
-  path: ["densityGPerMl"],
-  message: "A % w/w preset needs the solution's density in g/mL.",
-});
+export const stockFormInput = stockFormFields
+  .refine((s) => s.basis === "w/v" || s.densityGPerMl !== null, {
+    path: ["densityGPerMl"],
+    message: "A % w/w preset needs the solution's density in g/mL.",
+  })
+  .refine((s) => s.activeFraction === 1 || s.compound !== null, {
+    path: ["compound"],
+    message: "An active fraction below 1 means the percentage is of a compound: name the compound.",
+  });
 
 export const catalogueInputs = { groups: groupInput, species: speciesInput, agents: agentInput, conditions: conditionInput, "stock-forms": stockFormInput } as const;
 /** PATCH bodies: any subset of the fields (defaults dropped, so an absent field stays as it is). */

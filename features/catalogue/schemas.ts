@@ -7,6 +7,8 @@ export const stockFormSchema = z.object({
   basis: z.enum(["w/v", "w/w"]),
   densityGPerMl: z.number().nullable(),
   activeFraction: z.number(),
+  /** What the percentage is of when a compound; null: the agent's own measure. */
+  compound: z.string().nullable(),
 });
 
 export const agentSchema = z.object({

@@ -13,5 +13,10 @@ export const clubSettingsSchema = z.object({
   minReports: z.coerce.number({ error: "Minimum reports must be a whole number." }).int("Minimum reports must be a whole number.").min(1, "Minimum reports is at least 1.").max(1000, "Minimum reports is at most 1000."),
   defaultVolumeUnit: z.enum(["L", "gal_us", "gal_imp"], { error: "Default volume unit must be L, gal_us or gal_imp." }),
   defaultTemperatureUnit: z.enum(["C", "F"], { error: "Default temperature unit must be C or F." }),
+  firstDoseFraction: z.coerce
+    .number({ error: "The first-dose share must be ½ (0.5) or ⅓ (0.3333)." })
+    .refine((v) => v === 0.5 || Math.abs(v - 1 / 3) < 1e-4, "The first-dose share must be ½ (0.5) or ⅓ (0.3333).")
+    .transform((v) => (v === 0.5 ? 0.5 : 1 / 3))
+    .default(0.5),
 });
 export type ClubSettingsInput = z.infer<typeof clubSettingsSchema>;

@@ -6,7 +6,7 @@
 
 export interface StarterGroup { slug: string; name: string; description: string }
 export interface StarterSpecies { scientificName: string; commonName: string; group: string }
-export interface StarterStock { id: string; label: string; percent: number; basis: "w/v" | "w/w"; densityGPerMl: number | null; activeFraction?: number }
+export interface StarterStock { id: string; label: string; percent: number; basis: "w/v" | "w/w"; densityGPerMl: number | null; activeFraction?: number; compound?: string }
 export interface StarterAgent {
   slug: string; name: string; unit: "mg/L" | "g/L"; bandEdges: number[]; plausibleCeiling: number;
   redoseHours: number | null; watchDays: number; description: string; stocks: StarterStock[];
@@ -122,7 +122,7 @@ export const starterAgents: StarterAgent[] = [
     bandEdges: [0, 0.1, 0.15, 0.2, 0.25, 0.3, 0.4, 0.5], plausibleCeiling: 1, redoseHours: 24, watchDays: 14,
     description: "Free copper ion against protozoan parasites. Narrow margin; deadly to invertebrates; test the water.",
     stocks: [
-      { id: "cu-sulfate-1", label: "Copper sulfate pentahydrate 1 % w/v (dose read as Cu²⁺)", percent: 1, basis: "w/v", densityGPerMl: null, activeFraction: COPPER_IN_PENTAHYDRATE },
+      { id: "cu-sulfate-1", label: "Copper sulfate pentahydrate 1 % w/v (dose read as Cu²⁺)", percent: 1, basis: "w/v", densityGPerMl: null, activeFraction: COPPER_IN_PENTAHYDRATE, compound: "copper sulfate pentahydrate (CuSO₄·5H₂O)" },
       { id: "cu-ion-0-5", label: "Copper solution 0.5 % w/v as Cu²⁺", percent: 0.5, basis: "w/v", densityGPerMl: null },
     ],
   },

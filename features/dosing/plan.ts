@@ -26,11 +26,15 @@ export interface Plan {
   target: number | null;
   doseMl: number;
   concentration: number;
+  /** Grams of the active the full dose puts in the water: for salt, the dry salt to dissolve instead of brine. */
+  activeGrams: number;
   measured: Measure;
   firstDose?: { fraction: number; doseMl: number; concentration: number; measured: Measure };
   /** Where the label strength has a published tolerance: the concentration it really gives lies in this range. */
   strengthRange?: { lowPercent: number; highPercent: number; concentrationLow: number; concentrationHigh: number; source: string };
 }
+
+const mgPerLPerUnit = (unit: ConcentrationUnit) => (unit === "g/L" ? 1000 : 1);
 
 export function volumeLitres(w: VolumeInput): number {
   if (w.kind === "volume") {
@@ -72,6 +76,7 @@ export function planDose(input: PlanInput): Plan {
     target: hasTarget ? input.target! : null,
     doseMl,
     concentration,
+    activeGrams: (concentration * mgPerLPerUnit(input.unit) * volumeL) / 1000,
     measured: measurable(doseMl),
   };
   if (f !== undefined) {
@@ -112,4 +117,25 @@ export function redoseChecklist(start: Date, doses: number, redoseHours: number 
     items.push({ at: new Date(last.getTime() + d * 24 * hour), kind: d === watchDays ? "end" : "check", label: d === watchDays ? "Last day of watching: record the outcome" : `Day ${d} after the last dose: check the fish` });
   }
   return items;
+}
+
+export interface CourseItem extends ChecklistItem {
+  /** For doses: the measured mL to add and the concentration it makes. */
+  doseMl?: number;
+  concentration?: number;
+  reduced?: boolean;
+}
+
+/**
+ * The dated course of a plan: the first dose reduced when the plan has a first-dose fraction below 1, later doses
+ * full, each followed by a check, then the days of watching.
+ */
+export function courseSchedule(plan: Plan, start: Date, doses: number, redoseHours: number | null, watchDays: number): CourseItem[] {
+  let n = 0;
+  return redoseChecklist(start, doses, redoseHours, watchDays).map((item) => {
+    if (item.kind !== "dose") return item;
+    const reduced = n++ === 0 && plan.firstDose !== undefined && plan.firstDose.fraction < 1;
+    const d = reduced ? plan.firstDose! : plan;
+    return { ...item, doseMl: d.measured.ml > 0 ? d.measured.ml : d.doseMl, concentration: d.concentration, reduced };
+  });
 }

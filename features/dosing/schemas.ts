@@ -1,55 +1,78 @@
 import { z } from "zod";
+import { doseWarningCodes } from "./guard-rails";
 import { lengthUnits, volumeUnits } from "./units";
 
 const num = (field: string) =>
   z.coerce.number({ error: `${field} must be a number.` }).refine(Number.isFinite, `${field} must be a finite number.`);
 const positive = (field: string) => num(field).refine((v) => v > 0, `${field} must be above 0.`);
 
+const doseQueryFields = z.object({
+  agent: z.string({ error: "agent is required: an agent slug from /api/catalogue." }).min(1, "agent is required."),
+  stockPercent: positive("stockPercent").refine((v) => v <= 100, "stockPercent is at most 100.").optional(),
+  stockFormId: z.string().min(1).optional(),
+  basis: z.enum(["w/v", "w/w"], { error: "basis must be w/v or w/w." }).optional(),
+  densityGPerMl: positive("densityGPerMl").refine((v) => v >= 0.5 && v <= 3, "densityGPerMl must be between 0.5 and 3 g/mL.").optional(),
+  volume: positive("volume").optional(),
+  volumeUnit: z.enum(volumeUnits, { error: "volumeUnit must be L, mL, gal_us or gal_imp." }).optional(),
+  length: positive("length").optional(),
+  width: positive("width").optional(),
+  depth: positive("depth").optional(),
+  lengthUnit: z.enum(lengthUnits, { error: "lengthUnit must be cm or in." }).optional(),
+  displacementPercent: num("displacementPercent").refine((v) => v >= 0 && v < 100, "displacementPercent must be from 0 up to (not including) 100.").optional(),
+  target: positive("target").optional(),
+  addedMl: positive("addedMl").optional(),
+  fraction: num("fraction").refine((v) => v > 0 && v <= 1, "fraction must be above 0 and at most 1 (for example 0.5 for a half dose).").optional(),
+  speciesId: z.string().min(1, "speciesId names a species from /api/catalogue.").optional(),
+  group: z.string().min(1, "group names a species group slug from /api/catalogue.").optional(),
+});
+
+type DoseQueryFields = z.infer<typeof doseQueryFields>;
+
+function checkDoseQuery(q: DoseQueryFields, ctx: z.RefinementCtx) {
+  if (q.stockPercent === undefined && q.stockFormId === undefined) {
+    ctx.addIssue({ code: "custom", path: ["stockPercent"], message: "stockPercent is required (or a stockFormId from the catalogue)." });
+  }
+  const byVolume = q.volume !== undefined || q.volumeUnit !== undefined;
+  const dims = [q.length, q.width, q.depth, q.lengthUnit].some((v) => v !== undefined);
+  if (byVolume && dims) {
+    ctx.addIssue({ code: "custom", path: ["volume"], message: "Give the volume or the tank's dimensions, not both." });
+  } else if (byVolume) {
+    if (q.volume === undefined) ctx.addIssue({ code: "custom", path: ["volume"], message: "volume is required with volumeUnit." });
+    if (q.volumeUnit === undefined) ctx.addIssue({ code: "custom", path: ["volumeUnit"], message: "volumeUnit is required with volume: L, mL, gal_us or gal_imp." });
+  } else if (dims) {
+    for (const f of ["length", "width", "depth", "lengthUnit"] as const) {
+      if (q[f] === undefined) ctx.addIssue({ code: "custom", path: [f], message: `${f} is required when giving the tank's dimensions.` });
+    }
+  } else {
+    ctx.addIssue({ code: "custom", path: ["volume"], message: "Give the water volume (volume and volumeUnit) or the tank's length, width, depth and lengthUnit." });
+  }
+  if (q.target !== undefined && q.addedMl !== undefined) {
+    ctx.addIssue({ code: "custom", path: ["addedMl"], message: "Give either target or addedMl, not both." });
+  } else if (q.target === undefined && q.addedMl === undefined) {
+    ctx.addIssue({ code: "custom", path: ["target"], message: "Give a target concentration, or addedMl to see what a dose made." });
+  }
+}
+
 /** Query of GET /api/dose (docs/api.md). Cross-field rules say which field to fix. */
-export const doseQuerySchema = z
-  .object({
-    agent: z.string({ error: "agent is required: an agent slug from /api/catalogue." }).min(1, "agent is required."),
-    stockPercent: positive("stockPercent").refine((v) => v <= 100, "stockPercent is at most 100.").optional(),
-    stockFormId: z.string().min(1).optional(),
-    basis: z.enum(["w/v", "w/w"], { error: "basis must be w/v or w/w." }).optional(),
-    densityGPerMl: positive("densityGPerMl").refine((v) => v >= 0.5 && v <= 3, "densityGPerMl must be between 0.5 and 3 g/mL.").optional(),
-    volume: positive("volume").optional(),
-    volumeUnit: z.enum(volumeUnits, { error: "volumeUnit must be L, mL, gal_us or gal_imp." }).optional(),
-    length: positive("length").optional(),
-    width: positive("width").optional(),
-    depth: positive("depth").optional(),
-    lengthUnit: z.enum(lengthUnits, { error: "lengthUnit must be cm or in." }).optional(),
-    displacementPercent: num("displacementPercent").refine((v) => v >= 0 && v < 100, "displacementPercent must be from 0 up to (not including) 100.").optional(),
-    target: positive("target").optional(),
-    addedMl: positive("addedMl").optional(),
-    fraction: num("fraction").refine((v) => v > 0 && v <= 1, "fraction must be above 0 and at most 1 (for example 0.5 for a half dose).").optional(),
-  })
-  .superRefine((q, ctx) => {
-    if (q.stockPercent === undefined && q.stockFormId === undefined) {
-      ctx.addIssue({ code: "custom", path: ["stockPercent"], message: "stockPercent is required (or a stockFormId from the catalogue)." });
-    }
-    const byVolume = q.volume !== undefined || q.volumeUnit !== undefined;
-    const dims = [q.length, q.width, q.depth, q.lengthUnit].some((v) => v !== undefined);
-    if (byVolume && dims) {
-      ctx.addIssue({ code: "custom", path: ["volume"], message: "Give the volume or the tank's dimensions, not both." });
-    } else if (byVolume) {
-      if (q.volume === undefined) ctx.addIssue({ code: "custom", path: ["volume"], message: "volume is required with volumeUnit." });
-      if (q.volumeUnit === undefined) ctx.addIssue({ code: "custom", path: ["volumeUnit"], message: "volumeUnit is required with volume: L, mL, gal_us or gal_imp." });
-    } else if (dims) {
-      for (const f of ["length", "width", "depth", "lengthUnit"] as const) {
-        if (q[f] === undefined) ctx.addIssue({ code: "custom", path: [f], message: `${f} is required when giving the tank's dimensions.` });
-      }
-    } else {
-      ctx.addIssue({ code: "custom", path: ["volume"], message: "Give the water volume (volume and volumeUnit) or the tank's length, width, depth and lengthUnit." });
-    }
-    if (q.target !== undefined && q.addedMl !== undefined) {
-      ctx.addIssue({ code: "custom", path: ["addedMl"], message: "Give either target or addedMl, not both." });
-    } else if (q.target === undefined && q.addedMl === undefined) {
-      ctx.addIssue({ code: "custom", path: ["target"], message: "Give a target concentration, or addedMl to see what a dose made." });
-    }
-  });
+export const doseQuerySchema = doseQueryFields.superRefine(checkDoseQuery);
 
 export type DoseQuery = z.infer<typeof doseQuerySchema>;
+
+/** GET /api/dose/plan.ics: the planner's query plus when to start and how many doses. */
+export const planIcsQuerySchema = doseQueryFields
+  .extend({
+    start: z.iso.datetime({ offset: true, error: "start must be an ISO date and time, for example 2026-12-02T18:00:00Z." }),
+    doses: z.coerce
+      .number({ error: "doses must be a whole number." })
+      .int("doses must be a whole number.")
+      .min(1, "doses is at least 1.")
+      .max(30, "doses is at most 30.")
+      .default(1),
+    intervalHours: positive("intervalHours").refine((v) => v <= 24 * 60, "intervalHours is at most 1440 (60 days).").optional(),
+  })
+  .superRefine(checkDoseQuery);
+
+export type PlanIcsQuery = z.infer<typeof planIcsQuerySchema>;
 
 const measureSchema = z.object({ ml: z.number(), step: z.number(), tool: z.string() });
 
@@ -61,10 +84,36 @@ export const doseResponseSchema = z.object({
   target: z.number().nullable(),
   doseMl: z.number(),
   concentration: z.number(),
+  activeGrams: z.number().describe("grams of the active the full dose adds (for salt: dry salt to dissolve instead of brine)"),
   measured: measureSchema,
   firstDose: z.object({ fraction: z.number(), doseMl: z.number(), concentration: z.number(), measured: measureSchema }).optional(),
   strengthRange: z
     .object({ lowPercent: z.number(), highPercent: z.number(), concentrationLow: z.number(), concentrationHigh: z.number(), source: z.string() })
     .optional(),
-  stock: z.object({ percent: z.number(), basis: z.enum(["w/v", "w/w"]), densityGPerMl: z.number().nullable(), activeFraction: z.number(), presetId: z.string().nullable() }),
+  stock: z.object({
+    percent: z.number(),
+    basis: z.enum(["w/v", "w/w"]),
+    densityGPerMl: z.number().nullable(),
+    of: z.enum(["compound", "agent"]).describe("compound: the percentage is of a compound, activeFraction of it is the agent; agent: it counts the agent's unit itself"),
+    compound: z.string().nullable(),
+    activeFraction: z.number(),
+    presetId: z.string().nullable(),
+  }),
+  warnings: z.array(z.object({ code: z.enum(doseWarningCodes), message: z.string() })),
+  evidence: z
+    .object({
+      group: z.object({ slug: z.string(), name: z.string() }),
+      reports: z.number(),
+      sparse: z.boolean(),
+      toleratedDose: z.object({ median: z.number().nullable(), max: z.number().nullable() }).loose(),
+      lowestAdverseDose: z.number().nullable(),
+    })
+    .loose()
+    .optional()
+    .describe("The group's evidence Summary for the agent (with speciesId or group)"),
+  suggestedFirstDose: z
+    .object({ fraction: z.number(), concentration: z.number(), doseMl: z.number(), limitedBy: z.enum(["median", "lowest_adverse", "bmdl"]), measured: measureSchema })
+    .nullable()
+    .optional()
+    .describe("With speciesId or group: a cautious first dose from the evidence; null when the group has no tolerated median"),
 });

@@ -49,6 +49,8 @@ export const waterSchema = z.strictObject({
 
 export const treatmentSchema = z.strictObject({
   agentSlug: z.string({ error: "Choose the treatment agent." }).min(1, "Choose the treatment agent."),
+  /** A catalogue stock form: only a named form's reading (e.g. a compound's active fraction) applies to the percentage. */
+  stockFormId: z.string().min(1, "stockFormId names one of the agent's stock forms from /api/catalogue.").nullable().optional(),
   stockPercent: positive("Stock strength", 100).optional(),
   stockBasis: z.enum(["w/v", "w/w"], { error: "stockBasis must be w/v or w/w." }).optional(),
   stockDensityGPerMl: z.number().min(0.5, "Density is between 0.5 and 3 g/mL.").max(3, "Density is between 0.5 and 3 g/mL.").optional(),

@@ -47,10 +47,15 @@ describe("GET /api/dose", () => {
     expect(less.body.volumeL).toBeCloseTo(gallons.body.volumeL * 0.9, 9);
   });
 
-  it("takes density and active fraction from the agent's presets", async () => {
-    const w = await get({ agent: "hydrogen-peroxide", stockPercent: 35, basis: "w/w", volume: 100, volumeUnit: "L", target: 30 });
-    expect(w.body.stock).toMatchObject({ densityGPerMl: 1.13, presetId: "h2o2-35" });
+  it("takes density and active fraction from a named preset, and never guesses one from a bare percentage", async () => {
+    // Before: 35 % w/w without a stockFormId was matched to the h2o2-35 preset by its number. A percentage alone no
+    // longer picks a preset (two bottles of the same percentage can hold different things), so w/w needs a density.
+    const w = await get({ agent: "hydrogen-peroxide", stockFormId: "h2o2-35", volume: 100, volumeUnit: "L", target: 30 });
+    expect(w.body.stock).toMatchObject({ percent: 35, basis: "w/w", densityGPerMl: 1.13, of: "agent", presetId: "h2o2-35" });
     expect(w.body.stockMgPerMl).toBeCloseTo(395.5, 9);
+    const bare = await get({ agent: "hydrogen-peroxide", stockPercent: 35, basis: "w/w", volume: 100, volumeUnit: "L", target: 30 });
+    expect(bare.status).toBe(422);
+    expect(bare.body.error.issues.map((i: { path: string }) => i.path)).toContain("densityGPerMl");
     const cu = await get({ agent: "copper", stockFormId: "cu-sulfate-1", volume: 100, volumeUnit: "L", target: 0.2 });
     expect(cu.status).toBe(200);
     expect(cu.body.stockMgPerMl).toBeCloseTo(2.5451, 3);
@@ -77,7 +82,7 @@ describe("GET /api/dose", () => {
   });
 
   it("never answers 500, whatever the query", async () => {
-    const keys = ["agent", "stockPercent", "basis", "densityGPerMl", "volume", "volumeUnit", "length", "width", "depth", "lengthUnit", "displacementPercent", "target", "addedMl", "fraction", "stockFormId"];
+    const keys = ["agent", "stockPercent", "basis", "densityGPerMl", "volume", "volumeUnit", "length", "width", "depth", "lengthUnit", "displacementPercent", "target", "addedMl", "fraction", "stockFormId", "speciesId", "group"];
     const value = fc.oneof(fc.string({ maxLength: 8 }), fc.double().map(String), fc.constantFrom("hydrogen-peroxide", "L", "in", "w/w", "1e308", "-0", "NaN", "Infinity"));
     await fc.assert(
       fc.asyncProperty(fc.dictionary(fc.constantFrom(...keys), value, { maxKeys: 8 }), async (q) => {

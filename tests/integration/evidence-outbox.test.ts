@@ -207,7 +207,7 @@ describe("recompute through the evidence outbox", () => {
     await drainEvidenceOutbox();
     expect((await detail()).bands.map((b: { from: number }) => b.from)).toEqual([0, 15, 30, 60]);
 
-    await updateClubSettings({ id: admin.id, name: admin.name, email: admin.email, role: "admin" }, { name: "Test club", confidenceLevel: 90, minReports: 5, defaultVolumeUnit: "L", defaultTemperatureUnit: "C" });
+    await updateClubSettings({ id: admin.id, name: admin.name, email: admin.email, role: "admin" }, { name: "Test club", confidenceLevel: 90, minReports: 5, defaultVolumeUnit: "L", defaultTemperatureUnit: "C", firstDoseFraction: 0.5 });
     expect(await outbox()).toEqual([{ group_slug: "corydoras", agent_slug: "hydrogen-peroxide" }]);
     await drainEvidenceOutbox();
     expect((await detail()).confidenceLevel).toBe(90);

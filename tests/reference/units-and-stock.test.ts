@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import {
   CM_PER_INCH, LITRES_PER_IMPERIAL_GALLON, LITRES_PER_US_GALLON, celsiusFromFahrenheit, concentrationFromMl, doseMlForTarget,
-  fahrenheitFromCelsius, litresFromDimensions, planDose, stockMgPerMl, toLitres,
+  fahrenheitFromCelsius, litresFromDimensions, planDose, readStrength, stockMgPerMl, toLitres,
 } from "@/features/dosing";
 import { COPPER_IN_PENTAHYDRATE, starterAgents } from "@/features/catalogue/starter-data";
 
@@ -67,6 +67,23 @@ describe("stock strengths", () => {
     expect(COPPER_IN_PENTAHYDRATE).toBeCloseTo(0.25451, 4);
     // 1 % w/v CuSO₄·5H₂O = 10 mg/mL of salt = 2.545 mg/mL as Cu²⁺.
     expect(stockMgPerMl({ percent: 1, basis: "w/v", activeFraction: COPPER_IN_PENTAHYDRATE })).toBeCloseTo(2.5451, 3);
+  });
+
+  it("works 0.2 mg/L Cu²⁺ in 100 L from a 1 % w/v bottle both ways: as Cu²⁺ it is 2 mL, as copper sulfate pentahydrate 7.86 mL", () => {
+    const sulfate = starterAgents.find((a) => a.slug === "copper")!.stocks.find((s) => s.id === "cu-sulfate-1")!;
+    // Worked by hand from the definition of % w/v (g per 100 mL): 1 % w/v = 10 mg/mL. Read as the agent's own
+    // measure (Cu²⁺), 0.2 mg/L × 100 L = 20 mg of Cu²⁺ = 20 / 10 = 2 mL.
+    const asIon = readStrength({ percent: 1, basis: "w/v" });
+    expect(asIon).toMatchObject({ of: "agent", activeFraction: 1, presetId: null, mgPerMl: 10 });
+    expect(doseMlForTarget(0.2, 100, asIon.mgPerMl)).toBe(2);
+    // IUPAC/CIAAW standard atomic weights (abridged, 2021): Cu 63.546, S 32.06, O 15.999, H 1.008 →
+    // M(CuSO₄·5H₂O) = 63.546 + 32.06 + 9 × 15.999 + 10 × 1.008 = 249.677 g/mol; Cu share 63.546 / 249.677 = 0.254513.
+    // Named as the pentahydrate: 10 mg/mL of the salt is 2.54513 mg/mL of Cu²⁺, so 20 mg of Cu²⁺ takes 20 / 2.54513 = 7.858 mL.
+    const asSalt = readStrength({ percent: 1, basis: "w/v", preset: { ...sulfate, activeFraction: sulfate.activeFraction!, compound: sulfate.compound ?? null } });
+    expect(asSalt).toMatchObject({ of: "compound", presetId: "cu-sulfate-1" });
+    expect(asSalt.activeFraction).toBeCloseTo(0.254513, 6);
+    expect(asSalt.mgPerMl).toBeCloseTo(2.54513, 5);
+    expect(doseMlForTarget(0.2, 100, asSalt.mgPerMl)).toBeCloseTo(7.858, 3);
   });
 });
 

@@ -1,9 +1,9 @@
 import { z } from "zod";
 import { catalogueSchema } from "@/features/catalogue";
-import { doseQuerySchema, doseResponseSchema } from "@/features/dosing";
+import { doseQuerySchema, doseResponseSchema, planIcsQuerySchema } from "@/features/dosing";
 import { courseEntrySchema, listMineQuerySchema, reportDraftSchema, reportInputSchema } from "@/features/reports";
 import { correctionSchema, decisionSchema, queueQuerySchema } from "@/features/review";
-import { summariesResponseSchema, summaryDetailSchema, summaryQuerySchema } from "@/features/evidence";
+import { summariesResponseSchema, summaryDetailSchema, summaryQuerySchema, summarySchema } from "@/features/evidence";
 import { catalogueInputs, mergeSpeciesInput } from "@/features/catalogue";
 import { changeRoleSchema, listMembersQuerySchema, memberListSchema, memberSchema } from "@/features/members";
 import { json, route, refuseOtherMethods } from "@/features/shared/server/http";
@@ -18,8 +18,13 @@ const operations: Operation[] = [
   },
   { method: "get", path: "/api/catalogue", summary: "Species groups, species, agents with stock presets, conditions", tags: ["catalogue"], response: catalogueSchema, errors: [] },
   {
-    method: "get", path: "/api/dose", summary: "Dose planner: mL of stock for a target, or the concentration a given mL makes", tags: ["dosing"],
-    query: doseQuerySchema, response: doseResponseSchema, errors: [422],
+    method: "get", path: "/api/dose", summary: "Dose planner: mL of stock for a target, or the concentration a given mL makes; with speciesId or group, that group's evidence and a cautious first dose", tags: ["dosing"],
+    // The evidence is the group's full Summary; dosing cannot name the evidence schema, so it is filled in here.
+    query: doseQuerySchema, response: doseResponseSchema.extend({ evidence: summarySchema.optional() }), errors: [422],
+  },
+  {
+    method: "get", path: "/api/dose/plan.ics", summary: "The dosing and watching plan as iCalendar: one event per dose (mL and concentration) and per check, cautions in each description", tags: ["dosing"],
+    query: planIcsQuerySchema, response: z.string(), contentType: "text/calendar", errors: [422],
   },
   {
     method: "get", path: "/api/admin/members", summary: "List members (search, role filter, sort, pages)", tags: ["members"], auth: "admin",

@@ -13,7 +13,7 @@ import type { CatalogueKind } from "../admin-schemas";
 export interface FieldDef {
   name: string;
   label: string;
-  type: "text" | "number" | "numbers" | "select" | "checkbox" | "nullable-number";
+  type: "text" | "number" | "numbers" | "select" | "checkbox" | "nullable-number" | "nullable-text";
   options?: { value: string; label: string }[];
   /** Part of the key: set when adding, fixed afterwards. */
   key?: boolean;
@@ -37,6 +37,7 @@ function toBody(fields: FieldDef[], values: Record<string, string | boolean>, ed
     if (f.type === "checkbox") body[f.name] = Boolean(v);
     else if (f.type === "number") { if (String(v ?? "").trim() !== "") body[f.name] = Number(v); }
     else if (f.type === "nullable-number") body[f.name] = String(v ?? "").trim() === "" ? null : Number(v);
+    else if (f.type === "nullable-text") body[f.name] = String(v ?? "").trim() === "" ? null : String(v);
     else if (f.type === "numbers") body[f.name] = String(v ?? "").split(/[,\s]+/).filter(Boolean).map(Number);
     else if (String(v ?? "").trim() !== "" || !editing) body[f.name] = String(v ?? "");
   }
@@ -157,7 +158,7 @@ export function CatalogueEditor({ kind, title, fields, columns: shown, mergeTarg
                       {f.options?.map((o) => <option key={o.value} value={o.value}>{o.label}</option>)}
                     </select>
                   ) : (
-                    <input id={fid} disabled={disabled} value={String(v ?? "")} inputMode={f.type === "text" ? undefined : "decimal"} onChange={(e) => setValues({ ...values, [f.name]: e.target.value })} aria-invalid={errors[f.name] ? true : undefined} className="rounded-md border border-peat-300 bg-white px-3 py-2 disabled:bg-peat-50" />
+                    <input id={fid} disabled={disabled} value={String(v ?? "")} inputMode={f.type === "text" || f.type === "nullable-text" ? undefined : "decimal"} onChange={(e) => setValues({ ...values, [f.name]: e.target.value })} aria-invalid={errors[f.name] ? true : undefined} className="rounded-md border border-peat-300 bg-white px-3 py-2 disabled:bg-peat-50" />
                   )}
                 </>
               )}

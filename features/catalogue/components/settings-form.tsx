@@ -6,7 +6,7 @@ export interface SettingsState {
   ok: boolean;
   message: string | null;
   fieldErrors: Record<string, string>;
-  values: { name: string; confidenceLevel: number; minReports: number; defaultVolumeUnit: string; defaultTemperatureUnit: string };
+  values: { name: string; confidenceLevel: number; minReports: number; defaultVolumeUnit: string; defaultTemperatureUnit: string; firstDoseFraction: number };
 }
 
 export function SettingsForm({ action, initial }: { action: (s: SettingsState, f: FormData) => Promise<SettingsState>; initial: SettingsState }) {
@@ -46,6 +46,13 @@ export function SettingsForm({ action, initial }: { action: (s: SettingsState, f
             <option value="C">°C</option><option value="F">°F</option>
           </select>
         </div>
+      </div>
+      <div className="grid gap-1">
+        <label htmlFor="firstDoseFraction" className="font-bold">First dose the planner offers from a group&apos;s evidence</label>
+        <select id="firstDoseFraction" name="firstDoseFraction" defaultValue={v.firstDoseFraction === 0.5 ? "0.5" : "0.3333333333333333"} className={cls}>
+          <option value="0.5">½ of the usual (median tolerated) dose</option><option value="0.3333333333333333">⅓ of the usual dose (more cautious)</option>
+        </select>
+        {err("firstDoseFraction")}
       </div>
       {state.message ? <p role={state.ok ? "status" : "alert"} className={state.ok ? "font-bold text-peat-700" : "font-bold text-alarm-700"}>{state.message}</p> : null}
       <button type="submit" disabled={pending} className="justify-self-start rounded-md bg-peat-700 px-4 py-2 font-bold text-white">{pending ? "Saving and recomputing…" : "Save settings"}</button>

@@ -11,6 +11,8 @@ export interface ClubSettings {
   minReports: number;
   defaultVolumeUnit: string;
   defaultTemperatureUnit: string;
+  /** ½ or ⅓: the share of a group's usual dose offered as a first dose. */
+  firstDoseFraction: number;
 }
 
 /**
@@ -26,6 +28,7 @@ export async function getClubSettings(q?: Pick<Db, "select">): Promise<ClubSetti
     minReports: row?.minReports ?? 5,
     defaultVolumeUnit: row?.defaultVolumeUnit ?? "L",
     defaultTemperatureUnit: row?.defaultTemperatureUnit ?? "C",
+    firstDoseFraction: row?.firstDoseFraction ?? 0.5,
   };
 }
 

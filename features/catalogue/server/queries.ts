@@ -27,7 +27,7 @@ export async function getCatalogue(): Promise<Catalogue> {
       description: a.description,
       stockForms: st
         .filter((s) => s.agentSlug === a.slug)
-        .map((s) => ({ id: s.id, label: s.label, percent: s.percent, basis: s.basis, densityGPerMl: s.densityGPerMl, activeFraction: s.activeFraction })),
+        .map((s) => ({ id: s.id, label: s.label, percent: s.percent, basis: s.basis, densityGPerMl: s.densityGPerMl, activeFraction: s.activeFraction, compound: s.compound })),
     })),
     conditions: co.map((c) => ({ slug: c.slug, name: c.name })),
   };

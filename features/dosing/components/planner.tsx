@@ -1,9 +1,15 @@
 "use client";
 
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useQuery } from "@tanstack/react-query";
 import { useSearchParams } from "next/navigation";
 import { useEffect, useId, useMemo, useState } from "react";
-import { planDose, redoseChecklist, type Plan, type VolumeInput } from "../plan";
+import { useForm, useWatch, type Resolver } from "react-hook-form";
+import { courseSchedule, planDose, type CourseItem, type Plan, type VolumeInput } from "../plan";
 import { DosingInputError } from "../concentration";
+import { doseWarnings, suggestFirstDose, type DoseWarning, type GuardEvidence } from "../guard-rails";
+import { doseQuerySchema, type DoseQuery } from "../schemas";
+import { readStrength } from "../stock-reading";
 import { volumeUnitLabels, volumeUnits, type LengthUnit, type VolumeUnit } from "../units";
 import type { StockBasis } from "../concentration";
 
@@ -14,29 +20,39 @@ export interface PlannerStock {
   basis: StockBasis;
   densityGPerMl: number | null;
   activeFraction: number;
+  compound: string | null;
 }
 
 export interface PlannerAgent {
   slug: string;
   name: string;
   unit: "mg/L" | "g/L";
+  plausibleCeiling: number;
   redoseHours: number | null;
   watchDays: number;
   description: string;
   stockForms: PlannerStock[];
 }
 
+export interface PlannerFish {
+  species: { id: string; commonName: string; scientificName: string; groupSlug: string }[];
+  groups: { slug: string; name: string }[];
+}
+
+/** A group's evidence as /api/summaries/:group answers it (the Summary fields the planner shows). */
+type GroupEvidence = GuardEvidence & {
+  members: number;
+  fish: number;
+  tolerated: number;
+  toleratedShare: { value: number | null; low: number | null; high: number | null };
+  toleratedDose: GuardEvidence["toleratedDose"] & { medianInterval: { low: number; high: number; coverage: number } | null };
+  confidenceLevel: number;
+};
+
 const UNITS_KEY = "tanklore.planner.units";
 const fmt = (n: number, digits = 2) => n.toLocaleString("en-GB", { maximumFractionDigits: digits, minimumFractionDigits: 0 });
 const fmtSig = (n: number) => (Math.abs(n) >= 100 ? fmt(n, 0) : Math.abs(n) >= 10 ? fmt(n, 1) : fmt(n, 2));
-
-function parseNum(s: string): number | undefined {
-  if (s.trim() === "") return undefined;
-  const n = Number(s.replace(",", "."));
-  return Number.isFinite(n) ? n : NaN;
-}
-
-type Errors = Partial<Record<string, string>>;
+const pct = (v: number | null) => (v == null ? "–" : `${fmt(v * 100, 0)} %`);
 
 const fractions = [
   { value: "1", label: "Full dose" },
@@ -45,135 +61,272 @@ const fractions = [
   { value: "custom", label: "Another fraction…" },
 ];
 
-export function Planner({ agents }: { agents: PlannerAgent[] }) {
+/** The form as typed: strings, turned into the API's query by toQuery and checked by the API's own schema. */
+interface PlannerValues {
+  fishText: string;
+  speciesId: string;
+  group: string;
+  agent: string;
+  stockFormId: string;
+  stockPercent: string;
+  basis: StockBasis;
+  densityGPerMl: string;
+  volumeMode: "volume" | "dimensions";
+  volume: string;
+  volumeUnit: VolumeUnit;
+  length: string;
+  width: string;
+  depth: string;
+  lengthUnit: LengthUnit;
+  displacementPercent: string;
+  mode: "target" | "added";
+  target: string;
+  addedMl: string;
+  fractionChoice: string;
+  fraction: string;
+}
+
+const blank = (s: string | undefined) => (s ?? "").trim() === "";
+const numText = (s: string | undefined) => (blank(s) ? undefined : s!.trim().replace(",", "."));
+
+/** The GET /api/dose query these form values stand for (blank fields left out), so one schema judges both. */
+export function toQuery(v: Partial<PlannerValues>): Record<string, string | undefined> {
+  const q: Record<string, string | undefined> = { agent: v.agent };
+  if (!blank(v.stockFormId)) q.stockFormId = v.stockFormId;
+  else {
+    q.stockPercent = numText(v.stockPercent) ?? "";
+    q.basis = v.basis;
+    if (v.basis === "w/w") q.densityGPerMl = numText(v.densityGPerMl);
+  }
+  if (v.volumeMode === "dimensions") {
+    for (const f of ["length", "width", "depth"] as const) q[f] = numText(v[f]) ?? "";
+    q.lengthUnit = v.lengthUnit;
+    q.displacementPercent = numText(v.displacementPercent);
+  } else {
+    q.volume = numText(v.volume) ?? "";
+    q.volumeUnit = v.volumeUnit;
+  }
+  if (v.mode === "added") q.addedMl = numText(v.addedMl) ?? "";
+  else q.target = numText(v.target) ?? "";
+  q.fraction = v.fractionChoice === "custom" ? (numText(v.fraction) ?? "") : v.fractionChoice;
+  if (!blank(v.speciesId)) q.speciesId = v.speciesId;
+  else if (!blank(v.group)) q.group = v.group;
+  // An empty required field stays "" so the schema names it; empty optional ones are dropped.
+  for (const k of Object.keys(q)) if (q[k] === undefined) delete q[k];
+  return q;
+}
+
+const doseResolver = zodResolver(doseQuerySchema);
+/** The API's schema over the form: field names are the query's, so its messages land on the right inputs. */
+const plannerResolver: Resolver<PlannerValues> = async (values, context, options) => {
+  const result = await doseResolver(toQuery(values) as never, context, options as never);
+  return { values: result.errors && Object.keys(result.errors).length ? {} : values, errors: result.errors } as Awaited<ReturnType<Resolver<PlannerValues>>>;
+};
+
+const fishLabel = (s: PlannerFish["species"][number]) => `${s.commonName} (${s.scientificName})`;
+
+export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAgent[]; fish: PlannerFish; firstDoseFraction: number }) {
   const params = useSearchParams();
   const id = useId();
   const initialAgent = agents.find((a) => a.slug === params.get("agent")) ?? agents[0]!;
-  const [agentSlug, setAgentSlug] = useState(initialAgent.slug);
-  const agent = agents.find((a) => a.slug === agentSlug) ?? agents[0]!;
-  const [stockId, setStockId] = useState(initialAgent.stockForms[0]?.id ?? "custom");
-  const [customPercent, setCustomPercent] = useState("3");
-  const [customBasis, setCustomBasis] = useState<StockBasis>("w/v");
-  const [customDensity, setCustomDensity] = useState("");
-  const [volumeMode, setVolumeMode] = useState<"volume" | "dimensions">("volume");
-  const [volume, setVolume] = useState("");
-  const [volumeUnit, setVolumeUnit] = useState<VolumeUnit>("L");
-  const [dims, setDims] = useState({ length: "", width: "", depth: "", displacement: "0" });
-  const [lengthUnit, setLengthUnit] = useState<LengthUnit>("cm");
-  const [mode, setMode] = useState<"target" | "added">("target");
-  const [target, setTarget] = useState(params.get("target") ?? "");
-  const [added, setAdded] = useState("");
   const initialFraction = params.get("fraction");
-  const [fractionChoice, setFractionChoice] = useState(
-    initialFraction ? (fractions.some((f) => f.value !== "custom" && Math.abs(Number(f.value) - Number(initialFraction)) < 1e-6) ? fractions.find((f) => Math.abs(Number(f.value) - Number(initialFraction)) < 1e-6)!.value : "custom") : "0.5",
-  );
-  const [customFraction, setCustomFraction] = useState(initialFraction ?? "0.5");
+  const initialGroup = fish.groups.find((g) => g.slug === params.get("group"));
+  const { register, control, setValue, getValues, handleSubmit, formState } = useForm<PlannerValues>({
+    mode: "onTouched",
+    resolver: plannerResolver,
+    defaultValues: {
+      fishText: initialGroup ? `${initialGroup.name} (group)` : "",
+      speciesId: "",
+      group: initialGroup?.slug ?? "",
+      agent: initialAgent.slug,
+      stockFormId: initialAgent.stockForms[0]?.id ?? "",
+      stockPercent: "3",
+      basis: "w/v",
+      densityGPerMl: "",
+      volumeMode: "volume",
+      volume: "",
+      volumeUnit: "L",
+      length: "",
+      width: "",
+      depth: "",
+      lengthUnit: "cm",
+      displacementPercent: "0",
+      mode: "target",
+      target: params.get("target") ?? "",
+      addedMl: "",
+      fractionChoice: initialFraction
+        ? (fractions.find((f) => f.value !== "custom" && Math.abs(Number(f.value) - Number(initialFraction)) < 1e-6)?.value ?? "custom")
+        : "0.5",
+      fraction: initialFraction ?? "0.5",
+    },
+  });
+  const values = useWatch({ control }) as PlannerValues;
   const [doses, setDoses] = useState("3");
   const [start, setStart] = useState("");
+  const [acknowledged, setAcknowledged] = useState<string | null>(null);
   const groupName = params.get("groupName");
+  const agent = agents.find((a) => a.slug === values.agent) ?? agents[0]!;
 
   // Units follow the visitor's last choice on this device.
   useEffect(() => {
     try {
       const saved = JSON.parse(localStorage.getItem(UNITS_KEY) ?? "{}");
-      if (volumeUnits.includes(saved.volumeUnit)) setVolumeUnit(saved.volumeUnit);
-      if (saved.lengthUnit === "cm" || saved.lengthUnit === "in") setLengthUnit(saved.lengthUnit);
-      if (saved.volumeMode === "volume" || saved.volumeMode === "dimensions") setVolumeMode(saved.volumeMode);
+      if (volumeUnits.includes(saved.volumeUnit)) setValue("volumeUnit", saved.volumeUnit);
+      if (saved.lengthUnit === "cm" || saved.lengthUnit === "in") setValue("lengthUnit", saved.lengthUnit);
+      if (saved.volumeMode === "volume" || saved.volumeMode === "dimensions") setValue("volumeMode", saved.volumeMode);
     } catch {
       // Nothing saved, or storage is off: keep the defaults.
     }
     const now = new Date();
     now.setMinutes(0, 0, 0);
     setStart(new Date(now.getTime() - now.getTimezoneOffset() * 60000).toISOString().slice(0, 16));
-  }, []);
+  }, [setValue]);
   useEffect(() => {
     try {
-      localStorage.setItem(UNITS_KEY, JSON.stringify({ volumeUnit, lengthUnit, volumeMode }));
+      localStorage.setItem(UNITS_KEY, JSON.stringify({ volumeUnit: values.volumeUnit, lengthUnit: values.lengthUnit, volumeMode: values.volumeMode }));
     } catch {
       // Storage off: units are simply not remembered.
     }
-  }, [volumeUnit, lengthUnit, volumeMode]);
+  }, [values.volumeUnit, values.lengthUnit, values.volumeMode]);
 
-  const stock = agent.stockForms.find((s) => s.id === stockId);
-  const { plan, errors } = useMemo(() => {
-    const errors: Errors = {};
-    const need = (field: string, raw: string, label: string) => {
-      const n = parseNum(raw);
-      if (n === undefined) errors[field] = `Enter the ${label}.`;
-      else if (Number.isNaN(n)) errors[field] = `The ${label} must be a number.`;
-      return n;
-    };
-    const percent = stock ? stock.percent : need("stockPercent", customPercent, "stock strength in %");
-    const density = stock ? stock.densityGPerMl : parseNum(customDensity);
-    if (!stock && customBasis === "w/w" && density === undefined) errors.densityGPerMl = "A % w/w strength needs the solution's density in g/mL.";
-    let water: VolumeInput | null = null;
-    if (volumeMode === "volume") {
-      const v = need("volume", volume, "water volume");
-      if (v !== undefined && !Number.isNaN(v)) water = { kind: "volume", volume: v, unit: volumeUnit };
-    } else {
-      const l = need("length", dims.length, "length");
-      const w = need("width", dims.width, "width");
-      const d = need("depth", dims.depth, "water depth");
-      const disp = parseNum(dims.displacement) ?? 0;
-      if ([l, w, d].every((x) => x !== undefined && !Number.isNaN(x))) water = { kind: "dimensions", length: l!, width: w!, depth: d!, unit: lengthUnit, displacementPercent: disp };
-    }
-    const t = mode === "target" ? need("target", target, "target concentration") : undefined;
-    const a = mode === "added" ? need("addedMl", added, "millilitres added") : undefined;
-    const f = fractionChoice === "custom" ? need("fraction", customFraction, "fraction") : Number(fractionChoice);
-    if (Object.keys(errors).length || !water || percent === undefined) return { plan: null, errors };
+  const groupSlug = values.speciesId ? fish.species.find((s) => s.id === values.speciesId)?.groupSlug : values.group || undefined;
+  const evidenceQuery = useQuery({
+    queryKey: ["planner-evidence", groupSlug, agent.slug],
+    enabled: Boolean(groupSlug),
+    queryFn: async (): Promise<GroupEvidence> => {
+      const r = await fetch(`/api/summaries/${encodeURIComponent(groupSlug!)}?agent=${encodeURIComponent(agent.slug)}`);
+      if (!r.ok) throw new Error("The club's evidence could not be loaded.");
+      return r.json();
+    },
+  });
+  const evidence = groupSlug ? (evidenceQuery.data ?? null) : undefined;
+
+  const stock = agent.stockForms.find((s) => s.id === values.stockFormId);
+  const query = useMemo(() => doseQuerySchema.safeParse(toQuery(values)), [values]);
+  const { plan, problem } = useMemo((): { plan: Plan | null; problem: string | null } => {
+    if (!query.success) return { plan: null, problem: null };
+    const q: DoseQuery = query.data;
     try {
+      const reading = readStrength({ percent: q.stockPercent, basis: q.basis, densityGPerMl: q.densityGPerMl, preset: stock ?? null });
+      const water: VolumeInput =
+        q.volume !== undefined
+          ? { kind: "volume", volume: q.volume, unit: q.volumeUnit! }
+          : { kind: "dimensions", length: q.length!, width: q.width!, depth: q.depth!, unit: q.lengthUnit!, displacementPercent: q.displacementPercent };
       const plan = planDose({
         agentSlug: agent.slug,
         unit: agent.unit,
-        stock: { percent: percent!, basis: stock ? stock.basis : customBasis, densityGPerMl: density ?? null, activeFraction: stock?.activeFraction ?? 1 },
+        stock: { percent: reading.percent, basis: reading.basis, densityGPerMl: reading.densityGPerMl, activeFraction: reading.activeFraction },
         water,
-        target: t,
-        addedMl: a,
-        fraction: f,
+        target: q.target,
+        addedMl: q.addedMl,
+        fraction: q.fraction,
       });
-      return { plan, errors };
+      return { plan, problem: null };
     } catch (failure) {
-      if (failure instanceof DosingInputError) {
-        errors[failure.field === "activeFraction" ? "stockPercent" : failure.field] = failure.message;
-        return { plan: null, errors };
-      }
+      if (failure instanceof DosingInputError) return { plan: null, problem: failure.message };
       throw failure;
     }
-  }, [agent, stock, customPercent, customBasis, customDensity, volumeMode, volume, volumeUnit, dims, lengthUnit, mode, target, added, fractionChoice, customFraction]);
+  }, [query, stock, agent]);
 
-  const field = (name: string) => ({
+  const n = agent.redoseHours ? Math.min(10, Math.max(1, Math.floor(Number(doses) || 1))) : 1;
+  const startDate = start ? new Date(start) : null;
+  const items = plan && startDate && !Number.isNaN(startDate.getTime()) ? courseSchedule(plan, startDate, n, agent.redoseHours, agent.watchDays) : [];
+  const warnings: DoseWarning[] = plan
+    ? doseWarnings({
+        unit: agent.unit,
+        ceiling: agent.plausibleCeiling,
+        evidence: groupSlug ? (evidenceQuery.isSuccess ? evidence : undefined) : undefined,
+        doses: [
+          { label: plan.target !== null ? "the target" : "the concentration your mL make", concentration: plan.concentration },
+          ...(plan.firstDose ? [{ label: "the first dose", concentration: plan.firstDose.concentration }] : []),
+          ...items.filter((i) => i.kind === "dose").map((i) => ({ label: i.label.replace(/^Dose (\d+) of \d+$/, "dose $1"), concentration: i.concentration! })),
+        ],
+      })
+    : [];
+  const warningKey = warnings.map((w) => w.message).join("|");
+  const cleared = warnings.length === 0 || acknowledged === warningKey;
+  const suggested = suggestFirstDose(evidence ?? null, firstDoseFraction);
+
+  const errorOf = (name: keyof PlannerValues) => formState.errors[name]?.message;
+  const field = (name: keyof PlannerValues) => ({
     id: `${id}-${name}`,
-    "aria-invalid": errors[name] ? true : undefined,
-    "aria-describedby": errors[name] ? `${id}-${name}-error` : undefined,
+    "aria-invalid": errorOf(name) ? true : undefined,
+    "aria-describedby": errorOf(name) ? `${id}-${name}-error` : undefined,
   });
-  const err = (name: string) =>
-    errors[name] ? (
+  const err = (name: keyof PlannerValues) =>
+    errorOf(name) ? (
       <p id={`${id}-${name}-error`} className="text-sm font-bold text-alarm-700">
-        {errors[name]}
+        {errorOf(name)}
       </p>
     ) : null;
-  const input = "rounded-md border border-peat-300 bg-white px-3 py-2 aria-[invalid=true]:border-alarm-500";
+  const input = "w-full min-w-0 rounded-md border border-peat-300 bg-white px-3 py-2 aria-[invalid=true]:border-alarm-500";
+
+  const chooseFish = (text: string) => {
+    const sp = fish.species.find((s) => fishLabel(s).toLowerCase() === text.trim().toLowerCase() || s.commonName.toLowerCase() === text.trim().toLowerCase() || s.scientificName.toLowerCase() === text.trim().toLowerCase());
+    const g = fish.groups.find((x) => `${x.name} (group)`.toLowerCase() === text.trim().toLowerCase() || x.name.toLowerCase() === text.trim().toLowerCase());
+    setValue("speciesId", sp?.id ?? "");
+    setValue("group", sp ? "" : (g?.slug ?? ""));
+  };
+  const useSuggestion = () => {
+    if (!suggested || evidence?.toleratedDose.median == null) return;
+    const median = evidence.toleratedDose.median;
+    setValue("mode", "target");
+    setValue("target", String(Number(median.toPrecision(3))), { shouldValidate: true });
+    const f = suggested.limitedBy === "median" ? suggested.fraction : suggested.concentration / Number(median.toPrecision(3));
+    const preset = fractions.find((x) => x.value !== "custom" && Math.abs(Number(x.value) - f) < 1e-6);
+    setValue("fractionChoice", preset?.value ?? "custom");
+    setValue("fraction", String(Number(f.toPrecision(3))), { shouldValidate: true });
+  };
+  const icsHref =
+    query.success && startDate && !Number.isNaN(startDate.getTime())
+      ? `/api/dose/plan.ics?${new URLSearchParams({ ...(toQuery(values) as Record<string, string>), start: startDate.toISOString(), doses: String(n) })}`
+      : null;
 
   return (
     <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
-      <form className="grid content-start gap-6 no-print" onSubmit={(e) => e.preventDefault()} aria-label="Dose planner">
+      <form className="grid min-w-0 content-start gap-6 no-print" onSubmit={handleSubmit(() => undefined)} aria-label="Dose planner" noValidate>
         {groupName ? (
           <p className="rounded-md bg-peat-50 p-3 text-sm">
             Prefilled from the club&apos;s evidence for <strong>{groupName}</strong>. Check every figure against your own tank.
           </p>
         ) : null}
-        <fieldset className="grid gap-3">
-          <legend className="mb-1 text-lg font-bold text-peat-900">1. Treatment and stock bottle</legend>
+        <fieldset className="grid min-w-0 gap-3">
+          <legend className="mb-1 text-lg font-bold text-peat-900">1. Your fish and the treatment</legend>
+          <label htmlFor={`${id}-fishText`} className="font-bold">Fish being treated</label>
+          <input
+            {...register("fishText", { onChange: (e) => chooseFish(e.target.value) })}
+            id={`${id}-fishText`}
+            list={`${id}-fish-list`}
+            className={input}
+            placeholder="Type a common or scientific name, or a group"
+            autoComplete="off"
+            aria-describedby={`${id}-fish-hint`}
+          />
+          <datalist id={`${id}-fish-list`}>
+            {fish.species.map((s) => (
+              <option key={s.id} value={fishLabel(s)} />
+            ))}
+            {fish.groups.map((g) => (
+              <option key={g.slug} value={`${g.name} (group)`} />
+            ))}
+          </datalist>
+          <p id={`${id}-fish-hint`} className="text-sm text-peat-700">
+            {groupSlug ? `Group: ${fish.groups.find((g) => g.slug === groupSlug)?.name ?? groupSlug}.` : "Optional, but the club's evidence for your fish is shown once you choose them."}
+          </p>
           <label htmlFor={`${id}-agent`} className="font-bold">Treatment</label>
           <select
+            {...register("agent", {
+              onChange: (e) => {
+                const next = agents.find((a) => a.slug === e.target.value)!;
+                setValue("stockFormId", next.stockForms[0]?.id ?? "");
+                // A concentration of one treatment means nothing for another (25 mg/L of peroxide is not 25 g/L of salt).
+                setValue("target", "");
+                setValue("addedMl", "");
+                setAcknowledged(null);
+              },
+            })}
             id={`${id}-agent`}
             className={input}
-            value={agentSlug}
-            onChange={(e) => {
-              const next = agents.find((a) => a.slug === e.target.value)!;
-              setAgentSlug(next.slug);
-              setStockId(next.stockForms[0]?.id ?? "custom");
-            }}
           >
             {agents.map((a) => (
               <option key={a.slug} value={a.slug}>{a.name}</option>
@@ -181,49 +334,55 @@ export function Planner({ agents }: { agents: PlannerAgent[] }) {
           </select>
           <p className="text-sm text-peat-700">{agent.description}</p>
           <label htmlFor={`${id}-stock`} className="font-bold">Stock strength</label>
-          <select id={`${id}-stock`} className={input} value={stockId} onChange={(e) => setStockId(e.target.value)}>
+          <select {...register("stockFormId")} id={`${id}-stock`} className={input}>
             {agent.stockForms.map((s) => (
               <option key={s.id} value={s.id}>{s.label}</option>
             ))}
-            <option value="custom">Another strength…</option>
+            <option value="">Another strength…</option>
           </select>
+          {stock?.compound ? (
+            <p className="text-sm text-peat-700">The percentage is of {stock.compound}; doses are worked out as {agent.name.toLowerCase()} ({fmt(stock.activeFraction * 100, 1)} % of its mass).</p>
+          ) : null}
           {!stock ? (
-            <div className="grid grid-cols-3 gap-3">
-              <div className="grid gap-1">
+            <div className="grid gap-3 sm:grid-cols-3">
+              <div className="grid min-w-0 gap-1">
                 <label htmlFor={`${id}-stockPercent`} className="font-bold">Strength (%)</label>
-                <input {...field("stockPercent")} inputMode="decimal" className={input} value={customPercent} onChange={(e) => setCustomPercent(e.target.value)} />
+                <input {...register("stockPercent")} {...field("stockPercent")} inputMode="decimal" className={input} />
               </div>
-              <div className="grid gap-1">
+              <div className="grid min-w-0 gap-1">
                 <label htmlFor={`${id}-basis`} className="font-bold">Basis</label>
-                <select id={`${id}-basis`} className={input} value={customBasis} onChange={(e) => setCustomBasis(e.target.value as StockBasis)}>
+                <select {...register("basis")} id={`${id}-basis`} className={input}>
                   <option value="w/v">w/v (g per 100 mL)</option>
                   <option value="w/w">w/w (g per 100 g)</option>
                 </select>
               </div>
-              <div className="grid gap-1">
+              <div className="grid min-w-0 gap-1">
                 <label htmlFor={`${id}-densityGPerMl`} className="font-bold">Density (g/mL)</label>
-                <input {...field("densityGPerMl")} inputMode="decimal" className={input} value={customDensity} disabled={customBasis === "w/v"} onChange={(e) => setCustomDensity(e.target.value)} />
+                <input {...register("densityGPerMl")} {...field("densityGPerMl")} inputMode="decimal" className={input} disabled={values.basis === "w/v"} />
               </div>
-              <div className="col-span-3">{err("stockPercent")}{err("densityGPerMl")}</div>
+              <p className="text-sm text-peat-700 sm:col-span-3">A strength typed here counts {agent.name.toLowerCase()} itself{agent.unit === "mg/L" && values.basis === "w/v" ? " (1 % w/v = 10 mg per mL)" : ""}. If your bottle gives the strength of a compound, choose its stock form above.</p>
+              <div className="sm:col-span-3">{err("stockPercent")}{err("densityGPerMl")}</div>
             </div>
           ) : null}
         </fieldset>
 
-        <fieldset className="grid gap-3">
+        {groupSlug ? <EvidencePanel evidence={evidenceQuery.isSuccess ? evidence! : null} failed={evidenceQuery.isError} unit={agent.unit} agentName={agent.name} suggested={suggested} onUse={useSuggestion} /> : null}
+
+        <fieldset className="grid min-w-0 gap-3">
           <legend className="mb-1 text-lg font-bold text-peat-900">2. Water to treat</legend>
-          <div className="flex gap-4" role="radiogroup" aria-label="How to give the water volume">
-            <label className="flex items-center gap-2"><input type="radio" name="volumeMode" checked={volumeMode === "volume"} onChange={() => setVolumeMode("volume")} /> I know the volume</label>
-            <label className="flex items-center gap-2"><input type="radio" name="volumeMode" checked={volumeMode === "dimensions"} onChange={() => setVolumeMode("dimensions")} /> Work it out from the tank</label>
+          <div className="flex flex-wrap gap-4" role="radiogroup" aria-label="How to give the water volume">
+            <label className="flex items-center gap-2"><input type="radio" value="volume" {...register("volumeMode")} /> I know the volume</label>
+            <label className="flex items-center gap-2"><input type="radio" value="dimensions" {...register("volumeMode")} /> Work it out from the tank</label>
           </div>
-          {volumeMode === "volume" ? (
+          {values.volumeMode !== "dimensions" ? (
             <div className="grid grid-cols-2 gap-3">
-              <div className="grid gap-1">
+              <div className="grid min-w-0 gap-1">
                 <label htmlFor={`${id}-volume`} className="font-bold">Water volume</label>
-                <input {...field("volume")} inputMode="decimal" className={input} value={volume} onChange={(e) => setVolume(e.target.value)} />
+                <input {...register("volume")} {...field("volume")} inputMode="decimal" className={input} />
               </div>
-              <div className="grid gap-1">
+              <div className="grid min-w-0 gap-1">
                 <label htmlFor={`${id}-volumeUnit`} className="font-bold">Unit</label>
-                <select id={`${id}-volumeUnit`} className={input} value={volumeUnit} onChange={(e) => setVolumeUnit(e.target.value as VolumeUnit)}>
+                <select {...register("volumeUnit")} id={`${id}-volumeUnit`} className={input}>
                   {volumeUnits.map((u) => (
                     <option key={u} value={u}>{volumeUnitLabels[u]}</option>
                   ))}
@@ -234,21 +393,21 @@ export function Planner({ agents }: { agents: PlannerAgent[] }) {
           ) : (
             <div className="grid grid-cols-2 gap-3 sm:grid-cols-4">
               {(["length", "width", "depth"] as const).map((d) => (
-                <div key={d} className="grid gap-1">
+                <div key={d} className="grid min-w-0 gap-1">
                   <label htmlFor={`${id}-${d}`} className="font-bold">{d === "depth" ? "Water depth" : d === "length" ? "Length" : "Width"}</label>
-                  <input {...field(d)} inputMode="decimal" className={input} value={dims[d]} onChange={(e) => setDims({ ...dims, [d]: e.target.value })} />
+                  <input {...register(d)} {...field(d)} inputMode="decimal" className={input} />
                 </div>
               ))}
-              <div className="grid gap-1">
+              <div className="grid min-w-0 gap-1">
                 <label htmlFor={`${id}-lengthUnit`} className="font-bold">Unit</label>
-                <select id={`${id}-lengthUnit`} className={input} value={lengthUnit} onChange={(e) => setLengthUnit(e.target.value as LengthUnit)}>
+                <select {...register("lengthUnit")} id={`${id}-lengthUnit`} className={input}>
                   <option value="cm">cm</option>
                   <option value="in">inches</option>
                 </select>
               </div>
-              <div className="col-span-2 grid gap-1">
+              <div className="col-span-2 grid min-w-0 gap-1">
                 <label htmlFor={`${id}-displacementPercent`} className="font-bold">Less for gravel and decor (%)</label>
-                <input {...field("displacementPercent")} inputMode="decimal" className={input} value={dims.displacement} onChange={(e) => setDims({ ...dims, displacement: e.target.value })} />
+                <input {...register("displacementPercent")} {...field("displacementPercent")} inputMode="decimal" className={input} />
               </div>
               <div className="col-span-full">{err("length")}{err("width")}{err("depth")}{err("displacementPercent")}</div>
               <p className="col-span-full text-sm text-peat-700">Measure inside the glass; depth is of the water, not the tank.</p>
@@ -256,53 +415,76 @@ export function Planner({ agents }: { agents: PlannerAgent[] }) {
           )}
         </fieldset>
 
-        <fieldset className="grid gap-3">
+        <fieldset className="grid min-w-0 gap-3">
           <legend className="mb-1 text-lg font-bold text-peat-900">3. Dose</legend>
           <div className="flex flex-wrap gap-4" role="radiogroup" aria-label="What to work out">
-            <label className="flex items-center gap-2"><input type="radio" name="mode" checked={mode === "target"} onChange={() => setMode("target")} /> How much do I add?</label>
-            <label className="flex items-center gap-2"><input type="radio" name="mode" checked={mode === "added"} onChange={() => setMode("added")} /> What did my mL make?</label>
+            <label className="flex items-center gap-2"><input type="radio" value="target" {...register("mode")} /> How much do I add?</label>
+            <label className="flex items-center gap-2"><input type="radio" value="added" {...register("mode")} /> What did my mL make?</label>
           </div>
-          {mode === "target" ? (
+          {values.mode !== "added" ? (
             <div className="grid gap-1">
               <label htmlFor={`${id}-target`} className="font-bold">Target concentration ({agent.unit})</label>
-              <input {...field("target")} inputMode="decimal" className={input} value={target} onChange={(e) => setTarget(e.target.value)} />
+              <input {...register("target")} {...field("target")} inputMode="decimal" className={input} />
               {err("target")}
             </div>
           ) : (
             <div className="grid gap-1">
               <label htmlFor={`${id}-addedMl`} className="font-bold">Millilitres of stock added</label>
-              <input {...field("addedMl")} inputMode="decimal" className={input} value={added} onChange={(e) => setAdded(e.target.value)} />
+              <input {...register("addedMl")} {...field("addedMl")} inputMode="decimal" className={input} />
               {err("addedMl")}
             </div>
           )}
           <label htmlFor={`${id}-fractionChoice`} className="font-bold">First dose</label>
-          <select id={`${id}-fractionChoice`} className={input} value={fractionChoice} onChange={(e) => setFractionChoice(e.target.value)}>
+          <select {...register("fractionChoice")} id={`${id}-fractionChoice`} className={input}>
             {fractions.map((f) => (
               <option key={f.value} value={f.value}>{f.label}</option>
             ))}
           </select>
-          {fractionChoice === "custom" ? (
+          {values.fractionChoice === "custom" ? (
             <div className="grid gap-1">
               <label htmlFor={`${id}-fraction`} className="font-bold">Fraction of the full dose (0 to 1)</label>
-              <input {...field("fraction")} inputMode="decimal" className={input} value={customFraction} onChange={(e) => setCustomFraction(e.target.value)} />
+              <input {...register("fraction")} {...field("fraction")} inputMode="decimal" className={input} />
               {err("fraction")}
             </div>
           ) : null}
+          <button type="submit" className="justify-self-start rounded-md border border-peat-500 px-4 py-2 font-bold">Check my figures</button>
         </fieldset>
       </form>
 
-      <section aria-labelledby={`${id}-result`} className="grid content-start gap-4">
+      <section aria-labelledby={`${id}-result`} className="grid min-w-0 content-start gap-4">
         <h2 id={`${id}-result`} className="text-2xl font-bold text-peat-900">Your dose</h2>
+        {plan && warnings.length ? (
+          <div role="alert" className="grid gap-2 rounded-lg border-2 border-alarm-500 bg-alarm-100 p-4 text-alarm-700" data-testid="dose-warnings">
+            <p className="text-lg font-bold">Stop and read before you dose</p>
+            <ul className="list-disc space-y-1 pl-5">
+              {warnings.map((w) => (
+                <li key={w.code} data-code={w.code}>{w.message}</li>
+              ))}
+            </ul>
+            <label className="flex items-start gap-2 font-bold no-print">
+              <input type="checkbox" className="mt-1" checked={cleared} onChange={(e) => setAcknowledged(e.target.checked ? warningKey : null)} />
+              I have read these warnings and will check the dose against my own fish and tank.
+            </label>
+          </div>
+        ) : null}
         <div aria-live="polite" data-testid="planner-result">
-          {plan ? <Result plan={plan} agent={agent} /> : <p className="text-peat-700">Fill in the steps on the left; the result appears here as you type.</p>}
+          {plan && cleared ? (
+            <Result plan={plan} agent={agent} />
+          ) : plan ? (
+            <p className="text-peat-700">Tick the box above to see the dose and the plan.</p>
+          ) : problem ? (
+            <p className="font-bold text-alarm-700">{problem}</p>
+          ) : (
+            <p className="text-peat-700">Fill in the steps; the result appears here as you type.</p>
+          )}
         </div>
-        {plan ? <Checklist plan={plan} agent={agent} doses={doses} setDoses={setDoses} start={start} setStart={setStart} /> : null}
-        {plan && volumeMode === "volume" ? (
+        {plan && cleared ? <Checklist plan={plan} agent={agent} items={items} doses={doses} setDoses={setDoses} start={start} setStart={setStart} icsHref={icsHref} warnings={warnings} /> : null}
+        {plan && cleared && values.volumeMode !== "dimensions" ? (
           <a
             className="justify-self-start rounded-md border border-peat-500 px-4 py-2 font-bold no-underline no-print"
             href={`/reports/new?${new URLSearchParams({
-              course: "1", agentSlug: agent.slug, stockPercent: String(stock ? stock.percent : customPercent), stockBasis: stock ? stock.basis : customBasis,
-              volume, volumeUnit, amountMl: String((plan.firstDose ?? plan).measured.ml || ""), ...(agent.redoseHours ? { intervalHours: String(agent.redoseHours) } : {}),
+              course: "1", agentSlug: agent.slug, ...(stock ? { stockFormId: stock.id } : {}), stockPercent: String(stock ? stock.percent : getValues("stockPercent")), stockBasis: stock ? stock.basis : values.basis,
+              volume: values.volume, volumeUnit: values.volumeUnit, amountMl: String((plan.firstDose ?? plan).measured.ml || ""), ...(agent.redoseHours ? { intervalHours: String(agent.redoseHours) } : {}),
             })}`}
           >
             Start a course log with this dose
@@ -310,6 +492,40 @@ export function Planner({ agents }: { agents: PlannerAgent[] }) {
         ) : null}
       </section>
     </div>
+  );
+}
+
+function EvidencePanel({ evidence, failed, unit, agentName, suggested, onUse }: { evidence: GroupEvidence | null; failed: boolean; unit: string; agentName: string; suggested: ReturnType<typeof suggestFirstDose>; onUse: () => void }) {
+  if (failed) return <p className="rounded-md bg-alarm-100 p-3 text-sm font-bold text-alarm-700">The club&apos;s evidence could not be loaded: plan without it, start low and watch closely.</p>;
+  if (!evidence) return <p className="text-sm text-peat-700">Loading the club&apos;s evidence…</p>;
+  const d = evidence.toleratedDose;
+  const loud = evidence.lowestAdverseDose != null && d.median != null && evidence.lowestAdverseDose <= d.median;
+  return (
+    <section className="grid min-w-0 gap-2 rounded-lg border border-peat-300 bg-white p-4" aria-label="The club's evidence for these fish" data-testid="planner-evidence">
+      <h3 className="text-lg font-bold text-peat-900">What members reported: {evidence.group.name}, {agentName.toLowerCase()}</h3>
+      <p className="text-sm">Anecdotal: members&apos; own reports, checked for plausibility only. Not veterinary advice.</p>
+      {evidence.reports === 0 ? (
+        <p className="font-bold">No accepted reports for these fish yet. Use your own target, start well below the usual dose, try a few fish first and ask an aquatic vet.</p>
+      ) : (
+        <>
+          {evidence.sparse ? <p className="font-bold text-alarm-700">Only {evidence.reports} report{evidence.reports === 1 ? "" : "s"}: too few to lean on.</p> : null}
+          <dl className="grid grid-cols-[max-content_minmax(0,1fr)] gap-x-4 gap-y-1 text-sm">
+            <dt className="font-bold">Reports</dt><dd>{evidence.reports} from {evidence.members} member{evidence.members === 1 ? "" : "s"}, {evidence.fish} fish</dd>
+            <dt className="font-bold">Tolerated</dt><dd>{evidence.tolerated} of {evidence.reports} ({pct(evidence.toleratedShare.value)}; interval {pct(evidence.toleratedShare.low)}–{pct(evidence.toleratedShare.high)})</dd>
+            <dt className="font-bold">Usual dose</dt>
+            <dd>{d.median == null ? "none tolerated yet" : `${fmtSig(d.median)} ${unit} (median tolerated${d.medianInterval ? `; interval ${fmtSig(d.medianInterval.low)}–${fmtSig(d.medianInterval.high)}` : ""})`}</dd>
+            <dt className="font-bold">Went badly at</dt><dd className={loud ? "font-bold text-alarm-700" : undefined}>{evidence.lowestAdverseDose == null ? "no report" : `${fmtSig(evidence.lowestAdverseDose)} ${unit} (lowest)`}</dd>
+          </dl>
+          {loud ? <p className="rounded-md bg-alarm-100 p-2 font-bold text-alarm-700">A dose at or below the usual dose has already gone badly for these fish.</p> : null}
+          {suggested ? (
+            <div className="flex flex-wrap items-center gap-3">
+              <p className="text-sm">Suggested first dose: <strong>{fmtSig(suggested.concentration)} {unit}</strong>{suggested.limitedBy === "median" ? ` (${fmt(suggested.fraction * 100, 0)} % of the usual dose)` : suggested.limitedBy === "lowest_adverse" ? " (held below the lowest dose that went badly)" : " (held at the fitted curve's lower limit)"}.</p>
+              <button type="button" onClick={onUse} className="rounded-md border border-peat-500 px-3 py-1 font-bold">Plan from this</button>
+            </div>
+          ) : null}
+        </>
+      )}
+    </section>
   );
 }
 
@@ -342,6 +558,12 @@ function Result({ plan, agent }: { plan: Plan; agent: PlannerAgent }) {
         <dl className="mt-3 grid grid-cols-[max-content_1fr] gap-x-4 text-sm">
           <dt className="font-bold">Water</dt><dd data-testid="volume-l">{fmtSig(plan.volumeL)} L</dd>
           <dt className="font-bold">Stock</dt><dd>{fmtSig(plan.stockMgPerMl)} mg of active per mL</dd>
+          {u === "g/L" ? (
+            <>
+              <dt className="font-bold">Or dry salt</dt>
+              <dd data-testid="dry-grams">{fmtSig(plan.activeGrams)} g, dissolved in tank water before adding{plan.firstDose && plan.firstDose.fraction < 1 ? ` (first dose ${fmtSig(plan.activeGrams * plan.firstDose.fraction)} g)` : ""}</dd>
+            </>
+          ) : null}
         </dl>
       </div>
       {full.ml === 0 ? (
@@ -359,13 +581,22 @@ function Result({ plan, agent }: { plan: Plan; agent: PlannerAgent }) {
   );
 }
 
-function Checklist({ plan, agent, doses, setDoses, start, setStart }: { plan: Plan; agent: PlannerAgent; doses: string; setDoses: (s: string) => void; start: string; setStart: (s: string) => void }) {
+interface ChecklistProps {
+  plan: Plan;
+  agent: PlannerAgent;
+  items: CourseItem[];
+  doses: string;
+  setDoses: (s: string) => void;
+  start: string;
+  setStart: (s: string) => void;
+  icsHref: string | null;
+  warnings: DoseWarning[];
+}
+
+function Checklist({ plan, agent, items, doses, setDoses, start, setStart, icsHref, warnings }: ChecklistProps) {
   const id = useId();
-  const n = Math.min(10, Math.max(1, Math.floor(Number(doses) || 1)));
-  const startDate = start ? new Date(start) : null;
-  const items = startDate && !Number.isNaN(startDate.getTime()) ? redoseChecklist(startDate, n, agent.redoseHours, agent.watchDays) : [];
   return (
-    <section className="grid gap-3 rounded-lg border border-peat-100 bg-white p-4" aria-labelledby={`${id}-plan`}>
+    <section className="grid min-w-0 gap-3 rounded-lg border border-peat-100 bg-white p-4" aria-labelledby={`${id}-plan`}>
       <h3 id={`${id}-plan`} className="text-xl font-bold text-peat-900">Dosing and watching plan</h3>
       <p className="text-sm">
         {agent.redoseHours
@@ -391,14 +622,22 @@ function Checklist({ plan, agent, doses, setDoses, start, setStart }: { plan: Pl
             <input type="checkbox" id={`${id}-c${i}`} className="mt-1" />
             <label htmlFor={`${id}-c${i}`}>
               <strong>{item.at.toLocaleString("en-GB", { weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" })}</strong> — {item.label}
-              {item.kind === "dose" ? `: ${i === 0 && plan.firstDose && plan.firstDose.fraction < 1 ? `${fmt(plan.firstDose.measured.ml)} mL (first, reduced)` : `${fmt(plan.measured.ml)} mL`}` : ""}
+              {item.kind === "dose" ? `: ${fmt(item.doseMl!)} mL, ${fmtSig(item.concentration!)} ${agent.unit}${item.reduced ? " (first, reduced)" : ""}` : ""}
             </label>
           </li>
         ))}
       </ol>
-      <button type="button" onClick={() => window.print()} className="justify-self-start rounded-md border border-peat-500 px-4 py-2 font-bold no-print">
-        Print this plan
-      </button>
+      {warnings.length ? <p className="text-sm font-bold text-alarm-700">This plan carries {warnings.length} warning{warnings.length === 1 ? "" : "s"} (above); they are printed and written into the calendar file too.</p> : null}
+      <div className="flex flex-wrap gap-3 no-print">
+        <button type="button" onClick={() => window.print()} className="rounded-md border border-peat-500 px-4 py-2 font-bold">
+          Print this plan
+        </button>
+        {icsHref ? (
+          <a href={icsHref} download="dose-plan.ics" className="rounded-md border border-peat-500 px-4 py-2 font-bold no-underline">
+            Add to my calendar (.ics)
+          </a>
+        ) : null}
+      </div>
     </section>
   );
 }

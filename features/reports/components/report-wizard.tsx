@@ -2,14 +2,17 @@
 
 import { useRouter } from "next/navigation";
 import { useId, useMemo, useState, type ReactNode } from "react";
-import { planDose, volumeUnitLabels, volumeUnits } from "@/features/dosing";
+import { doseWarnings, planDose, readStrength, volumeUnitLabels, volumeUnits } from "@/features/dosing";
 import { ApiError, fetchJson } from "@/features/shared/fetch-json";
 import { conditionOutcomes, distressLevels, lossCauses, reportDraftSchema, settings, sizeClasses } from "../schemas";
 
 export interface WizardCatalogue {
   species: { id: string; scientificName: string; commonName: string; groupSlug: string }[];
   conditions: { slug: string; name: string }[];
-  agents: { slug: string; name: string; unit: "mg/L" | "g/L"; redoseHours: number | null; stockForms: { id: string; label: string; percent: number; basis: "w/v" | "w/w"; densityGPerMl: number | null; activeFraction: number }[] }[];
+  agents: {
+    slug: string; name: string; unit: "mg/L" | "g/L"; redoseHours: number | null; plausibleCeiling?: number;
+    stockForms: { id: string; label: string; percent: number; basis: "w/v" | "w/w"; densityGPerMl: number | null; activeFraction: number; compound?: string | null }[];
+  }[];
 }
 
 export interface WizardReport {
@@ -22,7 +25,7 @@ export interface WizardReport {
   conditionSlug: string | null;
   startedOn: string | null;
   water: { volume: number | null; volumeUnit: string | null; temperature: number | null; temperatureUnit: string | null; ph: number | null; setting: string | null };
-  treatment: { agentSlug: string | null; stockPercent: number | null; stockBasis: string | null; stockDensityGPerMl: number | null; amountMl: number | null; statedConcentration: number | null; doses: number | null; intervalHours: number | null; otherTreatments: string | null };
+  treatment: { agentSlug: string | null; stockFormId?: string | null; stockPercent: number | null; stockBasis: string | null; stockDensityGPerMl: number | null; amountMl: number | null; statedConcentration: number | null; doses: number | null; intervalHours: number | null; otherTreatments: string | null };
   outcome: { fishLost: number | null; lossCause: string | null; distress: string | null; condition: string | null; observedDaysAfter: number | null; notes: string | null };
   showName: boolean;
   courseOpen: boolean;
@@ -40,14 +43,14 @@ const labels: Record<string, string> = {
 
 type Form = Record<string, string> & { [k: string]: string };
 
-export type WizardPrefill = Partial<Record<"agentSlug" | "stockPercent" | "stockBasis" | "volume" | "volumeUnit" | "amountMl" | "intervalHours", string>>;
+export type WizardPrefill = Partial<Record<"agentSlug" | "stockFormId" | "stockPercent" | "stockBasis" | "volume" | "volumeUnit" | "amountMl" | "intervalHours", string>>;
 
 function initialForm(r: WizardReport | null, defaults: WizardPrefill): Form {
   const form: Form = {
     speciesId: r ? (r.speciesId ?? (r.speciesOther ? "__other" : "")) : "",
     speciesOther: s(r?.speciesOther), fishCount: s(r?.fishCount), sizeClass: s(r?.sizeClass), conditionSlug: s(r?.conditionSlug), startedOn: s(r?.startedOn),
     volume: s(r?.water.volume), volumeUnit: r?.water.volumeUnit ?? "L", temperature: s(r?.water.temperature), temperatureUnit: r?.water.temperatureUnit ?? "C", ph: s(r?.water.ph), setting: s(r?.water.setting),
-    agentSlug: r?.treatment.agentSlug ?? defaults.agentSlug ?? "hydrogen-peroxide", stockPercent: s(r?.treatment.stockPercent), stockBasis: r?.treatment.stockBasis ?? "w/v", stockDensityGPerMl: s(r?.treatment.stockDensityGPerMl),
+    agentSlug: r?.treatment.agentSlug ?? defaults.agentSlug ?? "hydrogen-peroxide", stockFormId: s(r?.treatment.stockFormId), stockPercent: s(r?.treatment.stockPercent), stockBasis: r?.treatment.stockBasis ?? "w/v", stockDensityGPerMl: s(r?.treatment.stockDensityGPerMl),
     amountMl: s(r?.treatment.amountMl), statedConcentration: s(r?.treatment.statedConcentration), doses: s(r?.treatment.doses ?? 1), intervalHours: s(r?.treatment.intervalHours), otherTreatments: s(r?.treatment.otherTreatments),
     fishLost: s(r?.outcome.fishLost ?? (r ? null : 0)), lossCause: s(r?.outcome.lossCause), distress: s(r?.outcome.distress), condition: s(r?.outcome.condition), observedDaysAfter: s(r?.outcome.observedDaysAfter), notes: s(r?.outcome.notes),
     showName: r?.showName ? "yes" : "no",
@@ -73,7 +76,7 @@ function stepPatch(step: number, f: Form): Record<string, unknown> {
   if (step === 2) {
     return {
       treatment: {
-        agentSlug: str(f.agentSlug), stockPercent: num(f.stockPercent), stockBasis: f.stockBasis, stockDensityGPerMl: num(f.stockDensityGPerMl),
+        agentSlug: str(f.agentSlug), stockFormId: str(f.stockFormId) ?? null, stockPercent: num(f.stockPercent), stockBasis: f.stockBasis, stockDensityGPerMl: num(f.stockDensityGPerMl),
         amountMl: num(f.amountMl), statedConcentration: num(f.statedConcentration), doses: num(f.doses), intervalHours: num(f.intervalHours), otherTreatments: str(f.otherTreatments),
       },
     };
@@ -123,17 +126,20 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
   const preview = useMemo(() => {
     try {
       if (!agent || !num(form.amountMl) || !num(form.stockPercent) || !num(form.volume)) return null;
-      const preset = agent.stockForms.find((p) => p.percent === num(form.stockPercent) && p.basis === form.stockBasis);
+      // The same reading as the server's: a stock form counts only when named, never matched by its percentage.
+      const preset = agent.stockForms.find((p) => p.id === form.stockFormId);
+      const reading = readStrength({ percent: num(form.stockPercent), basis: form.stockBasis as "w/v" | "w/w", densityGPerMl: num(form.stockDensityGPerMl), preset: preset ? { ...preset, compound: preset.compound ?? null } : null });
       return planDose({
         agentSlug: agent.slug, unit: agent.unit,
-        stock: { percent: num(form.stockPercent)!, basis: form.stockBasis as "w/v" | "w/w", densityGPerMl: num(form.stockDensityGPerMl) ?? preset?.densityGPerMl ?? null, activeFraction: preset?.activeFraction ?? 1 },
+        stock: { percent: reading.percent, basis: reading.basis, densityGPerMl: reading.densityGPerMl, activeFraction: reading.activeFraction },
         water: { kind: "volume", volume: num(form.volume)!, unit: form.volumeUnit as (typeof volumeUnits)[number] },
         addedMl: num(form.amountMl),
       });
     } catch {
       return null;
     }
-  }, [agent, form.amountMl, form.stockPercent, form.stockBasis, form.stockDensityGPerMl, form.volume, form.volumeUnit]);
+  }, [agent, form.stockFormId, form.amountMl, form.stockPercent, form.stockBasis, form.stockDensityGPerMl, form.volume, form.volumeUnit]);
+  const previewWarnings = preview && agent ? doseWarnings({ unit: agent.unit, ceiling: agent.plausibleCeiling ?? null, doses: [{ label: "that dose", concentration: preview.concentration }] }) : [];
 
   const matches = useMemo(() => {
     const q = speciesSearch.trim().toLowerCase();
@@ -279,6 +285,18 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
             <Fld fid={id} errs={errors} name="agentSlug" label="Treatment">
               <select {...a("agentSlug")}>{catalogue.agents.map((x) => <option key={x.slug} value={x.slug}>{x.name}</option>)}</select>
             </Fld>
+            <Fld fid={id} errs={errors} name="stockFormId" label="Stock bottle" hint="A listed bottle says what its percentage is of (for example a compound, of which only part is the active); a typed strength counts the active itself.">
+              <select
+                {...a("stockFormId")}
+                onChange={(e) => {
+                  const p = agent?.stockForms.find((x) => x.id === e.target.value);
+                  setForm((f) => ({ ...f, stockFormId: e.target.value, ...(p ? { stockPercent: String(p.percent), stockBasis: p.basis, stockDensityGPerMl: "" } : {}) }));
+                }}
+              >
+                <option value="">Another strength (type it below)</option>
+                {agent?.stockForms.map((p) => <option key={p.id} value={p.id}>{p.label}</option>)}
+              </select>
+            </Fld>
             <Fld fid={id} errs={errors} name="stockPercent" label="Stock strength (%)" hint={agent ? `Common strengths: ${agent.stockForms.map((p) => `${p.percent} % ${p.basis}`).join(", ")}.` : undefined}>
               <input {...a("stockPercent")} inputMode="decimal" />
             </Fld>
@@ -293,6 +311,9 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
             {preview ? (
               <p className="rounded-md bg-peat-50 p-3" data-testid="computed-dose">That dose makes <strong>{preview.concentration.toFixed(preview.concentration >= 10 ? 1 : 2)} {agent?.unit}</strong> in your water (computed from amount, strength and volume).</p>
             ) : null}
+            {previewWarnings.map((w) => (
+              <p key={w.code} role="alert" className="rounded-md bg-alarm-100 p-3 font-bold text-alarm-700">{w.message} If the figures are right, say so in the notes.</p>
+            ))}
             <Fld fid={id} errs={errors} name="otherTreatments" label="Other treatments at the same time (optional)"><input {...a("otherTreatments")} /></Fld>
           </>
         ) : null}

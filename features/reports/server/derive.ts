@@ -2,7 +2,18 @@ import "server-only";
 import { and, eq } from "drizzle-orm";
 import { schema, type Db } from "@/db/client";
 import { AppError, type FieldIssue } from "@/features/shared/errors";
-import { concentrationFromMl, relativeDisagreement, STATED_CONCENTRATION_TOLERANCE, stockMgPerMl, toCelsius, toLitres, type TemperatureUnit, type VolumeUnit } from "@/features/dosing";
+import {
+  concentrationFromMl,
+  DosingInputError,
+  readStrength,
+  relativeDisagreement,
+  STATED_CONCENTRATION_TOLERANCE,
+  toCelsius,
+  toLitres,
+  type StockBasis,
+  type TemperatureUnit,
+  type VolumeUnit,
+} from "@/features/dosing";
 import type { ReportColumns, ReportRow } from "./mapping";
 
 /** Checks that catalogue references exist; unknown ones are 422 naming the field. */
@@ -38,34 +49,46 @@ export async function derive(db: Db, r: ReportRow): Promise<ReportColumns> {
     out.groupSlug = r.groupSlug; // a moderator maps "not listed" species; keep any mapping made
   }
   let unit = "mg/L";
-  let density = r.stockDensityGPerMl;
-  let active = 1;
+  out.concentration = null;
+  out.stockDensityGPerMl = r.stockDensityGPerMl;
+  out.stockActiveFraction = 1;
   if (r.agentSlug) {
     const [a] = await db.select({ unit: schema.agents.unit }).from(schema.agents).where(eq(schema.agents.slug, r.agentSlug));
     unit = a?.unit ?? "mg/L";
-    if (r.stockPercent != null) {
-      const basis = (r.stockBasis ?? "w/v") as "w/v" | "w/w";
-      const [preset] = await db
-        .select()
-        .from(schema.stockForms)
-        .where(and(eq(schema.stockForms.agentSlug, r.agentSlug), eq(schema.stockForms.percent, r.stockPercent), eq(schema.stockForms.basis, basis)));
-      density ??= preset?.densityGPerMl ?? null;
-      active = preset?.activeFraction ?? 1;
-    }
   }
-  out.stockDensityGPerMl = density;
-  out.stockActiveFraction = active;
-  out.concentration = null;
-  if (r.amountMl != null && r.stockPercent != null && out.volumeL) {
-    const basis = (r.stockBasis ?? "w/v") as "w/v" | "w/w";
-    if (basis === "w/w" && density == null) {
+  // One reading of the strength (features/dosing readStrength): a stock form applies only when the report names it.
+  let preset = null;
+  if (r.stockFormId) {
+    [preset] = await db.select().from(schema.stockForms).where(and(eq(schema.stockForms.id, r.stockFormId), eq(schema.stockForms.agentSlug, r.agentSlug ?? "")));
+    if (!preset) {
       throw new AppError("invalid", "Some fields need fixing; see issues.", [
-        { path: "treatment.stockDensityGPerMl", message: "A % w/w strength that is not one of the agent's presets needs the solution's density in g/mL." },
+        { path: "treatment.stockFormId", message: `No stock form "${r.stockFormId}" for this agent; see /api/catalogue.` },
       ]);
     }
-    const mgPerMl = stockMgPerMl({ percent: r.stockPercent, basis, densityGPerMl: density, activeFraction: active });
-    out.concentration = concentrationFromMl(r.amountMl, out.volumeL, mgPerMl, unit === "g/L" ? "g/L" : "mg/L");
-  } else if (r.statedConcentration != null) {
+  }
+  if (r.stockPercent != null || preset) {
+    const basis = (r.stockBasis ?? preset?.basis ?? "w/v") as StockBasis;
+    const needsDensity = basis === "w/w" && r.stockDensityGPerMl == null && preset?.densityGPerMl == null;
+    if (needsDensity && r.amountMl != null && out.volumeL) {
+      throw new AppError("invalid", "Some fields need fixing; see issues.", [
+        { path: "treatment.stockDensityGPerMl", message: "A % w/w strength that is not one of the agent's stock forms needs the solution's density in g/mL." },
+      ]);
+    }
+    if (!needsDensity) {
+      try {
+        const stock = readStrength({ percent: r.stockPercent ?? undefined, basis, densityGPerMl: r.stockDensityGPerMl, preset });
+        out.stockPercent = stock.percent;
+        out.stockDensityGPerMl = stock.densityGPerMl;
+        out.stockActiveFraction = stock.activeFraction;
+        if (r.amountMl != null && out.volumeL) out.concentration = concentrationFromMl(r.amountMl, out.volumeL, stock.mgPerMl, unit === "g/L" ? "g/L" : "mg/L");
+      } catch (err) {
+        if (!(err instanceof DosingInputError)) throw err;
+        const path = err.field === "basis" ? "treatment.stockBasis" : err.field === "densityGPerMl" ? "treatment.stockDensityGPerMl" : "treatment.stockPercent";
+        throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path, message: err.message }]);
+      }
+    }
+  }
+  if (out.concentration === null && r.statedConcentration != null) {
     out.concentration = r.statedConcentration;
   }
   return out;

@@ -13,7 +13,7 @@ const fields: [keyof ReportRow, Section | null, string][] = [
   ["conditionSlug", null, "conditionSlug"], ["startedOn", null, "startedOn"], ["showName", null, "showName"],
   ["waterVolume", "water", "volume"], ["waterVolumeUnit", "water", "volumeUnit"], ["temperature", "water", "temperature"],
   ["temperatureUnit", "water", "temperatureUnit"], ["ph", "water", "ph"], ["setting", "water", "setting"],
-  ["agentSlug", "treatment", "agentSlug"], ["stockPercent", "treatment", "stockPercent"], ["stockBasis", "treatment", "stockBasis"],
+  ["agentSlug", "treatment", "agentSlug"], ["stockFormId", "treatment", "stockFormId"], ["stockPercent", "treatment", "stockPercent"], ["stockBasis", "treatment", "stockBasis"],
   ["stockDensityGPerMl", "treatment", "stockDensityGPerMl"], ["amountMl", "treatment", "amountMl"], ["statedConcentration", "treatment", "statedConcentration"],
   ["doses", "treatment", "doses"], ["intervalHours", "treatment", "intervalHours"], ["otherTreatments", "treatment", "otherTreatments"],
   ["fishLost", "outcome", "fishLost"], ["lossCause", "outcome", "lossCause"], ["distress", "outcome", "distress"],

@@ -12,6 +12,8 @@ export interface Operation {
   response: z.ZodType;
   status?: number;
   errors?: number[];
+  /** The success body's media type when not JSON (e.g. text/calendar). */
+  contentType?: string;
 }
 
 const errorSchema = z.object({
@@ -39,7 +41,7 @@ export function buildOpenApi(ops: Operation[], info: { title: string; version: s
       : [];
     const pathParams = [...op.path.matchAll(/\{(\w+)\}/g)].map((m) => ({ name: m[1], in: "path", required: true, schema: { type: "string" } }));
     const responses: Record<string, unknown> = {
-      [String(op.status ?? 200)]: { description: "Success", content: { "application/json": { schema: js(op.response, "output") } } },
+      [String(op.status ?? 200)]: { description: "Success", content: { [op.contentType ?? "application/json"]: { schema: js(op.response, "output") } } },
     };
     for (const code of op.errors ?? [422]) {
       responses[String(code)] = { description: "Error envelope", content: { "application/json": { schema: { $ref: "#/components/schemas/Error" } } } };

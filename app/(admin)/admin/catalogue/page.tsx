@@ -47,6 +47,7 @@ export default async function CataloguePage({ searchParams }: { searchParams: Pr
         { name: "id", label: "Id", type: "text", key: true }, { name: "agentSlug", label: "Agent", type: "select", options: agentOptions }, { name: "label", label: "Label", type: "text" },
         { name: "percent", label: "Strength (%)", type: "number" }, { name: "basis", label: "Basis", type: "select", options: [{ value: "w/v", label: "w/v" }, { value: "w/w", label: "w/w" }] },
         { name: "densityGPerMl", label: "Density, g/mL (needed for w/w)", type: "nullable-number" }, { name: "activeFraction", label: "Active fraction (0–1)", type: "number" },
+        { name: "compound", label: "Percentage is of this compound (blank: the agent's own measure)", type: "nullable-text" },
         { name: "hidden", label: "Hidden", type: "checkbox" },
       ],
       columns: ["id", "agentSlug", "label", "percent", "basis"],

@@ -5,7 +5,7 @@ import { wizardCatalogue } from "../_wizard-catalogue";
 
 export const metadata = { title: "Report a treatment" };
 
-const prefillKeys = ["agentSlug", "stockPercent", "stockBasis", "volume", "volumeUnit", "amountMl", "intervalHours"] as const;
+const prefillKeys = ["agentSlug", "stockFormId", "stockPercent", "stockBasis", "volume", "volumeUnit", "amountMl", "intervalHours"] as const;
 
 export default async function NewReportPage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
   const sp = await searchParams;

@@ -24,7 +24,7 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
   const d = s.toleratedDose;
   const usual = d.median;
   const warn = usual != null && s.lowestAdverseDose != null && s.lowestAdverseDose <= usual;
-  const plan = usual != null ? `/planner?${new URLSearchParams({ agent: s.agent, target: String(Number(usual.toPrecision(3))), fraction: "0.5", groupName: s.group.name })}` : null;
+  const plan = usual != null ? `/planner?${new URLSearchParams({ agent: s.agent, target: String(Number(usual.toPrecision(3))), fraction: "0.5", group: s.group.slug, groupName: s.group.name })}` : null;
   const dr = isFitted(s.doseResponse) ? s.doseResponse : null;
   // The curve read at the usual (median tolerated) dose, or at the benchmark dose where there is no median.
   const readAt = dr ? (usual ?? dr.bmd) : null;

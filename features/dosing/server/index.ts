@@ -1,0 +1,1 @@
+export { planCalendar, type CalendarInput } from "./calendar";
