@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { check, integer, jsonb, pgTable, serial, text, timestamp } from "drizzle-orm/pg-core";
+import { boolean, check, integer, jsonb, pgTable, serial, text, timestamp } from "drizzle-orm/pg-core";
 import { users } from "./auth";
 
 /** One row (id = 1): the club's own settings, edited by admins. */
@@ -12,6 +12,10 @@ export const clubSettings = pgTable(
     minReports: integer().notNull().default(5),
     defaultVolumeUnit: text().notNull().default("L"),
     defaultTemperatureUnit: text().notNull().default("C"),
+    // The nightly backup into DATA_DIR/backups; off until an admin turns it on.
+    nightlyBackup: boolean().notNull().default(false),
+    // When the last nightly backup was claimed: kept here, not in memory, so a restart never runs one twice.
+    lastNightlyBackupAt: timestamp({ withTimezone: true }),
     updatedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [

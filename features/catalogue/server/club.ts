@@ -1,5 +1,8 @@
 import { eq } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";
+import { AppError } from "@/features/shared/errors";
+import type { Actor } from "@/features/shared/roles";
+import type { ClubSettingsPatch } from "../settings-schema";
 
 export interface ClubSettings {
   name: string;
@@ -7,6 +10,8 @@ export interface ClubSettings {
   minReports: number;
   defaultVolumeUnit: string;
   defaultTemperatureUnit: string;
+  nightlyBackup: boolean;
+  lastNightlyBackupAt: Date | null;
 }
 
 export async function getClubSettings(): Promise<ClubSettings> {
@@ -18,11 +23,13 @@ export async function getClubSettings(): Promise<ClubSettings> {
     minReports: row?.minReports ?? 5,
     defaultVolumeUnit: row?.defaultVolumeUnit ?? "L",
     defaultTemperatureUnit: row?.defaultTemperatureUnit ?? "C",
+    nightlyBackup: row?.nightlyBackup ?? false,
+    lastNightlyBackupAt: row?.lastNightlyBackupAt ?? null,
   };
 }
 
 /** An admin changes the club's settings; the change is recorded with before and after. */
-export async function updateClubSettings(actorId: string, input: import("../settings-schema").ClubSettingsInput): Promise<ClubSettings> {
+export async function updateClubSettings(actorId: string, input: ClubSettingsPatch): Promise<ClubSettings> {
   const db = await getDb();
   const before = await getClubSettings();
   await db.transaction(async (tx) => {
@@ -31,6 +38,13 @@ export async function updateClubSettings(actorId: string, input: import("../sett
     await tx.insert(schema.catalogueChanges).values({ actorId, entity: "club_settings", entityKey: "1", action: "update", before, after: input });
   });
   return getClubSettings();
+}
+
+/** PATCH /api/admin/settings: admins only; the settings after the change. */
+export async function changeClubSettings(actor: Actor | null, input: ClubSettingsPatch): Promise<ClubSettings> {
+  if (!actor) throw new AppError("unauthenticated", "Sign in to change the club's settings.");
+  if (actor.role !== "admin") throw new AppError("forbidden", "Only club officers (admins) may change the club's settings.");
+  return updateClubSettings(actor.id, input);
 }
 
 /** Whether this club holds invented demo accounts (the demo seed), so every page can say so. */
