@@ -114,8 +114,10 @@ async function stage(): Promise<Staged> {
   try {
     const uploadsRoot = path.join(dataDir(), "uploads");
     const dbFile = kind === "pglite" ? archivePaths.pglite : archivePaths.postgres;
+    let takenAt = new Date();
     const counts = await db.transaction(
       async (tx) => {
+        takenAt = new Date();
         const snapshot = kind === "postgres" ? String(((await tx.execute(sql`select pg_export_snapshot() as s`)) as unknown as { rows: { s: string }[] }).rows[0]!.s) : null;
         const counts = await countClub(tx as unknown as Db);
         const photos = await tx.select({ full: schema.photos.fullKey, thumb: schema.photos.thumbKey }).from(schema.photos);
@@ -157,7 +159,7 @@ async function stage(): Promise<Staged> {
       format: BACKUP_FORMAT,
       formatVersion: BACKUP_FORMAT_VERSION,
       appVersion: appVersion(),
-      createdAt: new Date().toISOString(),
+      createdAt: takenAt.toISOString(),
       database: { kind, file: dbFile },
       counts,
       authSecret,
@@ -170,10 +172,18 @@ async function stage(): Promise<Staged> {
   }
 }
 
+/** A connection URL for the PostgreSQL tools with its password moved to PGPASSWORD, out of the process list. */
+export function pgToolConnection(url: string): { dbname: string; env: NodeJS.ProcessEnv } {
+  const u = new URL(url);
+  const password = decodeURIComponent(u.password);
+  u.password = "";
+  return { dbname: u.toString(), env: password ? { ...process.env, PGPASSWORD: password } : process.env };
+}
+
 async function pgDump(snapshot: string, file: string): Promise<void> {
-  const url = getEnv().DATABASE_URL!;
+  const { dbname, env } = pgToolConnection(getEnv().DATABASE_URL!);
   try {
-    await run("pg_dump", ["--format=custom", `--snapshot=${snapshot}`, `--file=${file}`, `--dbname=${url}`], { maxBuffer: 16 * 1024 * 1024 });
+    await run("pg_dump", ["--format=custom", `--snapshot=${snapshot}`, `--file=${file}`, `--dbname=${dbname}`], { env, maxBuffer: 16 * 1024 * 1024 });
   } catch (err) {
     const e = err as NodeJS.ErrnoException & { stderr?: string };
     if (e.code === "ENOENT") throw new AppError("internal", "pg_dump was not found on the server's PATH; install the PostgreSQL client tools (the same major version as the server) to take backups.");

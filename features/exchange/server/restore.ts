@@ -14,7 +14,7 @@ import pg from "pg";
 import tar from "tar-stream";
 import { schema, type Db } from "@/db/client";
 import { acquireLock, releaseLock } from "@/db/lock";
-import { archivePaths, BACKUP_FORMAT, BACKUP_FORMAT_VERSION, countClub, secretFingerprint, type BackupCounts, type BackupManifest } from "./backup";
+import { archivePaths, BACKUP_FORMAT, BACKUP_FORMAT_VERSION, countClub, pgToolConnection, secretFingerprint, type BackupCounts, type BackupManifest } from "./backup";
 
 const run = promisify(execFile);
 
@@ -142,7 +142,8 @@ async function assertEmptyDatabase(url: string): Promise<void> {
 
 async function pgRestore(url: string, file: string): Promise<void> {
   try {
-    await run("pg_restore", ["--no-owner", "--no-privileges", "--exit-on-error", `--dbname=${url}`, file], { maxBuffer: 16 * 1024 * 1024 });
+    const { dbname, env } = pgToolConnection(url);
+    await run("pg_restore", ["--no-owner", "--no-privileges", "--exit-on-error", `--dbname=${dbname}`, file], { env, maxBuffer: 16 * 1024 * 1024 });
   } catch (err) {
     const e = err as NodeJS.ErrnoException & { stderr?: string };
     if (e.code === "ENOENT") throw new RestoreRefusedError("pg_restore was not found on PATH; install the PostgreSQL client tools (the server's major version). Nothing was restored.");
