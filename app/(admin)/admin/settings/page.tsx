@@ -1,5 +1,5 @@
 import { clubSettingsSchema } from "@/features/catalogue";
-import { getClubSettings, updateClubSettings } from "@/features/catalogue/server";
+import { changeClubSettings, getClubSettings } from "@/features/catalogue/server";
 import { SettingsForm, type SettingsState } from "@/features/catalogue/components/settings-form";
 import { recomputeAll } from "@/features/evidence/server";
 import { getPageActor } from "@/features/members/server";
@@ -18,7 +18,7 @@ async function saveSettings(prev: SettingsState, form: FormData): Promise<Settin
     const fieldErrors = Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message]));
     return { ...prev, ok: false, message: "Some settings need fixing; nothing was changed.", fieldErrors };
   }
-  const saved = await updateClubSettings(actor.id, parsed.data);
+  const saved = await changeClubSettings(actor, parsed.data);
   const n = await recomputeAll();
   return { ok: true, message: `Saved. ${n} summaries were recomputed with the new settings.`, fieldErrors: {}, values: saved };
 }
