@@ -7,6 +7,13 @@ const featureOrder = ["shared", "dosing", "mail", "catalogue", "members", "repor
 
 const below = (name) => featureOrder.slice(0, featureOrder.indexOf(name));
 
+// The data layer is the only door: only features/*/server code (and db/ scripts, tests) touch the
+// database, so every read and write goes through a function that checks its caller.
+const dbOnlyInServer = {
+  group: ["@/db", "@/db/*", "**/db/client", "**/db/schema", "**/db/schema/*"],
+  message: "Only features/*/server, db/ and tests/ may import the database: call a feature's server function, which checks its caller.",
+};
+
 export default tseslint.config(
   { ignores: [".next/**", "node_modules/**", "drizzle/**", ".data/**", "next-env.d.ts", "tests/e2e/.artifacts/**"] },
   js.configs.recommended,
@@ -18,31 +25,48 @@ export default tseslint.config(
       "@typescript-eslint/no-explicit-any": "off",
     },
   },
-  ...featureOrder.map((name) => ({
-    files: [`features/${name}/**/*.{ts,tsx}`],
+  ...featureOrder.flatMap((name) => {
+    const patterns = [
+      { group: ["@/app/*", "@/tests/*"], message: "Features never import app/ or tests/." },
+      ...(name === "dosing"
+        ? [{ group: ["@/db/*", "node:*", "@/features/*"], message: "features/dosing is pure arithmetic: no I/O, no other feature." }]
+        : []),
+      ...featureOrder
+        .filter((other) => other !== name && !below(name).includes(other))
+        .map((other) => ({ group: [`@/features/${other}`, `@/features/${other}/**`], message: `features/${name} sits below features/${other} and may not import it.` })),
+      ...below(name)
+        .filter((other) => other !== "shared")
+        .map((other) => ({
+          regex: `^@/features/${other}/(?!index$|server$|server/index$|components/|auth-client$|starter-data$|api/)`,
+          message: `Import features/${other} through its public entry (index.ts or server/index.ts).`,
+        })),
+    ];
+    return [
+      { files: [`features/${name}/server/**/*.{ts,tsx}`], rules: { "no-restricted-imports": ["error", { patterns }] } },
+      {
+        files: [`features/${name}/**/*.{ts,tsx}`],
+        ignores: [`features/${name}/server/**`],
+        rules: { "no-restricted-imports": ["error", { patterns: [...patterns, dbOnlyInServer] }] },
+      },
+    ];
+  }),
+  {
+    files: ["app/**/*.{ts,tsx}", "*.{ts,tsx,mjs}"],
     rules: {
       "no-restricted-imports": [
         "error",
         {
-          patterns: [
-            { group: ["@/app/*", "@/tests/*"], message: "Features never import app/ or tests/." },
-            ...(name === "dosing"
-              ? [{ group: ["@/db/*", "node:*", "@/features/*"], message: "features/dosing is pure arithmetic: no I/O, no other feature." }]
-              : []),
-            ...featureOrder
-              .filter((other) => other !== name && !below(name).includes(other))
-              .map((other) => ({ group: [`@/features/${other}`, `@/features/${other}/**`], message: `features/${name} sits below features/${other} and may not import it.` })),
-            ...below(name)
-              .filter((other) => other !== "shared")
-              .map((other) => ({
-                regex: `^@/features/${other}/(?!index$|server$|server/index$|components/|auth-client$|starter-data$|api/)`,
-                message: `Import features/${other} through its public entry (index.ts or server/index.ts).`,
-              })),
+          patterns: [dbOnlyInServer],
+          // Unchecked helpers that features use after their own check; a page or handler would skip it.
+          paths: [
+            { name: "@/features/reports/server", importNames: ["getReportRowById", "getVisibleReportRow", "recordEvent", "derive", "computeFlags"], message: "Unchecked report helper: call getReportById, getReportHistory or another function that takes the caller." },
+            { name: "@/features/mail/server", importNames: ["sendMail"], message: "Mail goes out from the feature that has checked its caller." },
+            { name: "@/features/photos/server", importNames: ["photoStorage", "DiskStorage"], message: "Photos are read through getPhotoFile, which checks the caller." },
           ],
         },
       ],
     },
-  })),
+  },
   {
     // Client components never reach server code or the database.
     files: ["**/components/**/*.tsx", "**/*-client.ts"],

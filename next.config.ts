@@ -8,6 +8,8 @@ const nextConfig: NextConfig = {
   typedRoutes: false,
   // The app is served from this checkout; keep the build inside it.
   turbopack: { root: import.meta.dirname },
+  // forbidden() and unauthorized() from next/navigation: data functions refuse a caller, pages answer 403/401.
+  experimental: { authInterrupts: true },
 };
 
 export default nextConfig;

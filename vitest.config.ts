@@ -1,7 +1,8 @@
 import path from "node:path";
 import { defineConfig } from "vitest/config";
 
-const alias = { "@": path.resolve(import.meta.dirname) };
+// "server-only" throws outside a React server bundle; tests import server code directly.
+const alias = { "@": path.resolve(import.meta.dirname), "server-only": path.resolve(import.meta.dirname, "tests/support/server-only.ts") };
 
 export default defineConfig({
   resolve: { alias },

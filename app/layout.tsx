@@ -20,7 +20,7 @@ export default async function RootLayout({ children }: { children: ReactNode }) 
   // Every page reads the session and the club's name: render per request, never at build time.
   await connection();
   const [actor, club, demo] = await Promise.all([getPageActor(), getClubSettings(), hasDemoData()]);
-  const awaiting = canReview(actor) ? await countAwaitingReview() : null;
+  const awaiting = canReview(actor) ? await countAwaitingReview({ actor }) : null;
   return (
     <html lang="en" className={`${bodyFont.variable} ${displayFont.variable}`}>
       <body className="min-h-screen bg-paper font-sans text-ink antialiased">

@@ -1,6 +1,7 @@
 import path from "node:path";
 import { pathToFileURL } from "node:url";
-import { restoreBackup, RestoreRefusedError, type RestoreResult } from "@/features/exchange/server";
+// Straight from the module, not the feature's index: a script needs none of the request-time code behind it.
+import { restoreBackup, RestoreRefusedError, type RestoreResult } from "@/features/exchange/server/restore";
 import { dataDir, getEnv } from "@/features/shared/env";
 
 /** What a restore brought back, as the operator reads it. */

@@ -38,11 +38,11 @@ export function buildIfNeeded(): void {
   }
 }
 
-/** Starts `next start`, waits for /api/health, then calls onReady. Signals are passed on. */
+/** Starts the app's server (db/http-server.ts), waits for /api/health, then calls onReady. Signals are passed on. */
 export async function serve(onReady: (url: string) => void): Promise<void> {
   const env = getEnv();
   const port = env.PORT;
-  const child = spawn(process.execPath, [nextBin, "start", "-p", String(port)], {
+  const child = spawn(process.execPath, ["--import", "tsx", path.join(root, "db", "http-server.ts")], {
     stdio: ["ignore", "inherit", "inherit"],
     env: { ...process.env, NODE_ENV: "production", DATA_DIR: dataDir() },
   });

@@ -1,4 +1,4 @@
-import { boolean, index, pgTable, text, timestamp } from "drizzle-orm/pg-core";
+import { bigint, boolean, index, integer, pgTable, text, timestamp } from "drizzle-orm/pg-core";
 
 // better-auth's tables (core + admin plugin), named in the plural (adapter option usePlural).
 export const users = pgTable("users", {
@@ -68,3 +68,20 @@ export const verifications = pgTable(
   },
   (t) => [index("verifications_identifier_idx").on(t.identifier)],
 );
+
+// better-auth's request counters (rateLimit storage "database"): kept in the database so limits hold
+// across restarts and between processes.
+export const rateLimits = pgTable("rate_limits", {
+  id: text().primaryKey(),
+  key: text().notNull().unique(),
+  count: integer().notNull(),
+  lastRequest: bigint({ mode: "number" }).notNull(),
+});
+
+/** Password sign-in attempts per e-mail address (Tanklore's own per-account limit; any address, known or not). */
+export const signInLimits = pgTable("sign_in_limits", {
+  email: text().primaryKey(),
+  attempts: integer().notNull().default(0),
+  windowStartedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  lockedUntil: timestamp({ withTimezone: true }),
+});

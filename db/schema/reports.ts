@@ -196,3 +196,18 @@ export const evidenceSummaries = pgTable(
   },
   (t) => [primaryKey({ columns: [t.agentSlug, t.conditionSlug, t.groupSlug] })],
 );
+
+/**
+ * Group × agent pairs whose summaries a committed change made stale, written in the same transaction
+ * as the change; the evidence worker recomputes each pair and deletes its rows in one transaction.
+ */
+export const evidenceOutbox = pgTable(
+  "evidence_outbox",
+  {
+    id: serial().primaryKey(),
+    groupSlug: text().notNull(),
+    agentSlug: text().notNull(),
+    enqueuedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("evidence_outbox_pair_idx").on(t.groupSlug, t.agentSlug)],
+);

@@ -1,2 +1,3 @@
 export * from "./summary";
 export * from "./stats";
+export * from "./dose-response";

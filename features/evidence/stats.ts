@@ -71,7 +71,9 @@ export function wilson(k: number, n: number, level: number): Interval {
   const denom = 1 + z2 / n;
   const centre = (p + z2 / (2 * n)) / denom;
   const half = (z / denom) * Math.sqrt((p * (1 - p)) / n + z2 / (4 * n * n));
-  return { value: p, low: Math.max(0, centre - half), high: Math.min(1, centre + half) };
+  // At 0/n the lower bound is exactly 0 and at n/n the upper exactly 1 (centre ∓ half cancel in exact
+  // arithmetic); floating point leaves residues like 2.8e-17 or 0.9999999999999999, so set the edges.
+  return { value: p, low: k === 0 ? 0 : Math.max(0, centre - half), high: k === n ? 1 : Math.min(1, centre + half) };
 }
 
 /**

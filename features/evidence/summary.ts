@@ -1,8 +1,21 @@
 import { z } from "zod";
+import type { DoseResponseFit, DoseResponseNone } from "./dose-response";
 
-export const METHOD_VERSION = "2026.12-1";
+// Named in every summary and export; a change makes the app recompute stored summaries when it starts.
+export const METHOD_VERSION = "2026.12-2+logit-log10-bmd10";
 export const ANECDOTAL_TEXT =
   "Anecdotal evidence: members' own reports of treatments in their own tanks, checked by club moderators for plausibility only. Not veterinary advice; defer to an aquatic veterinarian and to local rules.";
+
+const doseResponseFitSchema = z.object({
+  model: z.literal("logit-log10"),
+  a: z.number(), b: z.number(), seA: z.number(), seB: z.number(), covAB: z.number(),
+  bmr: z.number(), bmd: z.number(), bmdl: z.number(), bmdu: z.number(),
+  deviance: z.number(), df: z.number().int(),
+  curve: z.array(z.object({ dose: z.number(), risk: z.number(), low: z.number(), high: z.number() })),
+});
+const doseResponseNoneSchema = z.object({ model: z.literal("logit-log10"), fit: z.null(), reason: z.string() });
+/** P(adverse | dose) on log10 dose with the benchmark dose (statistics.md), or why it cannot be estimated. */
+export const doseResponseSchema = z.union([doseResponseFitSchema, doseResponseNoneSchema]);
 
 const interval = z.object({ value: z.number().nullable(), low: z.number().nullable(), high: z.number().nullable() });
 
@@ -20,6 +33,7 @@ export const summarySchema = z.object({
   }),
   lowestAdverseDose: z.number().nullable(),
   sparse: z.boolean(),
+  doseResponse: doseResponseSchema,
 });
 
 export const bandSchema = z.object({
@@ -42,6 +56,10 @@ export const summaryQuerySchema = z.object({
   condition: z.string().min(1).optional(),
 });
 
-export type Summary = z.infer<typeof summarySchema>;
-export type SummaryDetail = z.infer<typeof summaryDetailSchema>;
+/** Either shape, readable as `doseResponse?.bmdl` or `doseResponse?.reason` (undefined where it does not apply). */
+export type DoseResponseView = (DoseResponseFit & { fit?: undefined; reason?: undefined }) | (DoseResponseNone & { [K in Exclude<keyof DoseResponseFit, "model">]?: undefined });
+// Stored rows from an older method may lack doseResponse until the recompute on start: optional in the type.
+type WithDoseResponse<T> = Omit<T, "doseResponse"> & { doseResponse?: DoseResponseView };
+export type Summary = WithDoseResponse<z.infer<typeof summarySchema>>;
+export type SummaryDetail = WithDoseResponse<z.infer<typeof summaryDetailSchema>>;
 export type Band = z.infer<typeof bandSchema>;

@@ -5,6 +5,11 @@ export const roleSchema = z.enum(roles, { error: "Role must be one of member, mo
 
 export const changeRoleSchema = z.object({ role: roleSchema }).strict();
 
+/** The body of the sign-in library's POST /api/auth/admin/set-role, which the app serves itself. */
+export const setRoleSchema = z
+  .object({ userId: z.string({ error: "userId names the member." }).min(1, "userId names the member.").max(200), role: roleSchema })
+  .strict();
+
 export const memberSortKeys = ["name", "email", "role", "createdAt"] as const;
 
 export const listMembersQuerySchema = z.object({

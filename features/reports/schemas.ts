@@ -175,7 +175,7 @@ export const courseEntrySchema = z
   });
 
 export const listMineQuerySchema = z.object({
-  scope: z.enum(["mine"], { error: "scope must be mine." }).default("mine"),
+  scope: z.enum(["mine"], { error: "scope must be mine, or all (moderators and admins)." }).default("mine"),
   status: z.enum(reportStatuses, { error: `status must be one of: ${reportStatuses.join(", ")}.` }).optional(),
   sort: z.enum(["updatedAt", "startedOn", "status", "concentration", "species", "agent"], { error: "sort must be updatedAt, startedOn, status, concentration, species or agent." }).default("updatedAt"),
   dir: z.enum(["asc", "desc"], { error: "dir must be asc or desc." }).default("desc"),

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { lossCauses } from "@/features/reports";
+import { lossCauses, reportStatuses } from "@/features/reports";
 
 export const decisions = ["accept", "return", "decline", "retract"] as const;
 export type Decision = (typeof decisions)[number];
@@ -39,3 +39,54 @@ export const decisionStatus: Record<Decision, { from: string; to: string }> = {
   decline: { from: "awaiting_review", to: "declined" },
   retract: { from: "accepted", to: "retracted" },
 };
+
+/** Every status but draft: drafts stay their author's own. */
+export const listedStatuses = reportStatuses.filter((s) => s !== "draft") as Exclude<(typeof reportStatuses)[number], "draft">[];
+export const allReportsSorts = ["submittedAt", "decidedAt", "startedOn", "status", "concentration", "species", "group", "agent", "member"] as const;
+const day = (field: string) =>
+  z
+    .string({ error: `${field} must be a date, YYYY-MM-DD.` })
+    .regex(/^\d{4}-\d{2}-\d{2}$/, `${field} must be a date, YYYY-MM-DD.`)
+    .refine((v) => !Number.isNaN(Date.parse(`${v}T00:00:00Z`)) && new Date(`${v}T00:00:00Z`).toISOString().startsWith(v), `${field} is not a real date.`);
+const slug = (field: string) => z.string().trim().min(1, `${field} must not be empty; leave it out for any.`).max(100, `${field} is at most 100 characters.`);
+
+/** GET /api/reports?scope=all: every submitted report, for moderators and admins, filtered and paged on the server. */
+export const listAllQuerySchema = z
+  .object({
+    scope: z.literal("all", { error: "scope must be all." }),
+    status: z.enum(listedStatuses as [string, ...string[]], { error: `status must be one of: ${listedStatuses.join(", ")}.` }).optional(),
+    group: slug("group").optional(),
+    agent: slug("agent").optional(),
+    /** A member's id, or part of their name or e-mail (or of an imported report's reporter). */
+    member: z.string().trim().min(1, "member must not be empty; leave it out for any.").max(200, "member is at most 200 characters.").optional(),
+    /** Which date `from` and `to` apply to. */
+    dateOf: z.enum(["submitted", "decided", "started"], { error: "dateOf must be submitted, decided or started." }).default("submitted"),
+    from: day("from").optional(),
+    to: day("to").optional(),
+    sort: z.enum(allReportsSorts, { error: `sort must be one of: ${allReportsSorts.join(", ")}.` }).default("submittedAt"),
+    dir: z.enum(["asc", "desc"], { error: "dir must be asc or desc." }).default("desc"),
+    page: z.coerce.number({ error: "page must be a number." }).int("page must be a whole number.").min(1, "page starts at 1.").default(1),
+    pageSize: z.coerce.number({ error: "pageSize must be a number." }).int("pageSize must be a whole number.").min(1, "pageSize is at least 1.").max(100, "pageSize is at most 100.").default(25),
+  })
+  .strict()
+  .refine((q) => !q.from || !q.to || q.from <= q.to, { path: ["to"], message: "to must be on or after from." });
+export type ListAllQuery = z.infer<typeof listAllQuerySchema>;
+
+export interface AllReportsRow {
+  id: string;
+  status: Exclude<(typeof reportStatuses)[number], "draft">;
+  species: string;
+  groupSlug: string | null;
+  groupName: string | null;
+  agentSlug: string | null;
+  agentName: string | null;
+  concentration: number | null;
+  unit: string | null;
+  startedOn: string | null;
+  submittedAt: string | null;
+  decidedAt: string | null;
+  member: { id: string; name: string };
+  isMine: boolean;
+  flags: number;
+  source: string;
+}

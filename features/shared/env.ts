@@ -16,6 +16,10 @@ const envSchema = z.object({
   MAIL_FROM: z.string().min(3).default("Tanklore <tanklore@example.org>"),
   MAIL_CATCHER_PORT: z.coerce.number().int().min(0).max(65535).default(0),
   RATE_LIMIT: z.enum(["on", "off"]).optional(),
+  // How many reverse proxies in front of the app append to X-Forwarded-For; 0 trusts no forwarding header.
+  TRUSTED_PROXY_HOPS: z.coerce.number().int().min(0, "TRUSTED_PROXY_HOPS is 0 or more.").max(10, "TRUSTED_PROXY_HOPS is at most 10.").default(0),
+  // Set by Tanklore's own server (db/http-server.ts) for its process: it stamps each request with the socket's address.
+  TANKLORE_PEER_HEADER: z.enum(["on"]).optional(),
   PORT: z.coerce.number().int().min(1).max(65535).default(3000),
 });
 

@@ -21,7 +21,8 @@ afterAll(async () => {
 /** Serves the already-built app on a restored data directory, on a port of its own. */
 async function serveRestored(dataDir: string): Promise<string> {
   const port = await freePort();
-  restoredServer = spawn(process.execPath, ["node_modules/next/dist/bin/next", "start", "-p", String(port)], {
+  // The same server as `npm start` and the suite's own (db/http-server.ts).
+  restoredServer = spawn(process.execPath, ["--import", "tsx", "db/http-server.ts"], {
     env: { ...process.env, NODE_ENV: "production", DATA_DIR: dataDir, PORT: String(port), BETTER_AUTH_URL: `http://localhost:${port}`, RATE_LIMIT: "off" },
     stdio: "ignore",
   });
@@ -75,7 +76,7 @@ describe("backups", () => {
     const env: NodeJS.ProcessEnv = { ...process.env, DATA_DIR: target };
     delete env.DATABASE_URL;
     delete env.BETTER_AUTH_SECRET;
-    const restore = spawnSync(process.execPath, ["--import", "tsx", "db/restore.ts", archive], { env, encoding: "utf8" });
+    const restore = spawnSync(process.execPath, ["--conditions=react-server", "--import", "tsx", "db/restore.ts", archive], { env, encoding: "utf8" });
     expect(restore.stderr).toBe("");
     expect(restore.status).toBe(0);
     expect(restore.stdout).toMatch(/every checksum matched/);

@@ -24,10 +24,12 @@ export default async function setup(project: TestProject) {
   const tsx = ["--import", "tsx"];
   const build = spawnSync(process.execPath, [...tsx, "-e", "const m = await import('./db/serve.ts'); m.buildIfNeeded();"], { cwd: root, env, stdio: "inherit" });
   if (build.status !== 0) throw new Error("next build failed");
-  const seed = spawnSync(process.execPath, [...tsx, "db/seed.ts"], { cwd: root, env, stdio: "inherit" });
+  // Server modules import "server-only", which resolves to an empty module under this condition.
+  const seed = spawnSync(process.execPath, ["--conditions=react-server", ...tsx, "db/seed.ts"], { cwd: root, env, stdio: "inherit" });
   if (seed.status !== 0) throw new Error("seeding the demo club failed");
 
-  const server: ChildProcess = spawn(process.execPath, ["node_modules/next/dist/bin/next", "start", "-p", String(port)], {
+  // The same server as `npm start` (Next.js behind db/http-server.ts, which stamps the socket address).
+  const server: ChildProcess = spawn(process.execPath, [...tsx, "db/http-server.ts"], {
     cwd: root,
     env,
     stdio: ["ignore", "pipe", "pipe"],

@@ -5,6 +5,7 @@ import * as membersRoute from "@/app/api/admin/members/route";
 import * as memberRoute from "@/app/api/admin/members/[id]/route";
 import * as healthRoute from "@/app/api/health/route";
 import { getDb, schema } from "@/db/client";
+import { settleBackgroundMail } from "@/features/members/server";
 import { call, cookieFrom } from "../support/http";
 import { linkIn, mailTo, signedInUser } from "../support/factories";
 
@@ -20,6 +21,7 @@ describe("sign-up, verification and sign-in", () => {
     const early = await call(authRoute.POST, "/api/auth/sign-in/email", { body: { email, password: "a-long-password-1" } });
     expect(early.status).toBe(403);
 
+    await settleBackgroundMail(); // mail goes out after the answer
     const mails = mailTo(email);
     expect(mails.length).toBeGreaterThanOrEqual(1);
     expect(mails[0]).toMatch(/Subject: Confirm your e-mail address/);
@@ -43,6 +45,7 @@ describe("sign-up, verification and sign-in", () => {
     const user = await signedInUser("member");
     const ask = await call(authRoute.POST, "/api/auth/request-password-reset", { body: { email: user.email, redirectTo: "/reset-password" } });
     expect(ask.status).toBe(200);
+    await settleBackgroundMail();
     const mail = mailTo(user.email).find((m) => /Subject: Choose a new Tanklore password/.test(m));
     expect(mail).toBeDefined();
     const link = new URL(linkIn(mail!));

@@ -20,6 +20,7 @@ import * as decisionRoute from "@/app/api/reports/[id]/decision/route";
 import { getDb, schema } from "@/db/client";
 import { seedDemo } from "@/db/seed";
 import { dataDir } from "@/features/shared/env";
+import { drainEvidenceOutbox } from "@/features/evidence/server";
 import { pruneBackups, restoreBackup, RestoreRefusedError, runNightlyBackupIfDue, type BackupManifest } from "@/features/exchange/server";
 import { BASE, call } from "../support/http";
 import { reportBody, signIn } from "../support/factories";
@@ -51,6 +52,8 @@ beforeAll(async () => {
   const filed = await call(reportsRoute.POST, "/api/reports", { body: reportBody({ submit: true }), cookie: member });
   const accepted = await call(decisionRoute.POST, `/api/reports/${filed.body.id}/decision`, { params: { id: filed.body.id }, cookie: moderator, body: { decision: "accept" } });
   expect(accepted.body.status).toBe("accepted");
+  // The decision queued its recompute; no worker runs in tests, so drain it before the club is compared.
+  await drainEvidenceOutbox();
 });
 
 /** Takes a backup through the route handler as `cookie` and saves it to a file. */
@@ -173,7 +176,7 @@ describe("GET /api/admin/backup", () => {
     expect((await liveRows("select id from reports")).length).toBe(before + 8);
 
     const target = path.join(scratch, "restored-busy");
-    const cli = await exec(path.resolve("node_modules/.bin/tsx"), ["db/restore.ts", file], {
+    const cli = await exec(path.resolve("node_modules/.bin/tsx"), ["--conditions=react-server", "db/restore.ts", file], {
       env: { ...process.env, DATA_DIR: target, DATABASE_URL: "" },
       timeout: 180_000,
     });
@@ -208,7 +211,7 @@ describe("npm run restore refuses what it must not do", () => {
     expect(listing(target)).toEqual(["notes.txt", "uploads"]);
     expect(fs.readFileSync(path.join(target, "notes.txt"), "utf8")).toBe("keep me");
 
-    const cli = await exec(path.resolve("node_modules/.bin/tsx"), ["db/restore.ts", file], { env: { ...process.env, DATA_DIR: target, DATABASE_URL: "" } }).catch((e) => e);
+    const cli = await exec(path.resolve("node_modules/.bin/tsx"), ["--conditions=react-server", "db/restore.ts", file], { env: { ...process.env, DATA_DIR: target, DATABASE_URL: "" } }).catch((e) => e);
     expect(cli.code).toBe(1);
     expect(cli.stderr).toMatch(/is not empty/);
   }, 120_000);
@@ -272,7 +275,6 @@ describe("PATCH /api/admin/settings", () => {
     const r = await patch(admin, { nightlyBackup: true });
     expect(r.status).toBe(200);
     expect(r.body.settings).toMatchObject({ nightlyBackup: true, name: was.name, confidenceLevel: was.confidenceLevel, minReports: was.minReports });
-    expect(r.body.recomputed).toBe(0);
     const [change] = await (await getDb()).select().from(schema.catalogueChanges).where(eq(schema.catalogueChanges.entity, "club_settings")).orderBy(desc(schema.catalogueChanges.id)).limit(1);
     expect(change).toMatchObject({ entityKey: "1", action: "update", before: expect.objectContaining({ nightlyBackup: false }), after: { nightlyBackup: true } });
     const off = await patch(admin, { nightlyBackup: false });

@@ -7,6 +7,7 @@ import * as summaryRoute from "@/app/api/summaries/[groupSlug]/route";
 import * as csvRoute from "@/app/api/export/summaries.csv/route";
 import { getDb, schema } from "@/db/client";
 import { seedCatalogue } from "@/features/catalogue/server";
+import { drainEvidenceOutbox } from "@/features/evidence/server";
 import { call } from "../support/http";
 import { reportBody, signedInUser } from "../support/factories";
 
@@ -35,7 +36,8 @@ async function accepted(author: U, dose: number, opts: { lost?: number; severe?:
   return r.body.id as string;
 }
 
-const detail = async (q = "") => (await call(summaryRoute.GET, `/api/summaries/corydoras?agent=hydrogen-peroxide${q}`, { params: { groupSlug: "corydoras" } })).body;
+// Decisions queue their recompute; the evidence worker is not running in tests, so drain before reading.
+const detail = async (q = "") => (await drainEvidenceOutbox(), await call(summaryRoute.GET, `/api/summaries/corydoras?agent=hydrogen-peroxide${q}`, { params: { groupSlug: "corydoras" } })).body;
 
 describe("a fixture club worked out by hand", () => {
   let retractable = "";
@@ -95,6 +97,7 @@ describe("a fixture club worked out by hand", () => {
   });
 
   it("lists every group with its summary, and exports CSV with the notice inside", async () => {
+    await drainEvidenceOutbox();
     const list = await call(summariesRoute.GET, "/api/summaries?agent=hydrogen-peroxide");
     expect(list.status).toBe(200);
     expect(list.body).toMatchObject({ agent: "hydrogen-peroxide", unit: "mg/L", confidenceLevel: 95, anecdotal: true });

@@ -3,10 +3,14 @@ import { count, eq } from "drizzle-orm";
 import * as healthRoute from "@/app/api/health/route";
 import * as catalogueRoute from "@/app/api/catalogue/route";
 import * as membersRoute from "@/app/api/admin/members/route";
+import * as decisionRoute from "@/app/api/reports/[id]/decision/route";
 import { closeDb, getDb, schema } from "@/db/client";
 import { seedDemo } from "@/db/seed";
+import { drainEvidenceOutbox } from "@/features/evidence/server";
 import { call } from "../support/http";
 import { signIn } from "../support/factories";
+import * as authRoute from "@/app/api/auth/[...all]/route";
+import { resetAuthForTests } from "@/features/members/server/auth";
 import { hasPostgresServer, startPostgres } from "../support/pg-server";
 
 // The same schema, migrations, queries and auth on a real PostgreSQL server. Its binaries come
@@ -50,5 +54,57 @@ describe("on a PostgreSQL server (DATABASE_URL)", () => {
     expect(members.body.members.map((m: { email: string }) => m.email).sort()).toEqual(["keeper10@example.org", "moderator@example.org"]);
     const [admin] = await db.select().from(schema.users).where(eq(schema.users.email, "admin@example.org"));
     expect(admin?.role).toBe("admin");
+  });
+
+  it("accepts waiting reports in parallel and the drained summaries count every accepted report", async () => {
+    const db = await getDb();
+    const waiting = await db.select({ id: schema.reports.id, authorId: schema.reports.authorId }).from(schema.reports).where(eq(schema.reports.status, "awaiting_review"));
+    expect(waiting.length).toBeGreaterThan(1);
+    const [mod, admin] = [await signIn("moderator@example.org", "pg-demo-password"), await signIn("admin@example.org", "pg-demo-password")];
+    const answers = await Promise.all(
+      waiting.map((r, i) => call(decisionRoute.POST, `/api/reports/${r.id}/decision`, { params: { id: r.id }, cookie: i % 2 ? mod : admin, body: { decision: "accept" } })),
+    );
+    const accepted = answers.filter((a) => a.status === 200).length;
+    expect(accepted).toBeGreaterThan(0); // a demo account's own report answers 403; every other is accepted
+    await drainEvidenceOutbox();
+    const [left] = await db.select({ n: count() }).from(schema.evidenceOutbox);
+    expect(left?.n).toBe(0);
+    const counts = await db
+      .select({ group: schema.reports.groupSlug, agent: schema.reports.agentSlug, n: count() })
+      .from(schema.reports)
+      .where(eq(schema.reports.status, "accepted"))
+      .groupBy(schema.reports.groupSlug, schema.reports.agentSlug);
+    const stored = await db
+      .select({ group: schema.evidenceSummaries.groupSlug, agent: schema.evidenceSummaries.agentSlug, n: schema.evidenceSummaries.reports })
+      .from(schema.evidenceSummaries)
+      .where(eq(schema.evidenceSummaries.conditionSlug, ""));
+    const key = (x: { group: string | null; agent: string | null; n: number }) => `${x.group}/${x.agent}/${x.n}`;
+    expect(stored.map(key).sort()).toEqual(counts.map(key).sort());
+  });
+
+  it("keeps both sign-in limits in the server's tables", async () => {
+    process.env.RATE_LIMIT = "on";
+    process.env.TRUSTED_PROXY_HOPS = "1";
+    resetAuthForTests();
+    try {
+      const statuses: number[] = [];
+      for (let i = 0; i < 11; i++) {
+        const r = await call(authRoute.POST, "/api/auth/sign-in/email", {
+          body: { email: "member@example.org", password: `wrong-password-${i}` },
+          headers: { "x-forwarded-for": `198.51.100.${i + 1}` },
+        });
+        statuses.push(r.status);
+      }
+      expect(statuses).toEqual([...Array(10).fill(401), 429]);
+      const db = await getDb();
+      const [limit] = await db.select().from(schema.signInLimits).where(eq(schema.signInLimits.email, "member@example.org"));
+      expect(limit?.lockedUntil).toBeInstanceOf(Date);
+      const [counted] = await db.select({ n: count() }).from(schema.rateLimits);
+      expect(counted?.n).toBeGreaterThanOrEqual(10);
+    } finally {
+      process.env.RATE_LIMIT = "off";
+      delete process.env.TRUSTED_PROXY_HOPS;
+      resetAuthForTests();
+    }
   });
 });

@@ -51,6 +51,23 @@ describe("Wilson score interval", () => {
     const z = zFor(95);
     expect(wilson(0, 10, 95).high!).toBeCloseTo((z * z) / (10 + z * z), 12);
   });
+
+  it("puts the bounds exactly at 0 for 0 of n and exactly at 1 for n of n", () => {
+    // Closed form (Wilson 1927, J. Am. Stat. Assoc. 22:209–212; the score interval's limits solve
+    // (p̂ − π)² = z²π(1 − π)/n): at p̂ = 0 the roots are π = 0 and z²/(n + z²); at p̂ = 1 they are
+    // n/(n + z²) and π = 1. Floating point alone gives residues such as 2.8e-17 (n = 7) or 0.9999999999999999 (n = 10).
+    for (const level of [80, 90, 95, 99]) {
+      const z = zFor(level);
+      for (const n of [1, 2, 3, 7, 10, 13, 100, 1000, 12345]) {
+        const none = wilson(0, n, level);
+        expect(none.low).toBe(0);
+        expect(none.high!).toBeCloseTo((z * z) / (n + z * z), 12);
+        const all = wilson(n, n, level);
+        expect(all.high).toBe(1);
+        expect(all.low!).toBeCloseTo(n / (n + z * z), 12);
+      }
+    }
+  });
 });
 
 describe("distribution-free interval for the median", () => {

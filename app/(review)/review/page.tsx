@@ -1,12 +1,16 @@
 import { PageTitle } from "@/features/shared/components/ui";
 import { QueueTable } from "@/features/review/components/queue-table";
+import { getPageActor } from "@/features/members/server";
+import { countAwaitingReview } from "@/features/review/server";
+import { pageData } from "@/features/shared/server/page";
 
 export const metadata = { title: "Review queue" };
 
-export default function ReviewQueuePage() {
+export default async function ReviewQueuePage() {
+  const waiting = await pageData(countAwaitingReview({ actor: await getPageActor() }));
   return (
     <div className="grid gap-6">
-      <PageTitle lead="Reports count only once a moderator accepts them. Oldest first; hover a flag for its explanation. You cannot decide on your own reports.">Review queue</PageTitle>
+      <PageTitle lead={`${waiting} report${waiting === 1 ? "" : "s"} waiting. Reports count only once a moderator accepts them. Oldest first; hover a flag for its explanation. You cannot decide on your own reports.`}>Review queue</PageTitle>
       <QueueTable />
     </div>
   );

@@ -1,11 +1,6 @@
-import { sql } from "drizzle-orm";
-import { getDb, getDbKind } from "@/db/client";
 import { json, route } from "@/features/shared/server/http";
+import { checkHealth } from "@/features/shared/server/health";
 
 export const dynamic = "force-dynamic";
 
-export const GET = route(async () => {
-  const db = await getDb();
-  await db.execute(sql`select 1`);
-  return json({ status: "ok", database: await getDbKind() });
-});
+export const GET = route(async () => json(await checkHealth()));

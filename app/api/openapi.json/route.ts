@@ -30,8 +30,8 @@ const operations: Operation[] = [
     body: changeRoleSchema, response: z.object({ member: memberSchema }), errors: [401, 403, 404, 409, 422],
   },
   {
-    method: "patch", path: "/api/admin/settings", summary: "Change any of the club's settings (recorded; the confidence level or minimum recomputes the summaries)", tags: ["settings"], auth: "admin",
-    body: clubSettingsPatchSchema, response: z.object({ settings: z.object({ name: z.string(), nightlyBackup: z.boolean() }).loose(), recomputed: z.number() }), errors: [400, 401, 403, 415, 422],
+    method: "patch", path: "/api/admin/settings", summary: "Change any of the club's settings (recorded; a new confidence level or minimum queues every summary for recompute)", tags: ["settings"], auth: "admin",
+    body: clubSettingsPatchSchema, response: z.object({ settings: z.object({ name: z.string(), nightlyBackup: z.boolean() }).loose() }), errors: [400, 401, 403, 415, 422],
   },
   {
     method: "get", path: "/api/admin/backup", summary: "A consistent archive of the running club (application/gzip: database, photos, secret, manifest); restore with npm run restore", tags: ["settings"], auth: "admin",
@@ -41,7 +41,7 @@ const operations: Operation[] = [
     method: "post", path: "/api/reports", summary: "File a complete report (as a draft, or submitted at once with submit: true)", tags: ["reports"], auth: "member",
     body: reportInputSchema, status: 201, response: z.object({ id: z.string(), status: z.enum(["draft", "awaiting_review"]), concentration: z.number().nullable() }), errors: [401, 422],
   },
-  { method: "get", path: "/api/reports", summary: "The caller's reports (scope=mine), sorted and paged", tags: ["reports"], auth: "member", query: listMineQuerySchema, response: z.object({ reports: z.array(z.object({ id: z.string(), status: z.string() }).loose()), total: z.number() }), errors: [401, 422] },
+  { method: "get", path: "/api/reports", summary: "The caller's reports (scope=mine), sorted and paged; with scope=all, every submitted report for moderators and admins (filters status, group, agent, member, dateOf, from, to; members get 403)", tags: ["reports"], auth: "member", query: listMineQuerySchema, response: z.object({ reports: z.array(z.object({ id: z.string(), status: z.string() }).loose()), total: z.number() }), errors: [401, 403, 422] },
   { method: "post", path: "/api/reports/drafts", summary: "Start a draft with any subset of the fields (multi-step form, open course)", tags: ["reports"], auth: "member", body: reportDraftSchema, status: 201, response: z.object({ id: z.string(), status: z.string() }), errors: [401, 422] },
   { method: "get", path: "/api/reports/{id}", summary: "One report (its author; moderators once submitted)", tags: ["reports"], auth: "member", response: z.object({ id: z.string() }).loose(), errors: [401, 404] },
   { method: "patch", path: "/api/reports/{id}", summary: "Change a draft or returned report (nested objects merged)", tags: ["reports"], auth: "member", body: reportDraftSchema, response: z.object({ id: z.string(), status: z.string() }), errors: [401, 403, 404, 409, 422] },

@@ -1,5 +1,6 @@
 import { listMineQuerySchema, reportInputSchema } from "@/features/reports";
 import { createReport, getReportsByAuthorId } from "@/features/reports/server";
+import { listAllReports } from "@/features/review/server";
 import { requireActor } from "@/features/members/server";
 import { json, parseJson, parseQuery, route } from "@/features/shared/server/http";
 
@@ -13,5 +14,8 @@ export const POST = route(async (req) => {
 
 export const GET = route(async (req) => {
   const actor = await requireActor(req.headers);
+  const params = Object.fromEntries(new URL(req.url).searchParams.entries());
+  // Every submitted report, for moderators and admins (the feature checks the role, then the parameters).
+  if (params.scope === "all") return json(await listAllReports({ actor, params }));
   return json(await getReportsByAuthorId(actor, parseQuery(req, listMineQuerySchema)));
 });

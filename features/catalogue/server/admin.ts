@@ -1,8 +1,11 @@
+import "server-only";
 import { count, desc, eq } from "drizzle-orm";
 import type { z } from "zod";
-import { getDb, schema } from "@/db/client";
+import { getDb, schema, type Db } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
+import { enqueueEvidenceRecomputeWhere, wakeEvidenceWorker } from "@/features/shared/server/evidence-outbox";
 import type { Actor } from "@/features/shared/roles";
+import { canManageCatalogue, type Caller } from "@/features/shared/policies";
 import { catalogueInputs, type CatalogueKind } from "../admin-schemas";
 import { speciesIdOf } from "./seed";
 
@@ -10,7 +13,7 @@ const { speciesGroups, species, agents, conditions, stockForms, reports, catalog
 
 function assertAdmin(actor: Actor | null): asserts actor is Actor {
   if (!actor) throw new AppError("unauthenticated", "Sign in to manage the catalogue.");
-  if (actor.role !== "admin") throw new AppError("forbidden", "Only club officers (admins) may change the catalogue.");
+  if (!canManageCatalogue(actor)) throw new AppError("forbidden", "Only club officers (admins) may change the catalogue.");
 }
 
 const tables = {
@@ -36,8 +39,8 @@ export async function listCatalogue(actor: Actor | null, kind: CatalogueKind) {
   return { items: rows.map((r) => ({ ...r, key: String(r[keyName]), inUse: usage.get(String(r[keyName])) ?? 0 })) };
 }
 
-async function record(actorId: string, entity: string, key: string, action: string, before: unknown, after: unknown) {
-  const db = await getDb();
+async function record(actorId: string, entity: string, key: string, action: string, before: unknown, after: unknown, tx?: Pick<Db, "insert">) {
+  const db = tx ?? (await getDb());
   await db.insert(catalogueChanges).values({ actorId, entity, entityKey: key, action, before: before ?? null, after: after ?? null });
 }
 
@@ -62,8 +65,13 @@ export async function createCatalogueEntry<K extends CatalogueKind>(actor: Actor
   const [existing] = await db.select().from(t.table as any).where(eq(t.key, key));
   if (existing) throw new AppError("conflict", `There is already an entry "${key}"; edit it instead.`);
   const values = kind === "species" ? { ...input, id: key } : input;
-  await db.insert(t.table as any).values(values as any);
-  await record(actor.id, kind, key, "create", null, values);
+  await db.transaction(async (tx) => {
+    await tx.insert(t.table as any).values(values as any);
+    await record(actor.id, kind, key, "create", null, values, tx);
+    // A new preset: the agent's summaries are recomputed with the change (as every stock-form change).
+    if (kind === "stock-forms") await enqueueEvidenceRecomputeWhere(tx, { agentSlugs: [String((input as Record<string, unknown>).agentSlug)] });
+  });
+  if (kind === "stock-forms") wakeEvidenceWorker();
   return { key };
 }
 
@@ -76,11 +84,21 @@ export async function updateCatalogueEntry<K extends CatalogueKind>(actor: Actor
   const { slug: _s, id: _i, scientificName: _n, ...changes } = patch as Record<string, unknown>;
   if (Object.keys(changes).length === 0) throw new AppError("invalid", "Nothing to change.", [{ path: "(body)", message: "Send at least one field to change (keys cannot change; add a new entry and merge instead)." }]);
   await checkRefs(kind, { ...before, ...changes });
-  await db.update(t.table as any).set(changes as any).where(eq(t.key, key));
-  await record(actor.id, kind, key, "update", before, changes);
-  if (kind === "species" && changes.groupSlug && changes.groupSlug !== before.groupSlug) {
-    await db.update(reports).set({ groupSlug: String(changes.groupSlug) }).where(eq(reports.speciesId, key));
-  }
+  const movedGroup = kind === "species" && changes.groupSlug && changes.groupSlug !== before.groupSlug;
+  // What the stored summaries show: a group's name and visibility, an agent's band edges, a species' group.
+  const stale =
+    kind === "groups" ? { groupSlugs: [key] }
+    : kind === "agents" ? { agentSlugs: [key] }
+    : kind === "stock-forms" ? { agentSlugs: [...new Set([String(before.agentSlug), String(changes.agentSlug ?? before.agentSlug)])] }
+    : movedGroup ? { groupSlugs: [String(before.groupSlug), String(changes.groupSlug)] }
+    : null;
+  await db.transaction(async (tx) => {
+    await tx.update(t.table as any).set(changes as any).where(eq(t.key, key));
+    await record(actor.id, kind, key, "update", before, changes, tx);
+    if (movedGroup) await tx.update(reports).set({ groupSlug: String(changes.groupSlug) }).where(eq(reports.speciesId, key));
+    if (stale) await enqueueEvidenceRecomputeWhere(tx, stale);
+  });
+  if (stale) wakeEvidenceWorker();
   return { key, previous: before };
 }
 
@@ -120,12 +138,16 @@ export async function mergeSpecies(actor: Actor | null, key: string, into: strin
     const moved = await tx.update(reports).set({ speciesId: to.id, groupSlug: to.groupSlug }).where(eq(reports.speciesId, key)).returning({ agentSlug: reports.agentSlug });
     await tx.update(species).set({ hidden: true, mergedInto: to.id }).where(eq(species.id, key));
     await tx.insert(catalogueChanges).values({ actorId: actor.id, entity: "species", entityKey: key, action: "merge", before: from, after: { mergedInto: to.id, note, reportsMoved: moved.length } });
+    await enqueueEvidenceRecomputeWhere(tx, { groupSlugs: [...new Set([from.groupSlug, to.groupSlug])] });
     return moved;
   });
+  wakeEvidenceWorker();
   return { key, into, reportsMoved: touched.length, groups: [...new Set([from.groupSlug, to.groupSlug])] };
 }
 
-export async function getCatalogueChanges(limit = 30) {
+/** The catalogue- and settings-change log, newest first, for admins. */
+export async function getCatalogueChanges({ actor }: Caller, limit = 30) {
+  assertAdmin(actor);
   const db = await getDb();
   const rows = await db
     .select({ id: catalogueChanges.id, entity: catalogueChanges.entity, entityKey: catalogueChanges.entityKey, action: catalogueChanges.action, at: catalogueChanges.at, actorName: schema.users.name })

@@ -1,3 +1,4 @@
+import "server-only";
 import { and, eq } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";
 import { AppError } from "@/features/shared/errors";

@@ -1,3 +1,4 @@
+import "server-only";
 import { asc, eq } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";
 import type { Catalogue } from "../schemas";

@@ -1,3 +1,4 @@
+import "server-only";
 import type { Db } from "@/db/client";
 import { schema } from "@/db/client";
 import { starterAgents, starterConditions, starterGroups, starterSpecies } from "../starter-data";

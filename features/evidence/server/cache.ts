@@ -1,10 +1,11 @@
+import "server-only";
 const store = globalThis as unknown as { __tankloreSummaries?: Map<string, { at: number; value: unknown }> };
-const CACHE_MS = 10_000;
+const CACHE_MS = 1_000;
 
 /**
- * The summary list is read far more often than it changes: keep each response for up to ten seconds,
- * and drop them all whenever this process recomputes (accept, retract, correction, import, settings).
- * Another process on the same PostgreSQL server sees a change within the ten seconds.
+ * The summary list is read far more often than it changes: keep each response for up to a second,
+ * and drop them all whenever this process's evidence worker commits a recompute. Another process on
+ * the same PostgreSQL server sees a change within that second.
  */
 export async function summaryCache<T>(key: string, load: () => Promise<T>): Promise<T> {
   const cache = (store.__tankloreSummaries ??= new Map());

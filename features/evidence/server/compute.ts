@@ -1,8 +1,10 @@
+import "server-only";
 import { and, eq, sql } from "drizzle-orm";
 import { getDb, schema, type Db } from "@/db/client";
 import { getClubSettings } from "@/features/catalogue/server";
 import { medianRank, wilson } from "../stats";
 import { invalidateSummaryCache } from "./cache";
+import { doseResponseOf, doseTrials } from "./dose-response";
 import { METHOD_VERSION, type Band, type Summary, type SummaryDetail } from "../summary";
 
 const { evidenceSummaries, agents, speciesGroups } = schema;
@@ -138,60 +140,70 @@ export async function getPointsAndSpecies(groupSlug: string, agentSlug: string, 
   return { points, species: (sp ?? []).map(([id, commonName, scientificName, n]) => ({ id, commonName, scientificName, reports: Number(n) })) };
 }
 
-/** Recomputes and stores one group × agent (all conditions); removes rows that no longer have reports. */
-export async function recomputeGroupAgent(db: Db, groupSlug: string, agentSlug: string, settings?: { confidenceLevel: number; minReports: number }): Promise<number> {
-  const s = settings ?? (await getClubSettings());
-  const [agent] = await db.select({ bandEdges: agents.bandEdges }).from(agents).where(eq(agents.slug, agentSlug));
-  const [group] = await db.select({ slug: speciesGroups.slug, name: speciesGroups.name }).from(speciesGroups).where(eq(speciesGroups.slug, groupSlug));
+/** A statement runner: the database or an open transaction. */
+export type Runner = Pick<Db, "select" | "execute" | "insert" | "delete">;
+type Settings = { confidenceLevel: number; minReports: number };
+
+/** Advisory-lock namespace of evidence pairs (the first key of the two-key form). */
+const LOCK_NAMESPACE = 0x7a4e;
+
+/** A 32-bit FNV-1a hash of the pair, as a signed int: the second key of its advisory lock. */
+function pairLockKey(groupSlug: string, agentSlug: string): number {
+  let h = 0x811c9dc5;
+  for (const ch of `${groupSlug}\u0000${agentSlug}`) {
+    h ^= ch.codePointAt(0)!;
+    h = Math.imul(h, 0x01000193);
+  }
+  return h | 0;
+}
+
+/**
+ * Takes the pair's lock until the transaction ends, so two recomputes of one pair (two processes, or the
+ * poll and a wake-up) run one after the other and the later one reads the later reports. A hash collision
+ * only serialises two unrelated pairs. Plain PostgreSQL functions: PGlite and a server alike.
+ */
+export async function lockPair(tx: Runner, groupSlug: string, agentSlug: string): Promise<void> {
+  await tx.execute(sql`select pg_advisory_xact_lock(${LOCK_NAMESPACE}::int, ${pairLockKey(groupSlug, agentSlug)}::int)`);
+}
+
+/**
+ * Recomputes one group × agent (all conditions) through `tx` and replaces its stored rows; rows without
+ * reports any more disappear. Run it inside a transaction holding the pair's lock, so the reads and the
+ * replacement are one snapshot-consistent step. Returns how many summary rows it stored.
+ */
+export async function replacePairFigures(tx: Runner, groupSlug: string, agentSlug: string, s: Settings): Promise<number> {
+  const [agent] = await tx.select({ bandEdges: agents.bandEdges }).from(agents).where(eq(agents.slug, agentSlug));
+  const [group] = await tx.select({ slug: speciesGroups.slug, name: speciesGroups.name }).from(speciesGroups).where(eq(speciesGroups.slug, groupSlug));
   if (!agent || !group) return 0;
   const edges = [...agent.bandEdges].sort((a, b) => a - b);
-  // First the tolerated counts, so the median ranks are known; then every figure in one statement.
-  const counts = rowsOf<{ whole: boolean; c: string | null; n: number }>(await db.execute(toleratedCountsSql(groupSlug, agentSlug)));
+  // First the reports by distinct dose per condition set (the dose–response fit's trials), whose tolerated counts
+  // are the n the median ranks need; then every other figure in one statement.
+  const sets = await doseTrials(tx, accepted(groupSlug, agentSlug), TOLERATED);
   const ranks = new Map<string, { r: number; n: number }>();
-  for (const k of counts) {
-    const rank = medianRank(Number(k.n), s.confidenceLevel);
-    if (rank) ranks.set(k.whole ? "*all*" : (k.c ?? ""), { r: rank.r, n: Number(k.n) });
+  for (const [key, { tolerated }] of sets) {
+    const rank = medianRank(tolerated, s.confidenceLevel);
+    if (rank) ranks.set(key, { r: rank.r, n: tolerated });
   }
-  const rows = rowsOf<Row>(await db.execute(summarySql(groupSlug, agentSlug, edges, ranks)));
+  const rows = rowsOf<Row>(await tx.execute(summarySql(groupSlug, agentSlug, edges, ranks)));
   const values = rows.map((row) => {
     const { bands, ...summary } = summaryFromRow(row, group, edges, s.confidenceLevel, s.minReports);
     return {
       groupSlug, agentSlug, conditionSlug: row.whole ? "" : (row.c ?? ""), methodVersion: METHOD_VERSION, confidenceLevel: s.confidenceLevel,
-      reports: Number(row.reports), summary, detail: { bands }, computedAt: new Date(),
+      reports: Number(row.reports), summary: { ...summary, doseResponse: doseResponseOf(sets, row.whole ? "*all*" : (row.c ?? ""), s.confidenceLevel) }, detail: { bands }, computedAt: new Date(),
     };
   });
-  invalidateSummaryCache();
-  await db.transaction(async (tx) => {
-    await tx.delete(evidenceSummaries).where(and(eq(evidenceSummaries.groupSlug, groupSlug), eq(evidenceSummaries.agentSlug, agentSlug)));
-    if (values.length) await tx.insert(evidenceSummaries).values(values);
-  });
+  await tx.delete(evidenceSummaries).where(and(eq(evidenceSummaries.groupSlug, groupSlug), eq(evidenceSummaries.agentSlug, agentSlug)));
+  if (values.length) await tx.insert(evidenceSummaries).values(values);
   return values.length;
 }
 
-/** After an accept, retract, correction or import: recompute each touched group × agent once. */
-export async function recomputeAfterChange(pairs: { groupSlug: string | null; agentSlug: string | null }[]): Promise<void> {
-  const db = await getDb();
-  const settings = await getClubSettings();
-  const seen = new Set<string>();
-  for (const p of pairs) {
-    if (!p.groupSlug || !p.agentSlug) continue;
-    const key = `${p.groupSlug}\u0000${p.agentSlug}`;
-    if (seen.has(key)) continue;
-    seen.add(key);
-    await recomputeGroupAgent(db, p.groupSlug, p.agentSlug, settings);
-  }
-}
-
-/** Everything (settings change, first start after seeding): every group × agent with accepted reports. */
-export async function recomputeAll(db?: Db): Promise<number> {
-  const d = db ?? (await getDb());
-  const settings = await getClubSettings();
-  const pairs = rowsOf<{ group_slug: string; agent_slug: string }>(
-    await d.execute(sql`select distinct group_slug, agent_slug from reports where status = 'accepted' and group_slug is not null and agent_slug is not null
-                        union select distinct group_slug, agent_slug from evidence_summaries`),
-  );
-  let n = 0;
-  for (const p of pairs) n += await recomputeGroupAgent(d, p.group_slug, p.agent_slug, settings);
+/** Recomputes and stores one group × agent now, under its lock, in one transaction (benchmarks, scripts). */
+export async function recomputeGroupAgent(db: Db, groupSlug: string, agentSlug: string, settings?: Settings): Promise<number> {
+  const n = await db.transaction(async (tx) => {
+    await lockPair(tx, groupSlug, agentSlug);
+    return replacePairFigures(tx, groupSlug, agentSlug, settings ?? (await getClubSettings(tx)));
+  });
+  invalidateSummaryCache();
   return n;
 }
 

@@ -1,8 +1,10 @@
+import "server-only";
 import { asc, eq } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";
 import { getClubSettings } from "@/features/catalogue/server";
 import { AppError, notFound } from "@/features/shared/errors";
 import { wilson } from "../stats";
+import { fitDoseResponse } from "../dose-response";
 import { ANECDOTAL_TEXT, METHOD_VERSION, type Summary, type SummaryDetail } from "../summary";
 import { getPointsAndSpecies, getStoredSummaries, getStoredSummary } from "./compute";
 
@@ -13,7 +15,7 @@ function emptySummary(group: { slug: string; name: string }, edges: number[], le
   return {
     group, reports: 0, members: 0, fish: 0, tolerated: 0, toleratedShare: none,
     toleratedDose: { min: null, p10: null, p25: null, median: null, p75: null, p90: null, max: null, medianInterval: null },
-    lowestAdverseDose: null, sparse: true,
+    lowestAdverseDose: null, sparse: true, doseResponse: fitDoseResponse([], level),
     bands: edges.slice(0, -1).map((from, i) => ({ from, to: edges[i + 1]!, reports: 0, tolerated: 0, toleratedShare: none, cleared: 0, clearedShare: none })),
     points: [], species: [],
   };

@@ -1,3 +1,4 @@
+import "server-only";
 import crypto from "node:crypto";
 import { execFile } from "node:child_process";
 import fs from "node:fs";
@@ -14,7 +15,7 @@ import { getDb, getDbKind, schema, type Db, type DbKind } from "@/db/client";
 import { AppError } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { dataDir, getEnv } from "@/features/shared/env";
-import { assertRole } from "@/features/members/server";
+import { authorize, canTakeBackups } from "@/features/shared/policies";
 
 const run = promisify(execFile);
 
@@ -230,7 +231,7 @@ export function backupFileName(createdAt: string): string {
 
 /** GET /api/admin/backup: a consistent archive of the running club, for admins only. */
 export async function createBackup({ actor }: { actor: Actor | null }): Promise<{ stream: ReadableStream<Uint8Array>; fileName: string; manifest: BackupManifest }> {
-  assertRole(actor, ["admin"], "download a backup of the club");
+  authorize(actor, canTakeBackups, "download a backup of the club");
   const staged = await stage();
   return {
     stream: Readable.toWeb(archiveStream(staged).stream) as ReadableStream<Uint8Array>,

@@ -1,4 +1,6 @@
+import "server-only";
 export { exportReportsCsv, importReportsCsv, pseudonym, reportColumns, type ImportResult } from "./reports-csv";
+export { getExchangeOverview } from "./overview";
 export {
   archivePaths, BACKUP_FORMAT, BACKUP_FORMAT_VERSION, backupsDir, countClub, createBackup, pruneBackups, runNightlyBackupIfDue, secretFingerprint,
   startBackupScheduler, writeBackupFile, type BackupCounts, type BackupManifest,

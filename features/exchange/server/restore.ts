@@ -1,3 +1,4 @@
+import "server-only";
 import crypto from "node:crypto";
 import { execFile } from "node:child_process";
 import fs from "node:fs";

@@ -1,2 +1,3 @@
-export { sendMail, listCaughtMail, readCaughtMail, mailDir } from "./mailer";
-export { verificationMail, resetMail } from "./templates";
+import "server-only";
+export { sendMail, listCaughtMail, readCaughtMail, mailDir, maskLinks } from "./mailer";
+export { verificationMail, resetMail, signUpAttemptMail, signInLockedMail } from "./templates";

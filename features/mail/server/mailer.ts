@@ -1,8 +1,10 @@
+import "server-only";
 import fs from "node:fs";
 import path from "node:path";
 import nodemailer, { type Transporter } from "nodemailer";
 import { simpleParser } from "mailparser";
 import { dataDir, getEnv } from "@/features/shared/env";
+import { authorize, canReadOutbox, type Caller } from "@/features/shared/policies";
 import { startCatcher } from "./catcher";
 
 export interface OutgoingMail {
@@ -46,11 +48,15 @@ export interface StoredMail {
   from: string;
   to: string;
   subject: string;
+  /** The message's text, every link masked. */
   text: string;
+  /** The message's HTML part, if any, every link masked; null when it has none. */
+  html: string | null;
 }
 
-/** Messages kept by the local mail catcher, newest first. */
-export async function listCaughtMail(limit = 100): Promise<StoredMail[]> {
+/** Messages kept by the local mail catcher, newest first, for admins; links are masked. */
+export async function listCaughtMail({ actor }: Caller, limit = 100): Promise<StoredMail[]> {
+  authorize(actor, canReadOutbox, "read the mail outbox");
   const dir = mailDir();
   if (!fs.existsSync(dir)) return [];
   const names = fs
@@ -59,10 +65,16 @@ export async function listCaughtMail(limit = 100): Promise<StoredMail[]> {
     .sort()
     .reverse()
     .slice(0, limit);
-  return Promise.all(names.map((name) => readCaughtMail(name) as Promise<StoredMail>));
+  return (await Promise.all(names.map((name) => readStored(name)))).filter((m): m is StoredMail => m !== null);
 }
 
-export async function readCaughtMail(id: string): Promise<StoredMail | null> {
+/** One kept message for an admin, links masked; null when there is no such message. */
+export async function readCaughtMail({ actor }: Caller, id: string): Promise<StoredMail | null> {
+  authorize(actor, canReadOutbox, "read the mail outbox");
+  return readStored(id);
+}
+
+async function readStored(id: string): Promise<StoredMail | null> {
   if (!/^[\w.-]+\.eml$/.test(id) || id.startsWith(".")) return null;
   const file = path.join(mailDir(), id);
   if (!fs.existsSync(file)) return null;
@@ -74,6 +86,32 @@ export async function readCaughtMail(id: string): Promise<StoredMail | null> {
     from: parsed.from?.text ?? "",
     to: addr(parsed.to),
     subject: parsed.subject ?? "(no subject)",
-    text: parsed.text ?? "",
+    text: maskLinks(parsed.text ?? ""),
+    html: typeof parsed.html === "string" ? maskLinks(parsed.html) : null,
   };
+}
+
+export const MASK = "•••";
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/**
+ * Masks what could work as a key in a link: every query value and fragment, and every long path
+ * segment (sign-in tokens travel in either) — except report ids, which open nothing by themselves.
+ * An admin reading the outbox sees who got which kind of link, and cannot use it.
+ */
+export function maskLinks(text: string): string {
+  return text.replace(/https?:\/\/[^\s"'<>]+/g, (link) => {
+    let url: URL;
+    try {
+      url = new URL(link.replace(/&amp;/g, "&"));
+    } catch {
+      return MASK;
+    }
+    const pathPart = url.pathname
+      .split("/")
+      .map((seg) => (seg.length >= 16 && !UUID.test(seg) ? MASK : seg))
+      .join("/");
+    const query = [...url.searchParams.keys()].map((k) => `${k}=${MASK}`).join("&");
+    return `${url.origin}${pathPart}${query ? `?${query}` : ""}${url.hash ? `#${MASK}` : ""}`;
+  });
 }

@@ -6,12 +6,13 @@ import { useId, useState, type FormEvent, type ReactNode } from "react";
 import { authClient } from "../auth-client";
 import { Button, Field, Notice, TextInput } from "@/features/shared/components/ui";
 
-type Failure = { status?: number; message?: string; code?: string } | null | undefined;
+// better-auth's own errors are { code, message }; the app's limits answer in its envelope { error: { code, message } }.
+type Failure = { status?: number; message?: string; code?: string; error?: { code?: string; message?: string } } | null | undefined;
 
 /** Turns better-auth's error into a sentence a person can act on. */
 function explain(err: Failure, context: "sign-in" | "sign-up" | "reset"): string {
   if (!err) return "Something went wrong. Try again.";
-  if (err.status === 429) return "Too many attempts in a short time. Wait a few seconds, then try again.";
+  if (err.status === 429) return err.error?.message ?? "Too many attempts in a short time. Wait a few seconds, then try again.";
   if (context === "sign-in" && err.status === 401) return "That e-mail and password do not match an account. Check both and try again.";
   if (context === "sign-in" && err.status === 403)
     return "Confirm your e-mail address first: we have sent you a new confirmation link.";
@@ -19,7 +20,7 @@ function explain(err: Failure, context: "sign-in" | "sign-up" | "reset"): string
     return "An account with that e-mail address already exists. Sign in, or reset the password.";
   if (err.code === "PASSWORD_TOO_SHORT") return "Choose a password of at least 10 characters.";
   if (err.code === "INVALID_TOKEN") return "This reset link has expired or was already used. Ask for a new one.";
-  return err.message ?? "Something went wrong. Try again.";
+  return err.message ?? err.error?.message ?? "Something went wrong. Try again.";
 }
 
 function FormShell({ title, children, footer }: { title: string; children: ReactNode; footer?: ReactNode }) {

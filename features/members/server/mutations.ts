@@ -1,18 +1,19 @@
+import "server-only";
 import { and, count, eq, ne } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
 import type { Actor, Role } from "@/features/shared/roles";
-import { assertRole } from "./session";
-import { getMemberById } from "./queries";
+import { authorize, canManageMembers } from "@/features/shared/policies";
+import { findMember } from "./queries";
 import type { Member } from "../schemas";
 
 const { users, roleChanges, sessions } = schema;
 
 /** An admin changes a member's role; the change is recorded. The last admin cannot be demoted. */
 export async function changeMemberRole(actor: Actor | null, userId: string, role: Role): Promise<Member> {
-  assertRole(actor, ["admin"], "change members' roles");
+  authorize(actor, canManageMembers, "change members' roles");
   const db = await getDb();
-  const target = await getMemberById(userId);
+  const target = await findMember(userId);
   if (!target) throw notFound("That member");
   if (target.role === role) return target;
   if (target.role === "admin") {

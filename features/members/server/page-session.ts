@@ -1,3 +1,4 @@
+import "server-only";
 import { headers } from "next/headers";
 import { redirect } from "next/navigation";
 import type { Actor, Role } from "@/features/shared/roles";

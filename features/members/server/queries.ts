@@ -1,8 +1,10 @@
+import "server-only";
 import { and, asc, count, desc, eq, ilike, or, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { getDb, schema } from "@/db/client";
 import type { ListMembersQuery, Member, MemberList } from "../schemas";
 import { isRole } from "@/features/shared/roles";
+import { authorize, canManageMembers, canSeeMember, type Caller } from "@/features/shared/policies";
 
 const { users, roleChanges } = schema;
 
@@ -18,7 +20,9 @@ function toMember(u: typeof users.$inferSelect): Member {
   };
 }
 
-export async function getMembers(q: ListMembersQuery): Promise<MemberList> {
+/** The club's members, for admins: search, role filter, sort, pages. */
+export async function getMembers({ actor }: Caller, q: ListMembersQuery): Promise<MemberList> {
+  authorize(actor, canManageMembers, "list the club's members");
   const db = await getDb();
   const where: SQL[] = [];
   if (q.q) {
@@ -42,15 +46,24 @@ export async function getMembers(q: ListMembersQuery): Promise<MemberList> {
   return { members: rows.map(toMember), total: total?.n ?? 0, page: q.page, pageSize: q.pageSize };
 }
 
-export async function getMemberById(id: string): Promise<Member | null> {
+/** A member's account: their own, or anyone's for an admin; null when there is none. */
+export async function getMemberById({ actor }: Caller, id: string): Promise<Member | null> {
+  authorize(actor, (a) => canSeeMember(a, id), "see other members' accounts");
+  return findMember(id);
+}
+
+/** Unchecked lookup for this feature's own writes, after they have checked the caller. */
+export async function findMember(id: string): Promise<Member | null> {
   const db = await getDb();
   const [row] = await db.select().from(users).where(eq(users.id, id)).limit(1);
   return row ? toMember(row) : null;
 }
 
-export async function getRoleChangesByUserId(userId?: string, limit = 50) {
+/** The role-change log (one member's, or everyone's), newest first, for admins. */
+export async function getRoleChangesByUserId({ actor }: Caller, userId?: string, limit = 50) {
+  authorize(actor, canManageMembers, "see the role-change log");
   const db = await getDb();
-  const actor = alias(users, "actor");
+  const changer = alias(users, "actor");
   const member = alias(users, "member");
   const rows = await db
     .select({
@@ -59,11 +72,11 @@ export async function getRoleChangesByUserId(userId?: string, limit = 50) {
       memberName: member.name,
       fromRole: roleChanges.fromRole,
       toRole: roleChanges.toRole,
-      actorName: actor.name,
+      actorName: changer.name,
       at: roleChanges.at,
     })
     .from(roleChanges)
-    .leftJoin(actor, eq(actor.id, roleChanges.actorId))
+    .leftJoin(changer, eq(changer.id, roleChanges.actorId))
     .innerJoin(member, eq(member.id, roleChanges.userId))
     .where(userId ? eq(roleChanges.userId, userId) : undefined)
     .orderBy(desc(roleChanges.at), desc(roleChanges.id))

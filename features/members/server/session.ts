@@ -1,3 +1,4 @@
+import "server-only";
 import { forbidden, unauthenticated } from "@/features/shared/errors";
 import { isRole, type Actor, type Role } from "@/features/shared/roles";
 import { getAuth } from "./auth";

@@ -1,3 +1,4 @@
+import "server-only";
 import crypto from "node:crypto";
 import { eq } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";

@@ -1,3 +1,4 @@
+import "server-only";
 // Identifies an image by its first bytes, never by its name or declared type.
 export type ImageKind = "jpeg" | "png" | "webp" | "avif" | "heic" | "gif" | "svg" | "unknown";
 

@@ -1,3 +1,4 @@
+import "server-only";
 import fs from "node:fs/promises";
 import path from "node:path";
 import { dataDir } from "@/features/shared/env";

@@ -1,3 +1,4 @@
+import "server-only";
 import { and, count, eq, isNull, lte, max } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";

@@ -1,3 +1,4 @@
+import "server-only";
 import { and, eq } from "drizzle-orm";
 import { schema, type Db } from "@/db/client";
 import { AppError, type FieldIssue } from "@/features/shared/errors";

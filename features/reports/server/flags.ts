@@ -1,3 +1,4 @@
+import "server-only";
 import { and, count, eq, inArray, max, min, ne, sql } from "drizzle-orm";
 import { schema, type Db } from "@/db/client";
 import { statedMismatch } from "./derive";

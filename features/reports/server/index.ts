@@ -1,4 +1,5 @@
-export { canSeeReport, getReportById, getReportRowById, getVisibleReportRow, getReportsByAuthorId, getReportHistory, type ReportView } from "./queries";
+import "server-only";
+export { canSeeReport, getReportById, getReportRowById, getVisibleReportRow, getReportsByAuthorId, getReportHistory, getReportFormCatalogue, type ReportView } from "./queries";
 export { createReport, createDraft, updateReport, submitReport, deleteDraft, recordEvent } from "./mutations";
 export { addCourseEntry, runDueReminders, startReminderScheduler } from "./course";
 export { computeFlags, type Flag } from "./flags";

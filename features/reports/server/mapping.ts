@@ -1,3 +1,4 @@
+import "server-only";
 import { schema } from "@/db/client";
 import type { ReportDraft, ReportInput } from "../schemas";
 

@@ -1,3 +1,4 @@
+import "server-only";
 import crypto from "node:crypto";
 import { and, eq } from "drizzle-orm";
 import { getDb, schema, type Db } from "@/db/client";

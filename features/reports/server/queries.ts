@@ -1,23 +1,20 @@
+import "server-only";
 import { and, asc, count, desc, eq, inArray } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { getDb, schema } from "@/db/client";
-import { notFound } from "@/features/shared/errors";
-import { canReview, type Actor } from "@/features/shared/roles";
+import { notFound, unauthenticated } from "@/features/shared/errors";
+import type { Actor } from "@/features/shared/roles";
+import { canReview, canSeeReport, isSignedIn, type Caller } from "@/features/shared/policies";
+import { getCatalogue } from "@/features/catalogue/server";
 import type { ListMineQuery, ReportStatus } from "../schemas";
 import type { ReportRow } from "./mapping";
 
 const { reports, species, agents, photos, reportEvents, users, courseEntries } = schema;
 
-/**
- * Who may see a report: its author always; moderators and admins once it has been submitted
- * (drafts stay private). Everyone else gets 404, so a report's existence is not revealed.
- */
-export function canSeeReport(actor: Actor | null, r: Pick<ReportRow, "authorId" | "status">): boolean {
-  if (!actor) return false;
-  if (r.authorId === actor.id) return true;
-  return canReview(actor) && r.status !== "draft";
-}
+// The rule lives in the shared policy module; re-exported for existing callers.
+export { canSeeReport };
 
+/** The raw row, unchecked: for this and higher features' own writes after they check the caller. Never for a page. */
 export async function getReportRowById(id: string): Promise<ReportRow | null> {
   const db = await getDb();
   const [row] = await db.select().from(reports).where(eq(reports.id, id));
@@ -83,7 +80,9 @@ export async function getReportById(actor: Actor | null, id: string) {
 }
 export type ReportView = Awaited<ReturnType<typeof getReportById>>;
 
-export async function getReportsByAuthorId(actor: Actor, q: ListMineQuery) {
+/** The caller's own reports; a visitor has none to list (401). */
+export async function getReportsByAuthorId(actor: Actor | null, q: ListMineQuery) {
+  if (!isSignedIn(actor)) throw unauthenticated();
   const db = await getDb();
   const where = and(eq(reports.authorId, actor.id), q.status ? eq(reports.status, q.status) : undefined);
   const col = {
@@ -131,4 +130,11 @@ export async function getReportHistory(actor: Actor | null, id: string) {
   return {
     events: rows.map((e) => ({ at: e.at.toISOString(), actor: e.actorId ? { id: e.actorId, name: e.actorName ?? "" } : null, action: e.action, from: e.from, to: e.to, note: e.note })),
   };
+}
+
+/** What the report form offers (visible species, conditions, agents): for signed-in members, who may report. */
+export async function getReportFormCatalogue({ actor }: Caller) {
+  if (!isSignedIn(actor)) throw unauthenticated();
+  const c = await getCatalogue();
+  return { species: c.species, conditions: c.conditions, agents: c.agents };
 }

@@ -1,8 +1,10 @@
+import "server-only";
 import { and, desc, eq } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { getDb, schema } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
 import { publicBaseUrl } from "@/features/shared/env";
+import { enqueueEvidenceRecompute, wakeEvidenceWorker } from "@/features/shared/server/evidence-outbox";
 import type { Actor } from "@/features/shared/roles";
 import { assertRole } from "@/features/members/server";
 import { sendMail } from "@/features/mail/server";
@@ -49,9 +51,12 @@ export async function decideReport(actor: Actor | null, id: string, input: Decis
       .returning();
     if (!u) return null;
     await recordEvent(tx, { reportId: id, actorId: actor.id, action: input.decision, from, to, note: input.note || null });
+    // Accept and retract change what counts: the summaries they touch go stale with this same commit.
+    if (to === "accepted" || from === "accepted") await enqueueEvidenceRecompute(tx, [u]);
     return u;
   });
   if (!updated) throw await conflict(id, (await getReportRowById(id))?.status ?? "gone", input.decision);
+  wakeEvidenceWorker();
   await notifyMember(updated.authorId, id, input.decision, input.note).catch((err) => console.error("Decision mail failed (the decision stands):", err));
   return { id, status: updated.status, groupSlug: updated.groupSlug, agentSlug: updated.agentSlug };
 }
@@ -90,7 +95,7 @@ export async function correctReport(actor: Actor | null, id: string, input: Corr
   if (row.authorId === actor.id) throw new AppError("forbidden", "You cannot correct your own report; another moderator has to.");
   if (!["awaiting_review", "accepted"].includes(row.status)) throw new AppError("conflict", `This report is ${row.status.replace("_", " ")}; corrections apply while it awaits review or is accepted.`);
   const db = await getDb();
-  return db.transaction(async (tx) => {
+  const result = await db.transaction(async (tx) => {
     if (input.kind === "species") {
       const [sp] = await tx.select().from(species).where(eq(species.id, input.speciesId));
       if (!sp) throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "speciesId", message: `No species "${input.speciesId}" in the catalogue.` }]);
@@ -104,6 +109,10 @@ export async function correctReport(actor: Actor | null, id: string, input: Corr
     const [fresh] = await tx.select().from(reports).where(eq(reports.id, id));
     const d = await derive(tx as never, fresh!);
     const [u] = await tx.update(reports).set(d).where(eq(reports.id, id)).returning();
+    // An accepted report's correction moves figures: of its group, and of the group it left.
+    if (u!.status === "accepted") await enqueueEvidenceRecompute(tx, [u!, { groupSlug: row.groupSlug, agentSlug: u!.agentSlug }]);
     return { id, status: u!.status, groupSlug: u!.groupSlug, agentSlug: u!.agentSlug, previousGroupSlug: row.groupSlug };
   });
+  wakeEvidenceWorker();
+  return result;
 }

@@ -1,3 +1,4 @@
+import "server-only";
 import { and, eq, gt, inArray } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";
 import { publicBaseUrl } from "@/features/shared/env";

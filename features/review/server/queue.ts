@@ -1,12 +1,15 @@
+import "server-only";
 import { asc, count, desc, eq, sql } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";
 import type { Actor } from "@/features/shared/roles";
-import { assertRole } from "@/features/members/server";
+import { authorize, canReview, type Caller } from "@/features/shared/policies";
+import { notFound } from "@/features/shared/errors";
+import { getReportById, getReportHistory } from "@/features/reports/server";
 
 const { reports, species, speciesGroups, agents, users } = schema;
 
 export async function getReviewQueue(actor: Actor | null, order: "oldest" | "completeness" = "oldest") {
-  assertRole(actor, ["moderator", "admin"], "review reports");
+  authorize(actor, canReview, "review reports");
   const db = await getDb();
   const rows = await db
     .select({
@@ -31,14 +34,17 @@ export async function getReviewQueue(actor: Actor | null, order: "oldest" | "com
   };
 }
 
-export async function countAwaitingReview(): Promise<number> {
+/** How many reports wait for a moderator: for reviewers. */
+export async function countAwaitingReview({ actor }: Caller): Promise<number> {
+  authorize(actor, canReview, "see the review queue");
   const db = await getDb();
   const [n] = await db.select({ n: count() }).from(reports).where(eq(reports.status, "awaiting_review"));
   return n?.n ?? 0;
 }
 
-/** Where a dose falls against the group's accepted reports for the agent (quartiles in SQL). */
-export async function getGroupContext(groupSlug: string | null, agentSlug: string | null, dose: number | null) {
+/** Where a dose falls against the group's accepted reports for the agent (quartiles in SQL): for reviewers. */
+export async function getGroupContext({ actor }: Caller, groupSlug: string | null, agentSlug: string | null, dose: number | null) {
+  authorize(actor, canReview, "review reports");
   if (!groupSlug || !agentSlug) return null;
   const db = await getDb();
   const res = await db.execute(sql`
@@ -53,4 +59,19 @@ export async function getGroupContext(groupSlug: string | null, agentSlug: strin
      where status = 'accepted' and group_slug = ${groupSlug} and agent_slug = ${agentSlug} and concentration is not null`);
   const row = (res as unknown as { rows: Record<string, number | null>[] }).rows[0]!;
   return { n: Number(row.n), min: row.min, p25: row.p25, median: row.median, p75: row.p75, max: row.max, below: Number(row.below) };
+}
+
+/**
+ * Everything the review page shows about one submitted report: the report with its notes and flags,
+ * its history and where its dose falls. Only reviewers (403 otherwise); drafts do not exist here (404).
+ */
+export async function getReviewPage({ actor }: Caller, id: string) {
+  authorize(actor, canReview, "review reports");
+  const report = await getReportById(actor, id);
+  if (report.status === "draft") throw notFound("That report");
+  const [history, context] = await Promise.all([
+    getReportHistory(actor, id),
+    getGroupContext({ actor }, report.groupSlug, report.treatment.agentSlug, report.concentration),
+  ]);
+  return { report, history, context };
 }

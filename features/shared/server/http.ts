@@ -1,3 +1,4 @@
+import "server-only";
 import { z } from "zod";
 import { AppError, type FieldIssue } from "../errors";
 
@@ -100,7 +101,7 @@ export function errorResponse(err: unknown): Response {
   }
   console.error("Unexpected error in a route handler:", err);
   return json(
-    { error: { code: "internal", message: "Something went wrong on our side; the change was not made. Try again shortly." } },
+    { error: { code: "internal", message: "Something went wrong on our side, so we cannot confirm what happened. Reload to check whether your change was saved before trying again." } },
     500,
   );
 }

@@ -3,6 +3,8 @@ import { getCatalogue, getCatalogueChanges } from "@/features/catalogue/server";
 import { CatalogueEditor, type FieldDef } from "@/features/catalogue/components/catalogue-editor";
 import { catalogueKinds, type CatalogueKind } from "@/features/catalogue";
 import { PageTitle } from "@/features/shared/components/ui";
+import { getPageActor } from "@/features/members/server";
+import { pageData } from "@/features/shared/server/page";
 
 export const metadata = { title: "Catalogue" };
 
@@ -11,7 +13,8 @@ const labels: Record<CatalogueKind, string> = { groups: "Species groups", specie
 export default async function CataloguePage({ searchParams }: { searchParams: Promise<{ list?: string }> }) {
   const { list } = await searchParams;
   const kind = (catalogueKinds as readonly string[]).includes(list ?? "") ? (list as CatalogueKind) : "species";
-  const [catalogue, changes] = await Promise.all([getCatalogue(), getCatalogueChanges(15)]);
+  const actor = await getPageActor();
+  const [catalogue, changes] = await Promise.all([getCatalogue(), pageData(getCatalogueChanges({ actor }, 15))]);
   const groupOptions = catalogue.speciesGroups.map((g) => ({ value: g.slug, label: g.name }));
   const agentOptions = catalogue.agents.map((a) => ({ value: a.slug, label: a.name }));
   const defs: Record<CatalogueKind, { fields: FieldDef[]; columns: string[] }> = {

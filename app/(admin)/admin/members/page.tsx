@@ -1,11 +1,13 @@
 import { PageTitle } from "@/features/shared/components/ui";
 import { MembersTable } from "@/features/members/components/members-table";
-import { getRoleChangesByUserId } from "@/features/members/server";
+import { getPageActor, getRoleChangesByUserId } from "@/features/members/server";
+import { pageData } from "@/features/shared/server/page";
 
 export const metadata = { title: "Members" };
 
 export default async function MembersPage() {
-  const changes = await getRoleChangesByUserId(undefined, 20);
+  const actor = await getPageActor();
+  const changes = await pageData(getRoleChangesByUserId({ actor }, undefined, 20));
   return (
     <div className="grid gap-8">
       <PageTitle lead="Change a role with its menu; the change takes effect at once and is recorded below.">Members and roles</PageTitle>

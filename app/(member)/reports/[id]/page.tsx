@@ -1,12 +1,11 @@
 import Link from "next/link";
-import { notFound } from "next/navigation";
 import { getPageActor } from "@/features/members/server";
 import { getReportById, getReportHistory } from "@/features/reports/server";
 import { StatusBadge } from "@/features/reports/components/status-badge";
 import { CourseLog } from "@/features/reports/components/course-log";
 import { ReportActions } from "@/features/reports/components/report-actions";
 import { Notice, PageTitle } from "@/features/shared/components/ui";
-import { AppError } from "@/features/shared/errors";
+import { pageData } from "@/features/shared/server/page";
 import { getCatalogue } from "@/features/catalogue/server";
 import { ReportDetails } from "@/app/_components/report-details";
 import type { ReportStatus } from "@/features/reports";
@@ -22,11 +21,8 @@ const actionWords: Record<string, string> = {
 export default async function ReportPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ submitted?: string }> }) {
   const [{ id }, { submitted }] = await Promise.all([params, searchParams]);
   const actor = await getPageActor();
-  const report = await getReportById(actor, id).catch((err) => {
-    if (err instanceof AppError && err.code === "not_found") notFound();
-    throw err;
-  });
-  const [history, catalogue] = await Promise.all([getReportHistory(actor, id), getCatalogue()]);
+  const report = await pageData(getReportById(actor, id));
+  const [history, catalogue] = await Promise.all([pageData(getReportHistory(actor, id)), getCatalogue()]);
   const condition = catalogue.conditions.find((c) => c.slug === report.conditionSlug)?.name ?? report.conditionSlug;
   return (
     <div className="grid gap-8">

@@ -3,6 +3,8 @@ import { notFound } from "next/navigation";
 import { getCatalogue } from "@/features/catalogue/server";
 import { getSummaryDetail } from "@/features/evidence/server";
 import { DoseChart } from "@/features/evidence/components/dose-chart";
+import { RiskChart } from "@/features/evidence/components/risk-chart";
+import { isFitted, riskAt } from "@/features/evidence";
 import { counts, fmtDose, pct } from "@/features/evidence/components/format";
 import { Cautions } from "@/features/shared/components/cautions";
 import { Notice, PageTitle } from "@/features/shared/components/ui";
@@ -23,6 +25,10 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
   const usual = d.median;
   const warn = usual != null && s.lowestAdverseDose != null && s.lowestAdverseDose <= usual;
   const plan = usual != null ? `/planner?${new URLSearchParams({ agent: s.agent, target: String(Number(usual.toPrecision(3))), fraction: "0.5", groupName: s.group.name })}` : null;
+  const dr = isFitted(s.doseResponse) ? s.doseResponse : null;
+  // The curve read at the usual (median tolerated) dose, or at the benchmark dose where there is no median.
+  const readAt = dr ? (usual ?? dr.bmd) : null;
+  const read = dr && readAt ? riskAt(dr, readAt, s.confidenceLevel) : null;
   const back = new URLSearchParams({ agent: s.agent, ...(condition ? { condition } : {}) });
   return (
     <div className="grid gap-8">
@@ -73,6 +79,27 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
               In words: {s.tolerated} tolerated doses from {fmtDose(d.min)} to {fmtDose(d.max)} {s.unit}, the middle half between {fmtDose(d.p25)} and {fmtDose(d.p75)}, 10th and 90th percentiles {fmtDose(d.p10)} and {fmtDose(d.p90)};
               {" "}{s.reports - s.tolerated} adverse report{s.reports - s.tolerated === 1 ? "" : "s"}{s.lowestAdverseDose != null ? `, the lowest at ${fmtDose(s.lowestAdverseDose)} ${s.unit}` : ""}.
             </p>
+          </section>
+
+          <section className="grid gap-2" aria-labelledby="risk-heading">
+            <h2 id="risk-heading" className="text-xl font-bold text-peat-900">How the chance of a bad outcome rises with dose</h2>
+            {dr && read ? (
+              <>
+                <figure className="grid gap-1">
+                  <RiskChart unit={s.unit} level={s.confidenceLevel} curve={dr.curve} bmd={dr.bmd} bmdl={dr.bmdl} points={s.points} />
+                  <figcaption className="text-sm text-peat-700">
+                    Anecdotal: a logistic curve fitted to these members&apos; reports, not a controlled study. Red line: the fitted chance that a course goes badly; shaded: its {s.confidenceLevel} % interval; dots: each report, went badly along the top, went well along the bottom; solid rule: BMD₁₀; dashed rule: BMDL₁₀.
+                  </figcaption>
+                </figure>
+                <p data-testid="risk-text">
+                  In words: at {fmtDose(read.dose)} {s.unit}{usual != null ? " (the median tolerated dose)" : ""} about {pct(read.risk)} of courses went badly, {s.confidenceLevel} % interval {pct(read.low)}–{pct(read.high)}.
+                  {" "}The fitted chance reaches 10 % at {fmtDose(dr.bmd)} {s.unit} (BMD₁₀); the lower limit, BMDL₁₀, is {fmtDose(dr.bmdl)} {s.unit}, the upper {fmtDose(dr.bmdu)} {s.unit}.
+                  {" "}Courses below the BMDL₁₀ have gone badly too: it is not a safe dose.
+                </p>
+              </>
+            ) : (
+              <p data-testid="risk-text">No dose–response curve for these reports: {s.doseResponse?.reason ?? "it has not been computed yet."}</p>
+            )}
           </section>
 
           <section className="grid gap-2">

@@ -1,13 +1,11 @@
 import Link from "next/link";
-import { notFound } from "next/navigation";
 import { getPageActor } from "@/features/members/server";
-import { getReportById, getReportHistory } from "@/features/reports/server";
-import { getGroupContext } from "@/features/review/server";
+import { getReviewPage } from "@/features/review/server";
 import { DecisionForm } from "@/features/review/components/decision-form";
 import { StatusBadge } from "@/features/reports/components/status-badge";
 import { getCatalogue } from "@/features/catalogue/server";
 import { PageTitle } from "@/features/shared/components/ui";
-import { AppError } from "@/features/shared/errors";
+import { pageData } from "@/features/shared/server/page";
 import type { ReportStatus } from "@/features/reports";
 import { ReportDetails } from "@/app/_components/report-details";
 
@@ -18,15 +16,8 @@ const fmt = (x: number | null | undefined) => (x == null ? "—" : x >= 10 ? x.t
 export default async function ReviewReportPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
   const actor = await getPageActor();
-  const report = await getReportById(actor, id).catch((err) => {
-    if (err instanceof AppError && err.code === "not_found") notFound();
-    throw err;
-  });
-  const [history, catalogue, context] = await Promise.all([
-    getReportHistory(actor, id),
-    getCatalogue(),
-    getGroupContext(report.groupSlug, report.treatment.agentSlug, report.concentration),
-  ]);
+  const { report, history, context } = await pageData(getReviewPage({ actor }, id));
+  const catalogue = await getCatalogue();
   const condition = catalogue.conditions.find((c) => c.slug === report.conditionSlug)?.name ?? report.conditionSlug;
   const group = catalogue.speciesGroups.find((g) => g.slug === report.groupSlug);
   return (

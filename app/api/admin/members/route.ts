@@ -5,7 +5,7 @@ import { json, parseQuery, route } from "@/features/shared/server/http";
 export const dynamic = "force-dynamic";
 
 export const GET = route(async (req) => {
-  await requireActor(req.headers, ["admin"], "list the club's members");
+  const actor = await requireActor(req.headers, ["admin"], "list the club's members");
   const query = parseQuery(req, listMembersQuerySchema);
-  return json(await getMembers(query));
+  return json(await getMembers({ actor }, query));
 });

@@ -1,22 +1,16 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { readCaughtMail } from "@/features/mail/server";
+import { getPageActor } from "@/features/members/server";
+import { pageData } from "@/features/shared/server/page";
 import { PageTitle } from "@/features/shared/components/ui";
 
 export const metadata = { title: "Message" };
 
-function Linkified({ text }: { text: string }) {
-  const parts = text.split(/(https?:\/\/\S+)/g);
-  return (
-    <pre className="whitespace-pre-wrap rounded-md border border-peat-100 bg-white p-4 font-sans">
-      {parts.map((p, i) => (/^https?:\/\//.test(p) ? <a key={i} href={p}>{p}</a> : p))}
-    </pre>
-  );
-}
-
 export default async function MailMessagePage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
-  const mail = await readCaughtMail(decodeURIComponent(id));
+  const actor = await getPageActor();
+  const mail = await pageData(readCaughtMail({ actor }, decodeURIComponent(id)));
   if (!mail) notFound();
   return (
     <div className="grid gap-4">
@@ -27,7 +21,9 @@ export default async function MailMessagePage({ params }: { params: Promise<{ id
         <dt className="font-bold">To</dt><dd>{mail.to}</dd>
         <dt className="font-bold">Sent</dt><dd>{new Date(mail.receivedAt).toLocaleString("en-GB")}</dd>
       </dl>
-      <Linkified text={mail.text} />
+      <p className="text-sm text-peat-700">Links are shown with their keys masked (•••): they belong to the recipient, and only work from their own inbox.</p>
+      {/* Plain text, never a live link: the masked address would not work anyway. */}
+      <pre className="whitespace-pre-wrap rounded-md border border-peat-100 bg-white p-4 font-sans" data-testid="mail-text">{mail.text}</pre>
     </div>
   );
 }

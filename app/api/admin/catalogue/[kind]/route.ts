@@ -1,6 +1,5 @@
 import { catalogueInputs, parseCatalogueKind as kindOf } from "@/features/catalogue";
 import { createCatalogueEntry, listCatalogue } from "@/features/catalogue/server";
-import { recomputeAll } from "@/features/evidence/server";
 import { requireActor } from "@/features/members/server";
 import { json, parseJson, route } from "@/features/shared/server/http";
 
@@ -16,6 +15,5 @@ export const POST = route<{ kind: string }>(async (req, { params }) => {
   const kind = kindOf((await params).kind);
   const body = await parseJson(req, catalogueInputs[kind]);
   const r = await createCatalogueEntry(actor, kind, body as never);
-  if (kind === "stock-forms") await recomputeAll();
   return json(r, 201);
 });

@@ -1,6 +1,5 @@
 import { correctionSchema } from "@/features/review";
 import { correctReport } from "@/features/review/server";
-import { recomputeAfterChange } from "@/features/evidence/server";
 import { requireActor } from "@/features/members/server";
 import { json, parseJson, route } from "@/features/shared/server/http";
 
@@ -10,9 +9,7 @@ export const dynamic = "force-dynamic";
 export const POST = route<{ id: string }>(async (req, { params }) => {
   const actor = await requireActor(req.headers, ["moderator", "admin"], "correct reports");
   const { id } = await params;
+  // A correction of an accepted report queues its summaries' recompute in its own transaction.
   const r = await correctReport(actor, id, await parseJson(req, correctionSchema));
-  if (r.status === "accepted") {
-    await recomputeAfterChange([{ groupSlug: r.groupSlug, agentSlug: r.agentSlug }, { groupSlug: r.previousGroupSlug, agentSlug: r.agentSlug }]);
-  }
   return json({ id: r.id, status: r.status });
 });

@@ -1,6 +1,5 @@
 import { cataloguePatchInputs, parseCatalogueKind as kindOf } from "@/features/catalogue";
 import { deleteCatalogueEntry, updateCatalogueEntry } from "@/features/catalogue/server";
-import { recomputeAll } from "@/features/evidence/server";
 import { requireActor } from "@/features/members/server";
 import { json, parseJson, route } from "@/features/shared/server/http";
 
@@ -12,9 +11,8 @@ export const PATCH = route<P>(async (req, { params }) => {
   const { kind: k, key } = await params;
   const kind = kindOf(k);
   const body = await parseJson(req, cataloguePatchInputs[kind]);
+  // Band edges, presets, groups and hiding change what summaries show: the update queues their recompute.
   const r = await updateCatalogueEntry(actor, kind, key, body as never);
-  // Band edges, presets, groups and hiding change what summaries show: recompute them.
-  if (kind !== "conditions") await recomputeAll();
   return json({ key: r.key });
 });
 

@@ -1,6 +1,5 @@
 import { mergeSpeciesInput } from "@/features/catalogue";
 import { mergeSpecies } from "@/features/catalogue/server";
-import { recomputeAll } from "@/features/evidence/server";
 import { requireActor } from "@/features/members/server";
 import { json, parseJson, route } from "@/features/shared/server/http";
 
@@ -10,6 +9,5 @@ export const POST = route<{ key: string }>(async (req, { params }) => {
   const actor = await requireActor(req.headers, ["admin"], "manage the catalogue");
   const body = await parseJson(req, mergeSpeciesInput);
   const r = await mergeSpecies(actor, (await params).key, body.into, body.note);
-  await recomputeAll();
   return json(r);
 });

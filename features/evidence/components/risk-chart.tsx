@@ -1,0 +1,40 @@
+"use client";
+
+import * as Plot from "@observablehq/plot";
+import { useEffect, useRef } from "react";
+import type { CurvePoint } from "../dose-response";
+
+interface Props {
+  unit: string;
+  level: number;
+  curve: CurvePoint[];
+  bmd: number;
+  bmdl: number;
+  points: { dose: number; tolerated: boolean }[];
+}
+
+/** The fitted chance that a course goes badly, with its band, over log dose; BMD₁₀ and BMDL₁₀ marked; each report beneath. */
+export function RiskChart({ unit, level, curve, bmd, bmdl, points }: Props) {
+  const ref = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    const chart = Plot.plot({
+      height: 260,
+      marginLeft: 50,
+      x: { type: "log", label: `Peak dose (${unit}, log scale)`, grid: true },
+      y: { label: "Chance the course goes badly", domain: [0, 1], tickFormat: "%", grid: true },
+      marks: [
+        Plot.areaY(curve, { x: "dose", y1: "low", y2: "high", fill: "#b3261e", fillOpacity: 0.15 }),
+        Plot.lineY(curve, { x: "dose", y: "risk", stroke: "#b3261e", strokeWidth: 2 }),
+        // The reports themselves: went badly along the top, went well along the bottom.
+        Plot.dot(points.filter((p) => p.dose > 0), { x: "dose", y: (p: Props["points"][number]) => (p.tolerated ? 0 : 1), fill: (p: Props["points"][number]) => (p.tolerated ? "#2f7a63" : "#b3261e"), fillOpacity: 0.5, r: 3 }),
+        Plot.ruleX([bmdl], { stroke: "#0f2e26", strokeDasharray: "4,3" }),
+        Plot.ruleX([bmd], { stroke: "#0f2e26" }),
+        Plot.text([{ x: bmd, label: "BMD₁₀" }, { x: bmdl, label: "BMDL₁₀" }], { x: "x", y: 0.92, text: "label", dx: 4, textAnchor: "start", fill: "#0f2e26" }),
+        Plot.ruleY([0.1], { stroke: "#0f2e26", strokeOpacity: 0.4 }),
+      ],
+    });
+    ref.current?.replaceChildren(chart);
+    return () => chart.remove();
+  }, [unit, level, curve, bmd, bmdl, points]);
+  return <div ref={ref} data-testid="risk-chart" aria-hidden="true" />;
+}

@@ -1,0 +1,2 @@
+// Vitest stands in this empty module for "server-only", so tests may import server code.
+export {};
