@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { check, doublePrecision, integer, jsonb, pgTable, serial, text, timestamp } from "drizzle-orm/pg-core";
+import { boolean, check, doublePrecision, integer, jsonb, pgTable, serial, text, timestamp } from "drizzle-orm/pg-core";
 import { users } from "./auth";
 
 /** One row (id = 1): the club's own settings, edited by admins. */
@@ -14,6 +14,10 @@ export const clubSettings = pgTable(
     defaultTemperatureUnit: text().notNull().default("C"),
     /** The share of a group's usual dose the planner offers as a first dose: ½, or ⅓ for a cautious club. */
     firstDoseFraction: doublePrecision().notNull().default(0.5),
+    // The nightly backup into DATA_DIR/backups; off until an admin turns it on.
+    nightlyBackup: boolean().notNull().default(false),
+    // When the last nightly backup was claimed: kept here, not in memory, so a restart never runs one twice.
+    lastNightlyBackupAt: timestamp({ withTimezone: true }),
     updatedAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [

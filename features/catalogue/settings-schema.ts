@@ -16,7 +16,19 @@ export const clubSettingsSchema = z.object({
   firstDoseFraction: z.coerce
     .number({ error: "The first-dose share must be ½ (0.5) or ⅓ (0.3333)." })
     .refine((v) => v === 0.5 || Math.abs(v - 1 / 3) < 1e-4, "The first-dose share must be ½ (0.5) or ⅓ (0.3333).")
-    .transform((v) => (v === 0.5 ? 0.5 : 1 / 3))
-    .default(0.5),
+    // No default here: PATCH takes this schema partially, and a default would reset ⅓ to ½ on any other change.
+    .transform((v) => (v === 0.5 ? 0.5 : 1 / 3)),
+  // A form's checkbox sends "on" or nothing; the API sends true or false.
+  nightlyBackup: z.preprocess(
+    (v) => (v === "on" || v === "true" ? true : v === undefined || v === "false" || v === "off" ? false : v),
+    z.boolean({ error: "nightlyBackup must be true or false." }),
+  ),
 });
 export type ClubSettingsInput = z.infer<typeof clubSettingsSchema>;
+
+/** PATCH /api/admin/settings: any of the settings, at least one, and no unknown names (a typo must not pass silently). */
+export const clubSettingsPatchSchema = clubSettingsSchema
+  .partial()
+  .strict()
+  .refine((v) => Object.values(v).some((x) => x !== undefined), "Send at least one setting to change.");
+export type ClubSettingsPatch = z.infer<typeof clubSettingsPatchSchema>;

@@ -45,6 +45,8 @@ export const canManageCatalogue = isAdmin;
 export const canEditClubSettings = isAdmin;
 export const canReadOutbox = isAdmin;
 export const canImportReports = isAdmin;
+/** A backup holds every account and the session secret. */
+export const canTakeBackups = isAdmin;
 /** The pseudonymised reports export is for reviewers. */
 export const canExportReports = canReview;
 

@@ -4,7 +4,7 @@ import { doseQuerySchema, doseResponseSchema, planIcsQuerySchema } from "@/featu
 import { courseEntrySchema, listMineQuerySchema, reportDraftSchema, reportInputSchema } from "@/features/reports";
 import { correctionSchema, decisionSchema, queueQuerySchema } from "@/features/review";
 import { summariesResponseSchema, summaryDetailSchema, summaryQuerySchema, summarySchema } from "@/features/evidence";
-import { catalogueInputs, mergeSpeciesInput } from "@/features/catalogue";
+import { catalogueInputs, clubSettingsPatchSchema, mergeSpeciesInput } from "@/features/catalogue";
 import { changeRoleSchema, listMembersQuerySchema, memberListSchema, memberSchema } from "@/features/members";
 import { json, route, refuseOtherMethods } from "@/features/shared/server/http";
 import { buildOpenApi, type Operation } from "@/features/shared/server/openapi";
@@ -33,6 +33,14 @@ const operations: Operation[] = [
   {
     method: "patch", path: "/api/admin/members/{id}", summary: "Change a member's role (recorded)", tags: ["members"], auth: "admin",
     body: changeRoleSchema, response: z.object({ member: memberSchema }), errors: [401, 403, 404, 409, 422],
+  },
+  {
+    method: "patch", path: "/api/admin/settings", summary: "Change any of the club's settings (recorded; a new confidence level or minimum queues every summary for recompute)", tags: ["settings"], auth: "admin",
+    body: clubSettingsPatchSchema, response: z.object({ settings: z.object({ name: z.string(), nightlyBackup: z.boolean() }).loose() }), errors: [400, 401, 403, 415, 422],
+  },
+  {
+    method: "get", path: "/api/admin/backup", summary: "A consistent archive of the running club (application/gzip: database, photos, secret, manifest); restore with npm run restore", tags: ["settings"], auth: "admin",
+    response: z.string(), errors: [401, 403],
   },
   {
     method: "post", path: "/api/reports", summary: "File a complete report (as a draft, or submitted at once with submit: true)", tags: ["reports"], auth: "member",

@@ -6,7 +6,7 @@ export interface SettingsState {
   ok: boolean;
   message: string | null;
   fieldErrors: Record<string, string>;
-  values: { name: string; confidenceLevel: number; minReports: number; defaultVolumeUnit: string; defaultTemperatureUnit: string; firstDoseFraction: number };
+  values: { name: string; confidenceLevel: number; minReports: number; defaultVolumeUnit: string; defaultTemperatureUnit: string; firstDoseFraction: number; nightlyBackup: boolean };
 }
 
 export function SettingsForm({ action, initial }: { action: (s: SettingsState, f: FormData) => Promise<SettingsState>; initial: SettingsState }) {
@@ -53,6 +53,16 @@ export function SettingsForm({ action, initial }: { action: (s: SettingsState, f
           <option value="0.5">½ of the usual (median tolerated) dose</option><option value="0.3333333333333333">⅓ of the usual dose (more cautious)</option>
         </select>
         {err("firstDoseFraction")}
+      </div>
+      <div className="grid gap-1">
+        <div className="flex items-center gap-2">
+          <input id="nightlyBackup" name="nightlyBackup" type="checkbox" defaultChecked={v.nightlyBackup} className="h-4 w-4" aria-describedby="nightlyBackup-help" />
+          <label htmlFor="nightlyBackup" className="font-bold">Take a backup every night</label>
+        </div>
+        <p id="nightlyBackup-help" className="text-sm text-peat-700">
+          Around 03:00 server time, into the backups folder of the data directory; the last 7 are kept. Each archive holds every account and the session secret: keep copies somewhere private.
+        </p>
+        {err("nightlyBackup")}
       </div>
       {state.message ? <p role={state.ok ? "status" : "alert"} className={state.ok ? "font-bold text-peat-700" : "font-bold text-alarm-700"}>{state.message}</p> : null}
       <button type="submit" disabled={pending} className="justify-self-start rounded-md bg-peat-700 px-4 py-2 font-bold text-white">{pending ? "Saving and recomputing…" : "Save settings"}</button>

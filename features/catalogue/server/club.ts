@@ -4,6 +4,7 @@ import { getDb, schema, type Db } from "@/db/client";
 import type { Actor } from "@/features/shared/roles";
 import { authorize, canEditClubSettings, type Caller } from "@/features/shared/policies";
 import { enqueueEvidenceRecomputeWhere, wakeEvidenceWorker } from "@/features/shared/server/evidence-outbox";
+import type { ClubSettingsPatch } from "../settings-schema";
 
 export interface ClubSettings {
   name: string;
@@ -32,18 +33,30 @@ export async function getClubSettings(q?: Pick<Db, "select">): Promise<ClubSetti
   };
 }
 
-/** The settings form's data, for admins. */
-export async function getClubSettingsForEdit({ actor }: Caller): Promise<ClubSettings> {
-  authorize(actor, canEditClubSettings, "change the club's settings");
-  return getClubSettings();
+/** What only officers see: the nightly backup's switch and when it last ran. */
+export interface ClubSettingsForEdit extends ClubSettings {
+  nightlyBackup: boolean;
+  lastNightlyBackupAt: Date | null;
 }
 
-/** An admin changes the club's settings; the change is recorded with before and after. */
-export async function updateClubSettings(actor: Actor | null, input: import("../settings-schema").ClubSettingsInput): Promise<ClubSettings> {
+async function readForEdit(): Promise<ClubSettingsForEdit> {
+  const db = await getDb();
+  const [row] = await db.select({ nightlyBackup: schema.clubSettings.nightlyBackup, lastNightlyBackupAt: schema.clubSettings.lastNightlyBackupAt }).from(schema.clubSettings).where(eq(schema.clubSettings.id, 1));
+  return { ...(await getClubSettings()), nightlyBackup: row?.nightlyBackup ?? false, lastNightlyBackupAt: row?.lastNightlyBackupAt ?? null };
+}
+
+/** The settings form's data, for admins. */
+export async function getClubSettingsForEdit({ actor }: Caller): Promise<ClubSettingsForEdit> {
+  authorize(actor, canEditClubSettings, "change the club's settings");
+  return readForEdit();
+}
+
+/** An admin changes any of the club's settings (the form sends all, PATCH some); the change is recorded with before and after. */
+export async function updateClubSettings(actor: Actor | null, input: ClubSettingsPatch): Promise<ClubSettingsForEdit> {
   authorize(actor, canEditClubSettings, "change the club's settings");
   const actorId = actor.id;
   const db = await getDb();
-  const before = await getClubSettings();
+  const { lastNightlyBackupAt: _, ...before } = await readForEdit();
   // The confidence level and the minimum shape every summary; the name and default units none.
   const movesFigures = (input.confidenceLevel !== undefined && input.confidenceLevel !== before.confidenceLevel) || (input.minReports !== undefined && input.minReports !== before.minReports);
   await db.transaction(async (tx) => {
@@ -53,7 +66,7 @@ export async function updateClubSettings(actor: Actor | null, input: import("../
     if (movesFigures) await enqueueEvidenceRecomputeWhere(tx);
   });
   if (movesFigures) wakeEvidenceWorker();
-  return getClubSettings();
+  return readForEdit();
 }
 
 /** Public: whether this club holds invented demo accounts (the demo seed), so every page can say so. */

@@ -1,0 +1,2 @@
+ALTER TABLE "club_settings" ADD COLUMN "nightly_backup" boolean DEFAULT false NOT NULL;--> statement-breakpoint
+ALTER TABLE "club_settings" ADD COLUMN "last_nightly_backup_at" timestamp with time zone;
