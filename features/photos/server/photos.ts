@@ -5,6 +5,7 @@ import { AppError, notFound } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { getVisibleReportRow, recordEvent } from "@/features/reports/server";
 import { readBody } from "@/features/shared/server/http";
+import { claimIdempotencyKey, storeIdempotentResponse, type IdempotencyClaim } from "@/features/shared/server/idempotency";
 import { MAX_PHOTO_BYTES, processPhoto } from "./process";
 import { photoStorage } from "./storage";
 
@@ -30,7 +31,7 @@ export async function readUpload(req: Request): Promise<{ file: Buffer; stage: s
   return { file: Buffer.from(await file.arrayBuffer()), stage };
 }
 
-export async function addPhoto(actor: Actor | null, reportId: string, file: Buffer, stage: string) {
+export async function addPhoto(actor: Actor | null, reportId: string, file: Buffer, stage: string, idempotency?: IdempotencyClaim) {
   if (!actor) throw new AppError("unauthenticated", "Sign in to add photos.");
   const report = await getVisibleReportRow(actor, reportId);
   if (report.authorId !== actor.id) throw new AppError("forbidden", "Only the member who filed a report may add its photos.");
@@ -46,15 +47,21 @@ export async function addPhoto(actor: Actor | null, reportId: string, file: Buff
   const thumbKey = `${reportId}/${id}-thumb.jpg`;
   await storage.put(fullKey, r.full);
   await storage.put(thumbKey, r.thumb);
+  const result = { id, width: r.width, height: r.height, bytes: r.full.length, stage };
   try {
-    await db.insert(schema.photos).values({ id, reportId, uploaderId: actor.id, stage, width: r.width, height: r.height, bytes: r.full.length, fullKey, thumbKey });
-    await recordEvent(db, { reportId, actorId: actor.id, action: "photo_added", from: report.status, to: report.status, note: stage });
+    // The photo, its event and any Idempotency-Key commit together (a replay rolls them back and drops the files).
+    await db.transaction(async (tx) => {
+      await claimIdempotencyKey(tx, idempotency);
+      await tx.insert(schema.photos).values({ id, reportId, uploaderId: actor.id, stage, width: r.width, height: r.height, bytes: r.full.length, fullKey, thumbKey });
+      await recordEvent(tx, { reportId, actorId: actor.id, action: "photo_added", from: report.status, to: report.status, note: stage });
+      await storeIdempotentResponse(tx, idempotency, result);
+    });
   } catch (err) {
     await storage.remove(fullKey);
     await storage.remove(thumbKey);
     throw err;
   }
-  return { id, width: r.width, height: r.height, bytes: r.full.length, stage };
+  return result;
 }
 
 /** A stored rendition, for whoever may see the photo's report; everyone else gets 404. */
