@@ -15,6 +15,7 @@ export function unneutralise(cell: string): string {
 }
 
 // C0 control characters other than tab, line feed and carriage return (a CSV line break inside a quoted cell).
+// eslint-disable-next-line no-control-regex -- matching control characters is this pattern's purpose
 const CONTROL = /[\u0000-\u0008\u000b\u000c\u000e-\u001f]/;
 
 /** The first control character in a cell, as "U+0000", or null. */
