@@ -1,5 +1,7 @@
 import { beforeAll, describe, expect, it } from "vitest";
-import { count, eq } from "drizzle-orm";
+import { count, eq, ne } from "drizzle-orm";
+import Papa from "papaparse";
+import * as exportRoute from "@/app/api/export/reports.csv/route";
 import * as importRoute from "@/app/api/import/reports/route";
 import * as summaryRoute from "@/app/api/summaries/route";
 import { getDb, schema } from "@/db/client";
@@ -93,4 +95,26 @@ describe("importing at scale and refusing bad cells", () => {
     expect(read.status).toBe(200);
     expect(read.settledBeforeEnd).toBe(true);
   }, 300_000);
+
+  it("streams the reports export in chunks, every submitted report once, even where many share a creation time", async () => {
+    const res = await exportRoute.GET(new Request(`${BASE}/api/export/reports.csv`, { headers: { cookie: admin } }), { params: Promise.resolve({}) });
+    expect(res.status).toBe(200);
+    const reader = res.body!.getReader();
+    const decoder = new TextDecoder();
+    let chunks = 0;
+    let text = "";
+    for (;;) {
+      const { done, value } = await reader.read();
+      if (done) break;
+      chunks += 1;
+      text += decoder.decode(value, { stream: true });
+    }
+    const db = await getDb();
+    const [submitted] = await db.select({ n: count() }).from(schema.reports).where(ne(schema.reports.status, "draft"));
+    const rows = Papa.parse<Record<string, string>>(text, { header: true, comments: "#", skipEmptyLines: true }).data;
+    expect(rows).toHaveLength(submitted!.n);
+    expect(new Set(rows.map((r) => r.id)).size).toBe(submitted!.n);
+    // The notice and header, then one chunk per 500 reports: never the whole file at once.
+    expect(chunks).toBe(1 + Math.ceil(submitted!.n / 500));
+  }, 120_000);
 });
