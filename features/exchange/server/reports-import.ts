@@ -305,7 +305,19 @@ export async function runReportsImport(p: PreparedImport, opts: ImportOptions = 
 
   for (let start = 0; start < good.length; start += IMPORT_BATCH) {
     const batch = good.slice(start, start + IMPORT_BATCH);
-    const written = await db.transaction((tx) => writeBatch(tx, actor, batch));
+    let written: GoodRow[];
+    try {
+      written = await db.transaction((tx) => writeBatch(tx, actor, batch));
+    } catch (err) {
+      // Earlier batches are committed: say so, rather than the generic "the change was not made".
+      console.error("Import batch failed:", err);
+      throw new AppError(
+        "internal",
+        `${result.imported} reports were imported before an error on our side at file rows ${batch[0]!.row}–${batch.at(-1)!.row}; nothing after that was written. Import the file again later: reports already here are skipped.`,
+        undefined,
+        { cause: err },
+      );
+    }
     result.imported += written.length;
     result.skipped += batch.length - written.length;
     const pairs = pairsOf(written.filter((g) => g.status === "accepted"));

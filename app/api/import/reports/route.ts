@@ -1,13 +1,10 @@
-import { z } from "zod";
+import { importQuerySchema } from "@/features/exchange";
 import { prepareReportsImport, runReportsImport, type ImportResult } from "@/features/exchange/server";
 import { requireActor } from "@/features/members/server";
 import { AppError } from "@/features/shared/errors";
 import { errorResponse, json, parseQuery, readBody, route } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
-
-const flag = z.enum(["0", "1", "true", "false"], { error: "Use 1 or 0." }).optional().transform((v) => v === "1" || v === "true");
-const querySchema = z.object({ dryRun: flag, partial: flag }).strict();
 
 const answer = ({ imported, skipped, rejected, touched, dryRun }: ImportResult) => ({
   imported, skipped, rejected, touched: touched.map((t) => ({ group: t.groupSlug, agent: t.agentSlug })), ...(dryRun ? { dryRun } : {}),
@@ -19,7 +16,7 @@ const answer = ({ imported, skipped, rejected, touched, dryRun }: ImportResult) 
  */
 export const POST = route(async (req) => {
   const actor = await requireActor(req.headers, ["admin"], "import reports");
-  const opts = parseQuery(req, querySchema);
+  const opts = parseQuery(req, importQuerySchema);
   if (!(req.headers.get("content-type") ?? "").startsWith("text/csv")) {
     throw new AppError("unsupported_type", "Send the file as text/csv, with the columns of the reports export.");
   }
