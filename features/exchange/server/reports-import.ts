@@ -167,6 +167,27 @@ export function prepareReportsImport(actor: Actor | null, text: string): Prepare
 
 const breathe = () => new Promise<void>((resolve) => setImmediate(resolve));
 
+// Fields derive() never reads (outcome, description): left out of its cache key. Any other field, including one
+// added later, is part of the key, so a cached answer is always derive()'s own for the same inputs.
+const NOT_DERIVED = new Set(["fishCount", "sizeClass", "conditionSlug", "startedOn", "ph", "setting", "doses", "intervalHours", "otherTreatments",
+  "fishLost", "lossCause", "distress", "conditionOutcome", "observedDaysAfter", "notes"]);
+type DeriveCache = Map<string, ReturnType<typeof derive>>;
+
+/**
+ * derive() once per distinct set of inputs within an import: it looks up the catalogue (species, agent, stock
+ * presets) for every call, and a file's rows mostly repeat a few tanks, species and stocks.
+ */
+function deriveCached(db: Db, cache: DeriveCache, columns: ReturnType<typeof toColumns>): ReturnType<typeof derive> {
+  const key = JSON.stringify(Object.entries(columns).filter(([k]) => !NOT_DERIVED.has(k)));
+  let hit = cache.get(key);
+  if (!hit) {
+    hit = derive(db, { ...columns, groupSlug: null } as ReportRow);
+    hit.catch(() => {}); // awaited by each row that uses it; no unhandled rejection meanwhile
+    cache.set(key, hit);
+  }
+  return hit.then((d) => ({ ...d }));
+}
+
 /** Checks one row; returns its issues, or the row ready to write. */
 async function checkRow(
   db: Db,
@@ -174,6 +195,7 @@ async function checkRow(
   row: number,
   known: { species: Set<string>; conditions: Set<string>; agents: Set<string> },
   ragged: string | undefined,
+  cache: DeriveCache,
 ): Promise<{ issues: FieldIssue[] } | { good: Omit<GoodRow, "id" | "hadId"> & { id: string | undefined } }> {
   const issues: FieldIssue[] = [];
   if (ragged) issues.push({ path: "(row)", message: `${ragged}; every row needs the header's columns.` });
@@ -228,7 +250,7 @@ async function checkRow(
   const columns = toColumns(check.data);
   let derived: Awaited<ReturnType<typeof derive>>;
   try {
-    derived = await derive(db, { ...columns, groupSlug: null } as ReportRow);
+    derived = await deriveCached(db, cache, columns);
   } catch (err) {
     if (err instanceof AppError && err.issues) return { issues: err.issues };
     throw err;
@@ -262,6 +284,7 @@ export async function runReportsImport(p: PreparedImport, opts: ImportOptions = 
   const good: GoodRow[] = [];
   const seenIds = new Set<string>();
   const seenPrints = new Set<string>();
+  const cache: DeriveCache = new Map();
 
   for (let start = 0; start < rows.length; start += CHECK_CHUNK) {
     const chunk = rows.slice(start, start + CHECK_CHUNK);
@@ -275,7 +298,7 @@ export async function runReportsImport(p: PreparedImport, opts: ImportOptions = 
         result.skipped += 1; // already here: changes nothing, whatever else the row says
         continue;
       }
-      const c = await checkRow(db, raw, row, known, p.ragged.get(row));
+      const c = await checkRow(db, raw, row, known, p.ragged.get(row), cache);
       if ("issues" in c) result.rejected.push({ row, issues: c.issues });
       else {
         if (c.good.id) seenIds.add(c.good.id);
