@@ -1,6 +1,6 @@
 import crypto from "node:crypto";
 import Papa from "papaparse";
-import { and, asc, inArray, ne, sql } from "drizzle-orm";
+import { and, asc, gt, inArray, ne, sql } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";
 import type { Actor } from "@/features/shared/roles";
 import { assertRole, authSecret } from "@/features/members/server";
@@ -39,50 +39,67 @@ export const csvWriteOptions = { escapeFormulae: FORMULA_START, newline: "\r\n" 
 const EXPORT_CHUNK = 500;
 
 /**
+ * Embedded PostgreSQL runs no autovacuum, so after bulk inserts the planner still believes the reports table is
+ * small and sorts the whole table for every chunk instead of walking the primary key (45 ms against 1.6 ms per
+ * chunk of 20,000 reports). ANALYZE samples the table; it takes no lock that blocks reads or writes.
+ */
+export async function refreshPlannerStatistics(): Promise<void> {
+  const db = await getDb();
+  try {
+    await db.execute(sql`analyze reports, report_events`);
+  } catch (err) {
+    // Only the planner's speed depends on it (a PostgreSQL role may lack the right): carry on without.
+    console.warn("Could not refresh the planner's statistics:", err instanceof Error ? err.message : err);
+  }
+}
+
+/**
  * Every submitted report (not drafts) with its review events, reporters and actors pseudonymised; the anecdotal
- * notice on the first line. Streamed: reports are read in keyset-paginated chunks (created_at, id) as the client
- * reads, and each chunk is written with papaparse, so memory stays flat whatever the number of reports.
+ * notice on the first line, in id order. Streamed: reports are read in keyset-paginated chunks as the client reads,
+ * and each chunk is written with papaparse, so memory stays flat whatever the number of reports.
  */
 export function exportReportsCsv(actor: Actor | null): ReadableStream<Uint8Array> {
   assertRole(actor, ["moderator", "admin"], "export reports");
   const encoder = new TextEncoder();
-  let cursor: { at: string; id: string } | null = null;
+  let cursor: string | null = null;
   let started = false;
+  const names = new Map<string, string>();
+  const nameOf = (memberId: string) => names.get(memberId) ?? names.set(memberId, pseudonym(memberId)).get(memberId)!;
   return new ReadableStream<Uint8Array>({
     async pull(controller) {
       if (!started) {
         started = true;
+        await refreshPlannerStatistics();
         controller.enqueue(encoder.encode(`# ${ANECDOTAL_TEXT}\r\n${Papa.unparse([[...reportColumns]], csvWriteOptions)}\r\n`));
         return;
       }
       const db = await getDb();
-      const after = cursor ? sql`(${reports.createdAt}, ${reports.id}) > (${cursor.at}::timestamptz, ${cursor.id})` : undefined;
-      // The cursor keeps created_at as the database's text, so no precision is lost to a JavaScript Date.
+      // Keyset on the primary key: each chunk is one index range scan, however many reports there are.
       const rows = await db
-        .select({ r: reports, at: sql<string>`${reports.createdAt}::text` })
+        .select()
         .from(reports)
-        .where(and(ne(reports.status, "draft"), after))
-        .orderBy(asc(reports.createdAt), asc(reports.id))
+        .where(and(ne(reports.status, "draft"), cursor ? gt(reports.id, cursor) : undefined))
+        .orderBy(asc(reports.id))
         .limit(EXPORT_CHUNK);
       if (!rows.length) {
         controller.close();
         return;
       }
-      cursor = { at: rows[rows.length - 1]!.at, id: rows[rows.length - 1]!.r.id };
+      cursor = rows[rows.length - 1]!.id;
       const events = await db
         .select()
         .from(reportEvents)
-        .where(inArray(reportEvents.reportId, rows.map((x) => x.r.id)))
+        .where(inArray(reportEvents.reportId, rows.map((r) => r.id)))
         .orderBy(asc(reportEvents.reportId), asc(reportEvents.at), asc(reportEvents.id));
       const byReport = new Map<string, ExchangedEvent[]>();
       for (const e of events) {
         const list = byReport.get(e.reportId) ?? [];
-        list.push({ at: e.at.toISOString(), actor: e.actorName ?? (e.actorId ? pseudonym(e.actorId) : null), action: e.action, from: e.fromStatus, to: e.toStatus, note: e.note });
+        list.push({ at: e.at.toISOString(), actor: e.actorName ?? (e.actorId ? nameOf(e.actorId) : null), action: e.action, from: e.fromStatus, to: e.toStatus, note: e.note });
         byReport.set(e.reportId, list);
       }
-      const data = rows.map(({ r }) => {
+      const data = rows.map((r) => {
         const d: Record<(typeof reportColumns)[number], unknown> = {
-          id: r.id, status: r.status, reporter: r.externalReporter ?? pseudonym(r.authorId), species_id: r.speciesId, species_other: r.speciesOther, group_slug: r.groupSlug,
+          id: r.id, status: r.status, reporter: r.externalReporter ?? nameOf(r.authorId), species_id: r.speciesId, species_other: r.speciesOther, group_slug: r.groupSlug,
           fish_count: r.fishCount, size_class: r.sizeClass, condition_slug: r.conditionSlug, started_on: r.startedOn,
           water_volume: r.waterVolume, water_volume_unit: r.waterVolumeUnit, temperature: r.temperature, temperature_unit: r.temperatureUnit, ph: r.ph, setting: r.setting,
           agent_slug: r.agentSlug, stock_percent: r.stockPercent, stock_basis: r.stockBasis, stock_density_g_per_ml: r.stockDensityGPerMl, amount_ml: r.amountMl,

@@ -11,7 +11,7 @@ import { reportInputSchema, reportStatuses, type ReportInput } from "@/features/
 import { derive, type ReportRow } from "@/features/reports/server";
 import { recomputeAfterChange } from "@/features/evidence/server";
 import { controlCharacterIn, unneutralise } from "./csv-cells";
-import type { ExchangedEvent } from "./reports-csv";
+import { refreshPlannerStatistics, type ExchangedEvent } from "./reports-csv";
 
 const { reports, reportEvents } = schema;
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
@@ -350,6 +350,7 @@ export async function runReportsImport(p: PreparedImport, opts: ImportOptions = 
     await breathe();
   }
   result.touched = pairsOf(result.touched.map((t) => ({ columns: t, status: "accepted" })));
+  if (result.imported) await refreshPlannerStatistics(); // the table grew in bulk
   return result;
 }
 
