@@ -1,7 +1,7 @@
 import crypto from "node:crypto";
 import Papa from "papaparse";
 import { z } from "zod";
-import { inArray } from "drizzle-orm";
+import { inArray, sql } from "drizzle-orm";
 import { getDb, schema, type Db } from "@/db/client";
 import { AppError, type FieldIssue } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
@@ -373,6 +373,9 @@ function pairsOf(rows: { columns: { groupSlug?: string | null; agentSlug?: strin
 
 /** Writes one batch; returns the rows it wrote (a row another import wrote meanwhile is left alone). */
 async function writeBatch(tx: Tx, actor: Actor, batch: GoodRow[]): Promise<GoodRow[]> {
+  // One import batch at a time across processes: the re-check below then sees every committed batch, so two
+  // imports of the same file at once cannot both write a row (fingerprints are not unique in the table).
+  await tx.execute(sql`select pg_advisory_xact_lock(hashtext('tanklore.reports-import'))`);
   const ids = batch.filter((g) => g.hadId).map((g) => g.id);
   const prints = batch.filter((g) => !g.hadId).map((g) => g.fingerprint);
   const taken = new Set(ids.length ? (await tx.select({ id: reports.id }).from(reports).where(inArray(reports.id, ids))).map((x) => x.id) : []);
