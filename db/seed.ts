@@ -132,7 +132,7 @@ async function seedReports(db: Db, ids: Map<string, string>): Promise<number> {
       startedOn, waterVolume: volume, waterVolumeUnit: volumeUnit, volumeL, temperature, temperatureUnit, temperatureC: toCelsius(temperature, temperatureUnit),
       ph, setting: pick(["bare", "bare", "planted", "other"]),
       agentSlug, stockFormId: stock.id, stockPercent: stock.percent, stockBasis: stock.basis, stockDensityGPerMl: stock.densityGPerMl, stockActiveFraction: stock.activeFraction ?? 1,
-      amountMl, statedConcentration: off ? Math.round(dose * 1.3 * 10) / 10 : rand() < 0.4 ? Math.round(dose) : null,
+      amountMl, statedConcentration: off ? Math.round(dose * 1.3 * 10) / 10 : rand() < 0.4 ? Math.round(dose) || Number(dose.toPrecision(1)) : null, // never 0: the report schema needs > 0
       doses, intervalHours: doses > 1 ? agent.redoseHours : null, otherTreatments: null,
       fishLost, lossCause, distress, conditionOutcome, observedDaysAfter: 5 + Math.floor(rand() * 14),
       notes: `Demo report (invented data). ${adverse ? "Fish showed stress after dosing." : "Fish came through the course."}`,

@@ -2,3 +2,4 @@ export * from "./auth";
 export * from "./club";
 export * from "./catalogue";
 export * from "./reports";
+export * from "./idempotency";

@@ -33,6 +33,8 @@ export const reports = pgTable(
     source: text().notNull().default("member"),
     /** For imported reports: the pseudonymous reporter of the file, so members are still counted apart. */
     externalReporter: text(),
+    /** For imported reports: a hash of the normalised fields and reporter, so a file without ids imports once. */
+    fingerprint: text(),
 
     speciesId: text().references(() => species.id, { onUpdate: "cascade" }),
     speciesOther: text(),
@@ -91,6 +93,7 @@ export const reports = pgTable(
     index("reports_author_idx").on(t.authorId),
     index("reports_status_idx").on(t.status),
     index("reports_evidence_idx").on(t.agentSlug, t.groupSlug, t.status),
+    index("reports_fingerprint_idx").on(t.fingerprint),
   ],
 );
 
@@ -103,6 +106,8 @@ export const reportEvents = pgTable(
       .notNull()
       .references(() => reports.id, { onDelete: "cascade" }),
     actorId: text().references(() => users.id, { onDelete: "set null" }),
+    /** Who acted, as an imported file named them (a pseudonym), when the actor is no member here. */
+    actorName: text(),
     action: text().notNull(),
     fromStatus: text(),
     toStatus: text(),

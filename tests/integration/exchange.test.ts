@@ -51,9 +51,19 @@ describe("reports CSV", () => {
     expect(bad.status).toBe(415);
     expect((await call(importRoute.POST, "/api/import/reports", { cookie: moderator, body: csv, headers: { "content-type": "text/csv" } })).status).toBe(403);
 
-    const r = await call(importRoute.POST, "/api/import/reports", { cookie: admin, body: csv, headers: { "content-type": "text/csv" } });
+    // Without ?partial=1 a file with rejected rows imports nothing, and says which rows to fix.
+    const refused = await call(importRoute.POST, "/api/import/reports", { cookie: admin, body: csv, headers: { "content-type": "text/csv" } });
+    expect(refused.status).toBe(422);
+    expect(refused.body.imported).toBe(0);
+    expect(refused.body.rejected.map((x: { row: number }) => x.row)).toEqual([4, 5]);
+    expect(refused.body.error.issues[0].path).toBe("row 4: outcome.fishLost");
+    const [none] = await db.select({ n: count() }).from(schema.reports).where(eq(schema.reports.source, "import"));
+    expect(none!.n).toBe(0);
+
+    const r = await call(importRoute.POST, "/api/import/reports?partial=1", { cookie: admin, body: csv, headers: { "content-type": "text/csv" } });
     expect(r.status).toBe(200);
     expect(r.body.imported).toBe(3);
+    expect(r.body.skipped).toBe(0);
     expect(r.body.rejected.map((x: { row: number }) => x.row)).toEqual([4, 5]);
     expect(r.body.rejected[0].issues.map((i: { path: string }) => i.path)).toEqual(["outcome.fishLost"]);
     expect(r.body.rejected[1].issues.map((i: { path: string }) => i.path).sort()).toEqual(["species_id", "startedOn", "water.volume"]);

@@ -7,6 +7,7 @@ import { summariesResponseSchema, summaryDetailSchema, summaryQuerySchema, summa
 import { catalogueInputs, clubSettingsPatchSchema, mergeSpeciesInput } from "@/features/catalogue";
 import { changeRoleSchema, listMembersQuerySchema, memberListSchema, memberSchema } from "@/features/members";
 import { json, route, refuseOtherMethods } from "@/features/shared/server/http";
+import { importQuerySchema, importResponseSchema } from "@/features/exchange";
 import { buildOpenApi, type Operation } from "@/features/shared/server/openapi";
 
 export const dynamic = "force-static";
@@ -43,7 +44,7 @@ const operations: Operation[] = [
     response: z.string(), errors: [401, 403],
   },
   {
-    method: "post", path: "/api/reports", summary: "File a complete report (as a draft, or submitted at once with submit: true)", tags: ["reports"], auth: "member",
+    method: "post", path: "/api/reports", summary: "File a complete report (as a draft, or submitted at once with submit: true); an Idempotency-Key header makes a repeat within 24 h answer the first response", tags: ["reports"], auth: "member",
     body: reportInputSchema, status: 201, response: z.object({ id: z.string(), status: z.enum(["draft", "awaiting_review"]), concentration: z.number().nullable() }), errors: [401, 422],
   },
   { method: "get", path: "/api/reports", summary: "The caller's reports (scope=mine), sorted and paged; with scope=all, every submitted report for moderators and admins (filters status, group, agent, member, dateOf, from, to; members get 403)", tags: ["reports"], auth: "member", query: listMineQuerySchema, response: z.object({ reports: z.array(z.object({ id: z.string(), status: z.string() }).loose()), total: z.number() }), errors: [401, 403, 422] },
@@ -54,7 +55,7 @@ const operations: Operation[] = [
   { method: "post", path: "/api/reports/{id}/submit", summary: "Submit for review", tags: ["reports"], auth: "member", response: z.object({ id: z.string(), status: z.string() }), errors: [401, 404, 409, 422] },
   { method: "get", path: "/api/reports/{id}/history", summary: "The report's audit trail", tags: ["reports"], auth: "member", response: z.object({ events: z.array(z.object({ at: z.string(), action: z.string() }).loose()) }), errors: [401, 404] },
   { method: "post", path: "/api/reports/{id}/entries", summary: "Log a dose or observation on an open course", tags: ["reports"], auth: "member", body: courseEntrySchema, status: 201, response: z.object({ id: z.number() }).loose(), errors: [401, 404, 409, 422] },
-  { method: "post", path: "/api/reports/{id}/photos", summary: "Add a photo (multipart/form-data, field file; JPEG, PNG, WebP or AVIF, ≤ 10 MB, ≤ 40 MP)", tags: ["photos"], auth: "member", status: 201, response: z.object({ id: z.string(), width: z.number(), height: z.number(), bytes: z.number() }), errors: [401, 404, 409, 413, 415] },
+  { method: "post", path: "/api/reports/{id}/photos", summary: "Add a photo (multipart/form-data, field file; JPEG, PNG, WebP or AVIF, ≤ 10 MB, ≤ 40 MP); Idempotency-Key as on POST /api/reports", tags: ["photos"], auth: "member", status: 201, response: z.object({ id: z.string(), width: z.number(), height: z.number(), bytes: z.number() }), errors: [401, 404, 409, 413, 415] },
   { method: "get", path: "/api/review/queue", summary: "Reports awaiting review with their plausibility flags", tags: ["review"], auth: "moderator", query: queueQuerySchema, response: z.object({ reports: z.array(z.object({ id: z.string(), flags: z.array(z.object({ code: z.string(), message: z.string() })) }).loose()) }), errors: [401, 403] },
   { method: "post", path: "/api/reports/{id}/decision", summary: "Accept, return, decline or retract (note required except for accept)", tags: ["review"], auth: "moderator", body: decisionSchema, response: z.object({ id: z.string(), status: z.string() }), errors: [401, 403, 404, 409, 422] },
   { method: "post", path: "/api/reports/{id}/corrections", summary: "Map a not-listed species or correct the likely cause of losses", tags: ["review"], auth: "moderator", body: correctionSchema, response: z.object({ id: z.string(), status: z.string() }), errors: [401, 403, 404, 409, 422] },
@@ -62,7 +63,7 @@ const operations: Operation[] = [
   { method: "get", path: "/api/summaries/{groupSlug}", summary: "One group's summary with bands, anonymous points and species", tags: ["evidence"], query: summaryQuerySchema, response: summaryDetailSchema, errors: [404, 422] },
   { method: "get", path: "/api/export/summaries.csv", summary: "The summaries as CSV, the anecdotal notice inside", tags: ["exchange"], query: summaryQuerySchema, response: z.string(), errors: [422] },
   { method: "get", path: "/api/export/reports.csv", summary: "Submitted reports as CSV, reporters pseudonymised", tags: ["exchange"], auth: "moderator", response: z.string(), errors: [401, 403] },
-  { method: "post", path: "/api/import/reports", summary: "Import reports from CSV (text/csv, the export's columns)", tags: ["exchange"], auth: "admin", response: z.object({ imported: z.number(), rejected: z.array(z.object({ row: z.number(), issues: z.array(z.object({ path: z.string(), message: z.string() })) })) }), errors: [401, 403, 413, 415, 422] },
+  { method: "post", path: "/api/import/reports", summary: "Import reports from CSV (text/csv, the export's columns): rows already here are skipped; a file with rejected rows imports nothing unless partial=1; dryRun=1 writes nothing; Accept: application/x-ndjson streams progress", tags: ["exchange"], auth: "admin", query: importQuerySchema, response: importResponseSchema, errors: [401, 403, 413, 415, 422] },
   { method: "post", path: "/api/admin/catalogue/{kind}", summary: "Add a catalogue entry (kind: groups, species, agents, conditions, stock-forms); body per kind — agents shown", tags: ["catalogue"], auth: "admin", body: catalogueInputs.agents, status: 201, response: z.object({ key: z.string() }), errors: [401, 403, 404, 409, 422] },
   { method: "post", path: "/api/admin/catalogue/species/{key}/merge", summary: "Merge a species into another (its reports move)", tags: ["catalogue"], auth: "admin", body: mergeSpeciesInput, response: z.object({ key: z.string(), into: z.string(), reportsMoved: z.number() }), errors: [401, 403, 404, 422] },
 ];

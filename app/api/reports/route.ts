@@ -3,13 +3,14 @@ import { createReport, getReportsByAuthorId } from "@/features/reports/server";
 import { listAllReports } from "@/features/review/server";
 import { requireActor } from "@/features/members/server";
 import { json, parseJson, parseQuery, route, refuseOtherMethods } from "@/features/shared/server/http";
+import { idempotent } from "@/features/shared/server/idempotency";
 
 export const dynamic = "force-dynamic";
 
 export const POST = route(async (req) => {
   const actor = await requireActor(req.headers);
   const body = await parseJson(req, reportInputSchema);
-  return json(await createReport(actor, body), 201);
+  return idempotent(req, actor.id, body, 201, (claim) => createReport(actor, body, claim));
 });
 
 export const GET = route(async (req) => {

@@ -6,6 +6,7 @@ import { AppError, notFound } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { getVisibleReportRow, recordEvent } from "@/features/reports/server";
 import { readBody } from "@/features/shared/server/http";
+import { claimIdempotencyKey, storeIdempotentResponse, type IdempotencyClaim } from "@/features/shared/server/idempotency";
 import { MAX_PHOTO_BYTES, processPhoto } from "./process";
 import { photoStorage } from "./storage";
 
@@ -38,7 +39,7 @@ async function countPhotos(db: Pick<Db, "select">, reportId: string): Promise<nu
   return row?.n ?? 0;
 }
 
-export async function addPhoto(actor: Actor | null, reportId: string, file: Buffer, stage: string) {
+export async function addPhoto(actor: Actor | null, reportId: string, file: Buffer, stage: string, idempotency?: IdempotencyClaim) {
   if (!actor) throw new AppError("unauthenticated", "Sign in to add photos.");
   const report = await getVisibleReportRow(actor, reportId);
   if (report.authorId !== actor.id) throw new AppError("forbidden", "Only the member who filed a report may add its photos.");
@@ -54,8 +55,11 @@ export async function addPhoto(actor: Actor | null, reportId: string, file: Buff
   const thumbKey = `${reportId}/${id}-thumb.jpg`;
   await storage.put(fullKey, r.full);
   await storage.put(thumbKey, r.thumb);
+  const result = { id, width: r.width, height: r.height, bytes: r.full.length, stage };
   try {
+    // The photo, its event and any Idempotency-Key commit together (a replay rolls them back and drops the files).
     await db.transaction(async (tx) => {
+      await claimIdempotencyKey(tx, idempotency);
       // Parallel uploads to one report queue on its row (FOR UPDATE; PGlite runs one transaction at a time anyway),
       // so each counts the photos the others stored and the limit holds.
       const [locked] = await tx.select({ status: schema.reports.status }).from(schema.reports).where(eq(schema.reports.id, reportId)).for("update");
@@ -63,13 +67,14 @@ export async function addPhoto(actor: Actor | null, reportId: string, file: Buff
       if ((await countPhotos(tx, reportId)) >= MAX_PHOTOS_PER_REPORT) throw tooManyPhotos();
       await tx.insert(schema.photos).values({ id, reportId, uploaderId: actor.id, stage, width: r.width, height: r.height, bytes: r.full.length, fullKey, thumbKey });
       await recordEvent(tx, { reportId, actorId: actor.id, action: "photo_added", from: locked.status, to: locked.status, note: stage });
+      await storeIdempotentResponse(tx, idempotency, result);
     });
   } catch (err) {
     await storage.remove(fullKey);
     await storage.remove(thumbKey);
     throw err;
   }
-  return { id, width: r.width, height: r.height, bytes: r.full.length, stage };
+  return result;
 }
 
 /** A stored rendition, for whoever may see the photo's report; everyone else gets 404. */

@@ -5,6 +5,7 @@ import { getDb, schema, type Db } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { zodIssues } from "@/features/shared/server/http";
+import { claimIdempotencyKey, storeIdempotentResponse, type IdempotencyClaim } from "@/features/shared/server/idempotency";
 import { reportDraftSchema, reportInputSchema, type ReportDraft, type ReportInput } from "../schemas";
 import { checkReferences, derive } from "./derive";
 import { computeFlags } from "./flags";
@@ -59,20 +60,26 @@ async function submitInTx(tx: Tx, row: ReportRow, actor: Actor): Promise<ReportR
   return updated;
 }
 
-/** POST /api/reports: a complete report, saved as a draft or submitted at once. Nothing is stored on error. */
-export async function createReport(actor: Actor | null, input: ReportInput) {
+/**
+ * POST /api/reports: a complete report, saved as a draft or submitted at once. Nothing is stored on error.
+ * With an Idempotency-Key claim, the key and its response are stored in the same transaction as the report.
+ */
+export async function createReport(actor: Actor | null, input: ReportInput, idempotency?: IdempotencyClaim) {
   requireMember(actor);
   const db = await getDb();
   const columns = toColumns(input);
   await checkReferences(db, columns);
   const id = crypto.randomUUID();
-  const row = await db.transaction(async (tx) => {
+  return db.transaction(async (tx) => {
+    await claimIdempotencyKey(tx, idempotency);
     await tx.insert(reports).values({ ...columns, id, authorId: actor.id, status: "draft" });
     await recordEvent(tx, { reportId: id, actorId: actor.id, action: "created", from: null, to: "draft" });
     const saved = await saveDerived(tx, id);
-    return input.submit ? submitInTx(tx, saved, actor) : saved;
+    const row = input.submit ? await submitInTx(tx, saved, actor) : saved;
+    const result = { id: row.id, status: row.status, concentration: row.concentration };
+    await storeIdempotentResponse(tx, idempotency, result);
+    return result;
   });
-  return { id: row.id, status: row.status, concentration: row.concentration };
 }
 
 /** A draft with any subset of the fields (the multi-step form's first step, or an open course). */

@@ -122,13 +122,13 @@ export async function getReportHistory(actor: Actor | null, id: string) {
   const db = await getDb();
   const who = alias(users, "who");
   const rows = await db
-    .select({ at: reportEvents.at, actorId: reportEvents.actorId, actorName: who.name, action: reportEvents.action, from: reportEvents.fromStatus, to: reportEvents.toStatus, note: reportEvents.note })
+    .select({ at: reportEvents.at, actorId: reportEvents.actorId, actorName: who.name, importedActor: reportEvents.actorName, action: reportEvents.action, from: reportEvents.fromStatus, to: reportEvents.toStatus, note: reportEvents.note })
     .from(reportEvents)
     .leftJoin(who, eq(who.id, reportEvents.actorId))
     .where(eq(reportEvents.reportId, id))
     .orderBy(asc(reportEvents.at), asc(reportEvents.id));
   return {
-    events: rows.map((e) => ({ at: e.at.toISOString(), actor: e.actorId ? { id: e.actorId, name: e.actorName ?? "" } : null, action: e.action, from: e.from, to: e.to, note: e.note })),
+    events: rows.map((e) => ({ at: e.at.toISOString(), actor: e.actorId ? { id: e.actorId, name: e.actorName ?? "" } : e.importedActor ? { id: null, name: e.importedActor } : null, action: e.action, from: e.from, to: e.to, note: e.note })),
   };
 }
 

@@ -1,6 +1,7 @@
 import Papa from "papaparse";
 import { summaryQuerySchema } from "@/features/evidence";
 import { getSummaries } from "@/features/evidence/server";
+import { csvWriteOptions } from "@/features/exchange/server";
 import { parseQuery, route, refuseOtherMethods } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
@@ -17,7 +18,7 @@ export const GET = route(async (req) => {
     lowest_adverse_dose: g.lowestAdverseDose ?? "", bmd10: g.doseResponse?.bmd ?? "", bmdl10: g.doseResponse?.bmdl ?? "", sparse: g.sparse, confidence_level: s.confidenceLevel, method_version: s.methodVersion,
   }));
   // The notice travels inside the file, as comment lines that spreadsheet users see first.
-  const csv = `# ${s.notice}\n# Tanklore summaries for ${s.agentName} (${s.unit}); confidence level ${s.confidenceLevel} %; method ${s.methodVersion}; exported ${new Date().toISOString()}\n${Papa.unparse(rows)}\n`;
+  const csv = `# ${s.notice}\n# Tanklore summaries for ${s.agentName} (${s.unit}); confidence level ${s.confidenceLevel} %; method ${s.methodVersion}; exported ${new Date().toISOString()}\n${Papa.unparse(rows, csvWriteOptions)}\n`;
   return new Response(csv, {
     headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="tanklore-summaries-${s.agent}.csv"` },
   });
