@@ -44,7 +44,7 @@ beforeAll(async () => {
   const jpeg = await sharp({ create: { width: 400, height: 300, channels: 3, background: { r: 20, g: 90, b: 120 } } }).jpeg().toBuffer();
   form.set("file", new Blob([new Uint8Array(jpeg)], { type: "image/jpeg" }), "tank.jpg");
   form.set("stage", "before");
-  const up = await photosRoute.POST(new Request(`${BASE}/api/reports/${draft.body.id}/photos`, { method: "POST", body: form, headers: { cookie: member } }), {
+  const up = await photosRoute.POST(new Request(`${BASE}/api/reports/${draft.body.id}/photos`, { method: "POST", body: form, headers: { cookie: member, origin: BASE } }), {
     params: Promise.resolve({ id: draft.body.id }),
   });
   expect(up.status).toBe(201);

@@ -8,6 +8,7 @@ import * as decisionRoute from "@/app/api/reports/[id]/decision/route";
 import { eq } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";
 import { seedCatalogue } from "@/features/catalogue/server";
+import { drainEvidenceOutbox } from "@/features/evidence/server";
 import { call } from "../support/http";
 import { reportBody, signedInUser } from "../support/factories";
 
@@ -41,6 +42,7 @@ beforeAll(async () => {
   await accepted("corydoras-aeneus", 12, true);
   // Loaches: two tolerated reports only (sparse).
   for (const d of [18, 22]) await accepted("pangio-kuhlii", d);
+  await drainEvidenceOutbox();
 }, 120_000);
 
 const base = { agent: "hydrogen-peroxide", stockPercent: 3, volume: 40, volumeUnit: "L" };

@@ -57,7 +57,7 @@ describe("importing at scale and refusing bad cells", () => {
     const rows = 3000;
     const csv = [header, ...Array.from({ length: rows }, (_, k) => line(1000 + k))].join("\n");
     const before = await importedCount();
-    const req = new Request(`${BASE}/api/import/reports`, { method: "POST", body: csv, headers: { cookie: admin, "content-type": "text/csv", accept: "application/x-ndjson" } });
+    const req = new Request(`${BASE}/api/import/reports`, { method: "POST", body: csv, headers: { cookie: admin, origin: BASE, "content-type": "text/csv", accept: "application/x-ndjson" } });
     const res = await importRoute.POST(req, { params: Promise.resolve({}) });
     expect(res.status).toBe(200);
     expect(res.headers.get("content-type")).toMatch(/^application\/x-ndjson/);

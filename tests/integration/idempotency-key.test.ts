@@ -31,7 +31,7 @@ function upload(reportId: string, data: Buffer, key: string, cookie = alice.cook
   const form = new FormData();
   form.set("file", new Blob([new Uint8Array(data)], { type: "image/jpeg" }), "tank.jpg");
   form.set("stage", "before");
-  const req = new Request(`${BASE}/api/reports/${reportId}/photos`, { method: "POST", body: form, headers: { cookie, "idempotency-key": key } });
+  const req = new Request(`${BASE}/api/reports/${reportId}/photos`, { method: "POST", body: form, headers: { cookie, origin: BASE, "idempotency-key": key } });
   return photosRoute.POST(req, { params: Promise.resolve({ id: reportId }) });
 }
 

@@ -99,14 +99,14 @@ describe("on a PostgreSQL server (DATABASE_URL)", () => {
       const statuses: number[] = [];
       for (let i = 0; i < 11; i++) {
         const r = await call(authRoute.POST, "/api/auth/sign-in/email", {
-          body: { email: "member@example.org", password: `wrong-password-${i}` },
+          body: { email: "member2@example.org", password: `wrong-password-${i}` },
           headers: { "x-forwarded-for": `198.51.100.${i + 1}` },
         });
         statuses.push(r.status);
       }
       expect(statuses).toEqual([...Array(10).fill(401), 429]);
       const db = await getDb();
-      const [limit] = await db.select().from(schema.signInLimits).where(eq(schema.signInLimits.email, "member@example.org"));
+      const [limit] = await db.select().from(schema.signInLimits).where(eq(schema.signInLimits.email, "member2@example.org"));
       expect(limit?.lockedUntil).toBeInstanceOf(Date);
       const [counted] = await db.select({ n: count() }).from(schema.rateLimits);
       expect(counted?.n).toBeGreaterThanOrEqual(10);

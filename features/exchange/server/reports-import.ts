@@ -10,6 +10,7 @@ import { assertRole } from "@/features/members/server";
 import { reportInputSchema, reportStatuses, type ReportInput } from "@/features/reports";
 import { derive, type ReportRow } from "@/features/reports/server";
 import { enqueueEvidenceRecompute, wakeEvidenceWorker } from "@/features/shared/server/evidence-outbox";
+import { drainEvidenceOutbox } from "@/features/evidence/server";
 import { controlCharacterIn, unneutralise } from "./csv-cells";
 import { refreshPlannerStatistics, type ExchangedEvent } from "./reports-csv";
 
@@ -351,6 +352,9 @@ export async function runReportsImport(p: PreparedImport, opts: ImportOptions = 
   }
   result.touched = pairsOf(result.touched.map((t) => ({ columns: t, status: "accepted" })));
   if (result.imported) await refreshPlannerStatistics(); // the table grew in bulk
+  // The worker drains each batch's pairs as they commit; the answer waits for the last, so the figures an admin
+  // looks at next already count the file.
+  if (result.touched.length) await drainEvidenceOutbox();
   return result;
 }
 

@@ -250,7 +250,7 @@ export function refuseOtherMethods(...allowed: Method[]): Record<Method | "OPTIO
  * For routes that read the request themselves (better-auth's `/api/auth/*`): refuses control characters in the
  * path (404), the query and a JSON or form body (422) in the error envelope, and hands back an equivalent request.
  */
-export async function refuseControlCharactersIn(req: Request): Promise<Request> {
+export async function refuseControlCharactersIn(req: Request, limit = MAX_JSON_BYTES): Promise<Request> {
   refuseControlCharactersInParams(new URL(req.url).pathname.split("/").map((segment) => {
     try {
       return decodeURIComponent(segment);
@@ -261,7 +261,7 @@ export async function refuseControlCharactersIn(req: Request): Promise<Request> 
   refuseControlCharactersInQuery(req);
   if (SAFE_METHODS.has(req.method) || !req.body) return req;
   const type = req.headers.get("content-type") ?? "";
-  const bytes = await readBody(req, MAX_JSON_BYTES, `The body is larger than ${MAX_JSON_BYTES / 1024} KB.`);
+  const bytes = await readBody(req, limit, `The body is larger than ${limit / 1024} KB.`);
   const text = bytes.toString("utf8");
   if (type.includes("application/json")) {
     let body: unknown;

@@ -1,6 +1,6 @@
 import { createBackup } from "@/features/exchange/server";
 import { getActor } from "@/features/members/server";
-import { route } from "@/features/shared/server/http";
+import { refuseOtherMethods, route } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -15,3 +15,5 @@ export const GET = route(async (req) => {
     },
   });
 });
+
+export const { POST, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("GET");

@@ -1,7 +1,7 @@
 import { clubSettingsPatchSchema } from "@/features/catalogue";
 import { updateClubSettings } from "@/features/catalogue/server";
 import { requireActor } from "@/features/members/server";
-import { json, parseJson, route } from "@/features/shared/server/http";
+import { json, parseJson, refuseOtherMethods, route } from "@/features/shared/server/http";
 
 export const dynamic = "force-dynamic";
 
@@ -12,3 +12,5 @@ export const PATCH = route(async (req) => {
   // A change of the confidence level or the minimum queues every summary for recompute in the same transaction.
   return json({ settings: await updateClubSettings(actor, body) });
 });
+
+export const { GET, POST, PUT, DELETE, OPTIONS } = refuseOtherMethods("PATCH");

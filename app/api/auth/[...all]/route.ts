@@ -1,12 +1,12 @@
 import { setRoleSchema } from "@/features/members";
-import { assertRole, authPath, changeMemberRole, getActor, handleAuthRequest } from "@/features/members/server";
+import { AUTH_BODY_LIMIT, assertRole, authPath, changeMemberRole, getActor, handleAuthRequest } from "@/features/members/server";
 import { errorResponse, json, parseJson, refuseControlCharactersIn, refuseOtherMethods, route } from "@/features/shared/server/http";
 
 // better-auth's own routes (sign-up, sign-in, sign-out, session, verification, password reset),
 // behind the app's body, field and sign-in limits (handleAuthRequest).
 async function handle(req: Request): Promise<Response> {
   try {
-    return await handleAuthRequest(await refuseControlCharactersIn(req));
+    return await handleAuthRequest(await refuseControlCharactersIn(req, AUTH_BODY_LIMIT));
   } catch (err) {
     return errorResponse(err);
   }
