@@ -20,6 +20,8 @@ export function proxy(request: NextRequest) {
   } else {
     const forwarded = new Headers(request.headers);
     forwarded.set("content-security-policy", headers["content-security-policy"]!);
+    // The page's own address, for the sign-in redirect of a members' layout (never trusted from the client).
+    forwarded.set("x-tanklore-page-path", request.nextUrl.pathname + request.nextUrl.search);
     response = NextResponse.next({ request: { headers: forwarded } });
   }
   for (const [name, value] of Object.entries(headers)) response.headers.set(name, value);

@@ -1,4 +1,4 @@
-import { describe, expect, it } from "vitest";
+import { describe, expect, inject, it } from "vitest";
 import { baseUrl, signInAs, useBrowser } from "./browser";
 
 const browser = useBrowser();
@@ -16,6 +16,18 @@ describe("signing in", () => {
     await page.goto(`${baseUrl()}/admin/members`);
     await page.waitForURL(/\/forbidden/);
     expect(await page.getByRole("heading", { name: "Not for your role" }).count()).toBe(1);
+    await page.close();
+  });
+
+  it("brings a visitor who opens the report form back to it after signing in", async () => {
+    const page = await browser().newPage();
+    await page.goto(`${baseUrl()}/reports/new`);
+    await page.waitForURL(/\/sign-in\?next=%2Freports%2Fnew/);
+    await page.getByLabel("E-mail").fill("member2@example.org");
+    await page.getByLabel("Password").fill(inject("demoPassword"));
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await page.waitForURL((url) => url.pathname === "/reports/new");
+    expect(new URL(page.url()).pathname).toBe("/reports/new");
     await page.close();
   });
 

@@ -9,9 +9,18 @@ export async function getPageActor(): Promise<Actor | null> {
   return getActor(await headers());
 }
 
-/** For layouts and pages: visitors go to sign-in; the wrong role gets the forbidden page. */
-export async function requirePageRole(allowed: readonly Role[], next: string): Promise<Actor> {
-  const actor = await getPageActor();
+/** The header proxy.ts sets to the page's own path and query (a client-sent one is overwritten there). */
+export const PAGE_PATH_HEADER = "x-tanklore-page-path";
+
+/**
+ * For layouts and pages: visitors go to sign-in and come back to the page they asked for (layouts do not know
+ * it, so proxy.ts passes it along; `fallback` serves when it is missing); the wrong role gets the forbidden page.
+ */
+export async function requirePageRole(allowed: readonly Role[], fallback: string): Promise<Actor> {
+  const h = await headers();
+  const actor = await getActor(h);
+  const asked = h.get(PAGE_PATH_HEADER);
+  const next = asked && asked.startsWith("/") && !asked.startsWith("//") ? asked : fallback;
   if (!actor) redirect(`/sign-in?next=${encodeURIComponent(next)}`);
   if (!allowed.includes(actor.role)) redirect("/forbidden");
   return actor;
