@@ -56,12 +56,12 @@ describe("backups", () => {
     // A member's draft with a photo, so the archive has photo files to carry.
     const member = await browser().newPage();
     await signInAs(member, "member@example.org");
-    const draft = await member.request.post(`${baseUrl()}/api/reports/drafts`, { data: { speciesId: "paracheirodon-innesi", fishCount: 4 } });
+    const draft = await member.request.post(`${baseUrl()}/api/reports/drafts`, { data: { speciesId: "paracheirodon-innesi", fishCount: 4 }, headers: { origin: baseUrl() } });
     expect(draft.status()).toBe(201);
     const reportId = (await draft.json()).id as string;
     const jpeg = await sharp({ create: { width: 320, height: 240, channels: 3, background: { r: 40, g: 120, b: 80 } } }).jpeg().toBuffer();
-    const photo = await member.request.post(`${baseUrl()}/api/reports/${reportId}/photos`, { multipart: { file: { name: "tank.jpg", mimeType: "image/jpeg", buffer: jpeg }, stage: "before" } });
-    expect(photo.status()).toBe(201);
+    const photo = await member.request.post(`${baseUrl()}/api/reports/${reportId}/photos`, { multipart: { file: { name: "tank.jpg", mimeType: "image/jpeg", buffer: jpeg }, stage: "before" }, headers: { origin: baseUrl() } });
+    expect(photo.status(), await photo.text()).toBe(201);
     const photoId = (await photo.json()).id as string;
 
     const admin = await browser().newPage();

@@ -132,6 +132,7 @@ const cases: PageCase[] = [
   { route: "/reports/[id] (draft)", url: () => `/reports/${draftId}`, allowed: ["memberA"], secrets: () => [DRAFT_NOTES] },
   { route: "/reports/[id]/edit", url: () => `/reports/${draftId}/edit`, allowed: ["memberA"], secrets: () => [DRAFT_NOTES] },
   { route: "/review", url: () => "/review", allowed: ["moderator", "admin"], secrets: () => ["waiting. Reports count only once"] },
+  { route: "/review/reports", url: () => "/review/reports", allowed: ["moderator", "admin"], secrets: () => ["submitted reports in the club"] },
   { route: "/review/[id]", url: () => `/review/${submittedId}`, allowed: ["moderator", "admin"], secrets: () => [SUBMITTED_NOTES] },
   { route: "/admin/catalogue", url: () => "/admin/catalogue", allowed: ["admin"], secrets: () => ["Recent changes", CONDITION_KEY] },
   { route: "/admin/exchange", url: () => "/admin/exchange", allowed: ["admin"], secrets: () => ["Import historical reports"] },
