@@ -131,6 +131,8 @@ export const courseEntries = pgTable(
     text: text(),
     photoId: text(),
     createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),
+    /** Struck out by the keeper: kept and shown crossed out, never deleted; no longer counts as a dose. */
+    struckAt: timestamp({ withTimezone: true }),
   },
   (t) => [index("course_entries_report_idx").on(t.reportId)],
 );

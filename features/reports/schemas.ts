@@ -168,13 +168,39 @@ export const courseEntrySchema = z
     text: text("Observation", 2000).optional(),
     /** A photo already added to this report (POST /api/reports/:id/photos), shown with the observation. */
     photoId: z.string().uuid("photoId must be the id of a photo of this report.").optional(),
+    /** The keeper confirms an unusual entry: a time in the future, or over 3× the planned dose. */
+    confirm: z.boolean({ error: "confirm must be true or false." }).optional(),
   })
   .strict()
   .superRefine((e, ctx) => {
     if (e.kind === "dose" && e.amountMl === undefined) ctx.addIssue({ code: "custom", path: ["amountMl"], message: "Give the mL added for a dose." });
     if (e.kind === "observation" && !e.text) ctx.addIssue({ code: "custom", path: ["text"], message: "Describe what you saw." });
-    if (Date.parse(e.at) > Date.now() + 5 * 60_000) ctx.addIssue({ code: "custom", path: ["at"], message: "An entry cannot be in the future." });
+    if (!e.confirm && isFuture(e.at)) ctx.addIssue({ code: "custom", path: ["at"], message: FUTURE_MESSAGE });
   });
+
+/** A little slack for clocks that disagree; beyond it a time is "in the future" and must be confirmed. */
+const isFuture = (at: string) => Date.parse(at) > Date.now() + 5 * 60_000;
+const FUTURE_MESSAGE = "This time is in the future: check the date, or send confirm: true if it is right.";
+
+/** A correction of one course entry (amount, time, text), or striking it out: entries are never deleted. */
+export const courseEntryPatchSchema = z
+  .object({
+    at: z.iso.datetime({ offset: true, error: "at must be a date and time (ISO 8601)." }).optional(),
+    amountMl: positive("Amount", 100_000).optional(),
+    text: text("Text", 2000).optional(),
+    struck: z.literal(true, { error: "struck can only be true: a struck entry stays in the log, crossed out." }).optional(),
+    /** Why it was corrected or struck; kept in the report's history. */
+    note: text("Note", 500).optional(),
+    confirm: z.boolean({ error: "confirm must be true or false." }).optional(),
+  })
+  .strict()
+  .superRefine((e, ctx) => {
+    const changes = e.at !== undefined || e.amountMl !== undefined || e.text !== undefined;
+    if (e.struck && changes) ctx.addIssue({ code: "custom", path: ["struck"], message: "Strike an entry out, or correct it, not both at once." });
+    if (!e.struck && !changes) ctx.addIssue({ code: "custom", path: [], message: "Give the corrected amountMl, at or text, or struck: true." });
+    if (e.at !== undefined && !e.confirm && isFuture(e.at)) ctx.addIssue({ code: "custom", path: ["at"], message: FUTURE_MESSAGE });
+  });
+export type CourseEntryPatch = z.infer<typeof courseEntryPatchSchema>;
 
 export const listMineQuerySchema = z.object({
   scope: z.enum(["mine"], { error: "scope must be mine, or all (moderators and admins)." }).default("mine"),

@@ -71,6 +71,7 @@ const bodies: Record<string, () => Record<string, unknown>> = {
   "POST /api/reports/drafts": () => reportBody({ courseOpen: false }),
   "PATCH /api/reports/[id]": () => reportBody(),
   "POST /api/reports/[id]/entries": () => ({ kind: "observation", at: new Date().toISOString(), text: "The fish looked calm." }),
+  "PATCH /api/reports/[id]/entries/[entryId]": () => ({ text: "Corrected: the fish looked calm.", note: "A typo." }),
   "POST /api/reports/[id]/decision": () => ({ decision: "return", note: "Please add the pH." }),
   "POST /api/reports/[id]/corrections": () => ({ kind: "lossCause", lossCause: "disease", note: "Seen this before." }),
   "POST /api/admin/catalogue/[kind]": () => ({ slug: "fuzz-group", name: "Fuzz group", description: "Made by the fuzz test.", sortOrder: 3, hidden: false }),

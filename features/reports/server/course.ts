@@ -1,30 +1,102 @@
 import "server-only";
-import { and, count, eq, isNull, lte, max } from "drizzle-orm";
+import { and, asc, eq, isNull, lte } from "drizzle-orm";
 import { getDb, schema } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { publicBaseUrl } from "@/features/shared/env";
 import { sendMail } from "@/features/mail/server";
 import type { z } from "zod";
-import type { courseEntrySchema } from "../schemas";
+import { concentrationFromMl, doseMlForTarget, DosingInputError, readStrength, type ConcentrationUnit, type StockBasis } from "@/features/dosing";
+import type { CourseEntryPatch, courseEntrySchema } from "../schemas";
 import { canSeeReport, getReportRowById } from "./queries";
+import type { ReportRow } from "./mapping";
 import { recordEvent, saveDerived } from "./mutations";
 
 const { reports, courseEntries, reminders, agents, users } = schema;
 const HOUR = 3600_000;
 
-/** The member logs a dose or an observation on an open course; due reminders are (re)scheduled. */
-export async function addCourseEntry(actor: Actor | null, reportId: string, entry: z.infer<typeof courseEntrySchema>) {
+type Tx = Parameters<Parameters<Awaited<ReturnType<typeof getDb>>["transaction"]>[0]>[0];
+type EntryRow = typeof courseEntries.$inferSelect;
+
+/** The keeper's own open course, or the right error (404 hides others' reports). Authorization lives here. */
+async function ownOpenCourse(actor: Actor | null, reportId: string, what: string): Promise<ReportRow> {
   if (!actor) throw new AppError("unauthenticated", "Sign in to log a treatment course.");
   const row = await getReportRowById(reportId);
   if (!row || !canSeeReport(actor, row)) throw notFound("That report");
-  if (row.authorId !== actor.id) throw new AppError("forbidden", "Only the member who keeps a course may log in it.");
+  if (row.authorId !== actor.id) throw new AppError("forbidden", `Only the member who keeps a course may ${what} in it.`);
   if (row.status !== "draft") throw new AppError("conflict", "This course has been submitted; its log is closed.");
+  return row;
+}
+
+/** mg of active per mL of the report's stock, read the one shared way (readStrength); null when it cannot be read. */
+async function courseStock(db: Awaited<ReturnType<typeof getDb>>, row: ReportRow) {
+  const [agent] = row.agentSlug ? await db.select().from(agents).where(eq(agents.slug, row.agentSlug)) : [];
+  const [preset] = row.stockFormId ? await db.select().from(schema.stockForms).where(eq(schema.stockForms.id, row.stockFormId)) : [];
+  let mgPerMl: number | null = null;
+  try {
+    if (row.stockPercent != null || preset) {
+      mgPerMl = readStrength({ percent: row.stockPercent ?? undefined, basis: (row.stockBasis ?? undefined) as StockBasis | undefined, densityGPerMl: row.stockDensityGPerMl, preset: preset ?? null }).mgPerMl;
+    }
+  } catch (err) {
+    if (!(err instanceof DosingInputError)) throw err;
+  }
+  return { agent: agent ?? null, mgPerMl, unit: (agent?.unit ?? "mg/L") as ConcentrationUnit };
+}
+
+const liveDoses = (entries: EntryRow[]) => entries.filter((e) => e.kind === "dose" && !e.struckAt && e.amountMl != null).sort((a, b) => a.at.getTime() - b.at.getTime() || a.id - b.id);
+
+/**
+ * The planned single dose in mL: the report's stated concentration turned into mL, else the first dose logged
+ * (other than `except`), else the amount the course was opened with. Null when there is nothing to go by.
+ */
+function plannedDoseMl(row: ReportRow, mgPerMl: number | null, unit: ConcentrationUnit, entries: EntryRow[], except?: number): number | null {
+  if (row.statedConcentration != null && row.volumeL && mgPerMl) return doseMlForTarget(row.statedConcentration, row.volumeL, mgPerMl, unit);
+  const first = liveDoses(entries).find((e) => e.id !== except);
+  if (first) return first.amountMl;
+  return liveDoses(entries).length === 0 ? row.amountMl : null;
+}
+
+const CONFIRM_HINT = "send confirm: true if it is right.";
+function amountNeedsConfirm(amountMl: number, planned: number | null): string | null {
+  if (planned == null || !(amountMl > 3 * planned)) return null;
+  return `${fmt(amountMl)} mL is more than 3× the planned dose of ${fmt(planned)} mL: check for a typo, or ${CONFIRM_HINT}`;
+}
+const fmt = (n: number) => (Math.round(n * 100) / 100).toString();
+
+/** The report follows its log: number of doses and peak single dose (struck entries left out); reminders follow the last dose. */
+async function syncFromLog(tx: Tx, row: ReportRow, userId: string): Promise<void> {
+  const all = await tx.select().from(courseEntries).where(eq(courseEntries.reportId, row.id));
+  const doses = liveDoses(all);
+  const peak = doses.reduce<number | null>((m, e) => (m == null || e.amountMl! > m ? e.amountMl! : m), null);
+  await tx.update(reports).set({ doses: doses.length || null, amountMl: peak, courseOpen: true, updatedAt: new Date() }).where(eq(reports.id, row.id));
+  await saveDerived(tx, row.id);
+  await tx.delete(reminders).where(and(eq(reminders.reportId, row.id), isNull(reminders.sentAt)));
+  const last = doses.at(-1);
+  if (!last) return;
+  const [agent] = row.agentSlug ? await tx.select().from(agents).where(eq(agents.slug, row.agentSlug)) : [];
+  const interval = row.intervalHours ?? agent?.redoseHours ?? null;
+  if (interval) await tx.insert(reminders).values({ reportId: row.id, userId, kind: "next_dose", dueAt: new Date(last.at.getTime() + interval * HOUR) });
+  await tx.insert(reminders).values({ reportId: row.id, userId, kind: "outcome", dueAt: new Date(last.at.getTime() + (agent?.watchDays ?? 7) * 24 * HOUR) });
+}
+
+const entryOut = (e: EntryRow) => ({ id: e.id, kind: e.kind, at: e.at.toISOString(), amountMl: e.amountMl, text: e.text, photoId: e.photoId, struckAt: e.struckAt?.toISOString() ?? null });
+const when = (d: Date) => d.toISOString().slice(0, 16).replace("T", " ") + " UTC";
+const describe = (e: { kind: string; amountMl: number | null; text: string | null }) => (e.kind === "dose" ? `dose of ${e.amountMl} mL` : `"${e.text ?? ""}"`);
+
+/** The member logs a dose or an observation on an open course; due reminders are (re)scheduled. */
+export async function addCourseEntry(actor: Actor | null, reportId: string, entry: z.infer<typeof courseEntrySchema>) {
+  const row = await ownOpenCourse(actor, reportId, "log");
   const db = await getDb();
   const at = new Date(entry.at);
   if (entry.photoId) {
     const [photo] = await db.select({ reportId: schema.photos.reportId }).from(schema.photos).where(eq(schema.photos.id, entry.photoId));
     if (photo?.reportId !== reportId) throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "photoId", message: "That photo does not belong to this report; upload it to the report first." }]);
+  }
+  if (entry.kind === "dose" && entry.amountMl !== undefined && !entry.confirm) {
+    const { mgPerMl, unit } = await courseStock(db, row);
+    const existing = await db.select().from(courseEntries).where(eq(courseEntries.reportId, reportId));
+    const problem = amountNeedsConfirm(entry.amountMl, plannedDoseMl(row, mgPerMl, unit, existing));
+    if (problem) throw new AppError("invalid", "Please confirm this entry; see issues.", [{ path: "amountMl", message: problem }]);
   }
   return db.transaction(async (tx) => {
     const [saved] = await tx
@@ -32,22 +104,92 @@ export async function addCourseEntry(actor: Actor | null, reportId: string, entr
       .values({ reportId, kind: entry.kind, at, amountMl: entry.amountMl ?? null, text: entry.text ?? null, photoId: entry.photoId ?? null })
       .returning();
     if (entry.kind === "dose") {
-      // The report follows the log: number of doses, and the peak single dose as "amount per dose".
-      const [agg] = await tx
-        .select({ n: count(), peak: max(courseEntries.amountMl) })
-        .from(courseEntries)
-        .where(and(eq(courseEntries.reportId, reportId), eq(courseEntries.kind, "dose")));
-      await tx.update(reports).set({ doses: agg?.n ?? 1, amountMl: agg?.peak ?? null, courseOpen: true, updatedAt: new Date() }).where(eq(reports.id, reportId));
-      await saveDerived(tx, reportId);
-      await tx.delete(reminders).where(and(eq(reminders.reportId, reportId), isNull(reminders.sentAt)));
-      const [agent] = row.agentSlug ? await tx.select().from(agents).where(eq(agents.slug, row.agentSlug)) : [];
-      const interval = row.intervalHours ?? agent?.redoseHours ?? null;
-      if (interval) await tx.insert(reminders).values({ reportId, userId: actor.id, kind: "next_dose", dueAt: new Date(at.getTime() + interval * HOUR) });
-      await tx.insert(reminders).values({ reportId, userId: actor.id, kind: "outcome", dueAt: new Date(at.getTime() + (agent?.watchDays ?? 7) * 24 * HOUR) });
-      await recordEvent(tx, { reportId, actorId: actor.id, action: "dose_logged", from: "draft", to: "draft", note: `${entry.amountMl} mL` });
+      await syncFromLog(tx, row, actor!.id);
+      await recordEvent(tx, { reportId, actorId: actor!.id, action: "dose_logged", from: "draft", to: "draft", note: `${entry.amountMl} mL` });
     }
-    return { id: saved!.id, kind: saved!.kind, at: saved!.at.toISOString(), amountMl: saved!.amountMl, text: saved!.text, photoId: saved!.photoId };
+    return entryOut(saved!);
   });
+}
+
+/**
+ * The keeper corrects an entry (amount, time, text) or strikes it out. Nothing is deleted: the old values go
+ * into the report's history, and a struck entry stays in the log, crossed out. Unusual values need `confirm`.
+ */
+export async function correctCourseEntry(actor: Actor | null, reportId: string, entryId: string, patch: CourseEntryPatch) {
+  const row = await ownOpenCourse(actor, reportId, "correct entries");
+  const db = await getDb();
+  const id = /^[1-9][0-9]{0,9}$/.test(entryId) ? Number(entryId) : NaN;
+  const all = await db.select().from(courseEntries).where(eq(courseEntries.reportId, reportId));
+  const entry = all.find((e) => e.id === id);
+  if (!entry) throw notFound("That course entry");
+  if (entry.struckAt) throw new AppError("conflict", "This entry is struck out; log a new entry instead.");
+  if (patch.amountMl !== undefined && entry.kind !== "dose") {
+    throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "amountMl", message: "An observation has no amount; correct its text or time." }]);
+  }
+  if (patch.amountMl !== undefined && !patch.confirm) {
+    const { mgPerMl, unit } = await courseStock(db, row);
+    const problem = amountNeedsConfirm(patch.amountMl, plannedDoseMl(row, mgPerMl, unit, all, entry.id));
+    if (problem) throw new AppError("invalid", "Please confirm this correction; see issues.", [{ path: "amountMl", message: problem }]);
+  }
+  return db.transaction(async (tx) => {
+    let note: string;
+    let saved: EntryRow | undefined;
+    if (patch.struck) {
+      [saved] = await tx.update(courseEntries).set({ struckAt: new Date() }).where(and(eq(courseEntries.id, entry.id), isNull(courseEntries.struckAt))).returning();
+      note = `struck out the ${describe(entry)} of ${when(entry.at)}`;
+    } else {
+      const next = { at: patch.at ? new Date(patch.at) : entry.at, amountMl: patch.amountMl ?? entry.amountMl, text: patch.text !== undefined ? patch.text || null : entry.text };
+      [saved] = await tx.update(courseEntries).set(next).where(and(eq(courseEntries.id, entry.id), isNull(courseEntries.struckAt))).returning();
+      const changes = [
+        next.amountMl !== entry.amountMl ? `amount ${entry.amountMl} mL → ${next.amountMl} mL` : null,
+        next.at.getTime() !== entry.at.getTime() ? `time ${when(entry.at)} → ${when(next.at)}` : null,
+        next.text !== entry.text ? `text "${entry.text ?? ""}" → "${next.text ?? ""}"` : null,
+      ].filter(Boolean);
+      note = `corrected the ${entry.kind} of ${when(entry.at)}: ${changes.join("; ") || "no change"}`;
+    }
+    if (!saved) throw new AppError("conflict", "This entry was struck out meanwhile; reload the log.");
+    if (entry.kind === "dose") await syncFromLog(tx, row, actor!.id);
+    await recordEvent(tx, { reportId, actorId: actor!.id, action: patch.struck ? "entry_struck" : "entry_corrected", from: "draft", to: "draft", note: patch.note ? `${note} — ${patch.note}` : note });
+    return entryOut(saved);
+  });
+}
+
+/**
+ * What the open course's page shows: each entry with the concentration a dose made, the next dose due (time, mL and
+ * the concentration it makes, from the shared dosing functions) and what to watch for.
+ */
+export async function getCourse(actor: Actor | null, reportId: string) {
+  const row = await getReportRowById(reportId);
+  if (!row || !canSeeReport(actor, row)) throw notFound("That report");
+  const db = await getDb();
+  const { agent, mgPerMl, unit } = await courseStock(db, row);
+  const all = await db.select().from(courseEntries).where(eq(courseEntries.reportId, reportId)).orderBy(asc(courseEntries.at), asc(courseEntries.id));
+  return { ...courseFigures(row, agent, mgPerMl, unit, all), entries: all.map((e) => ({ ...entryOut(e), concentration: concentrationOf(e, row.volumeL, mgPerMl, unit) })) };
+}
+
+function concentrationOf(e: EntryRow, volumeL: number | null, mgPerMl: number | null, unit: ConcentrationUnit): number | null {
+  return e.kind === "dose" && e.amountMl != null && volumeL && mgPerMl ? concentrationFromMl(e.amountMl, volumeL, mgPerMl, unit) : null;
+}
+
+function courseFigures(row: ReportRow, agent: typeof agents.$inferSelect | null, mgPerMl: number | null, unit: ConcentrationUnit, all: EntryRow[]) {
+  const doses = liveDoses(all);
+  const last = doses.at(-1);
+  const interval = row.intervalHours ?? agent?.redoseHours ?? null;
+  const planned = plannedDoseMl(row, mgPerMl, unit, all);
+  const open = row.status === "draft" && row.courseOpen;
+  // Later doses repeat the last one given; before the first, the planned dose is due now.
+  const nextMl = last?.amountMl ?? planned;
+  const nextAt = last ? (interval ? new Date(last.at.getTime() + interval * HOUR) : null) : new Date();
+  const nextDose = open && nextAt && nextMl != null
+    ? { at: nextAt.toISOString(), doseMl: nextMl, concentration: row.volumeL && mgPerMl ? concentrationFromMl(nextMl, row.volumeL, mgPerMl, unit) : null, unit, first: !last }
+    : null;
+  const watchDays = agent?.watchDays ?? 7;
+  const watchFor = [
+    "For the first hour after each dose: fish gasping at the surface, fast gill movement, clamped fins, loss of balance or colour. If you see them, do a large, temperature-matched water change at once.",
+    `Keep watching for ${watchDays} days after the last dose, and record the outcome then.`,
+    "Never add a dose because the last one seemed to do nothing; if fish get worse, ask an aquatic vet.",
+  ];
+  return { open, unit, volumeL: row.volumeL, stockMgPerMl: mgPerMl, intervalHours: interval, plannedDoseMl: planned, nextDose, watchFor, watchUntil: last ? new Date(last.at.getTime() + watchDays * 24 * HOUR).toISOString() : null };
 }
 
 const reminderText = {

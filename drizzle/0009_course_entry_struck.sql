@@ -1,0 +1,1 @@
+ALTER TABLE "course_entries" ADD COLUMN "struck_at" timestamp with time zone;
