@@ -11,14 +11,48 @@ export interface CourseEntryView {
   amountMl: number | null;
   text: string | null;
   photoId: string | null;
+  struckAt?: string | null;
+  /** The concentration a dose made, in the agent's unit; null where the stock or volume is unknown. */
+  concentration?: number | null;
+}
+
+export interface CourseFiguresView {
+  open: boolean;
+  unit: string;
+  nextDose: { at: string; doseMl: number; concentration: number | null; unit: string; first: boolean } | null;
+  watchFor: string[];
+  watchUntil: string | null;
+  intervalHours: number | null;
 }
 
 function localNow(): string {
-  const d = new Date();
+  return toLocalInput(new Date().toISOString());
+}
+function toLocalInput(iso: string): string {
+  const d = new Date(iso);
   return new Date(d.getTime() - d.getTimezoneOffset() * 60000).toISOString().slice(0, 16);
 }
+const fmtTime = (iso: string) => new Date(iso).toLocaleString("en-GB", { weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" });
+const round = (n: number, digits = 1) => n.toLocaleString("en-GB", { maximumFractionDigits: digits });
 
-export function CourseLog({ reportId, entries, open }: { reportId: string; entries: CourseEntryView[]; open: boolean }) {
+/** "in 5 hours", "2 days ago": the words for a time relative to now. */
+function inWords(iso: string, now = Date.now()): string {
+  const diff = Date.parse(iso) - now;
+  const rtf = new Intl.RelativeTimeFormat("en-GB", { numeric: "auto" });
+  const abs = Math.abs(diff);
+  if (abs < 60 * 60_000) return rtf.format(Math.round(diff / 60_000), "minute");
+  if (abs < 48 * 3600_000) return rtf.format(Math.round(diff / 3600_000), "hour");
+  return rtf.format(Math.round(diff / 86_400_000), "day");
+}
+
+/** An API error as one sentence, and whether the server asks the keeper to confirm an unusual value. */
+function explain(err: unknown): { message: string; needsConfirm: boolean } {
+  if (!(err instanceof ApiError)) return { message: "The entry could not be saved; try again.", needsConfirm: false };
+  const issues = err.body.issues ?? [];
+  return { message: [err.message, ...issues.map((i) => i.message)].join(" "), needsConfirm: err.status === 422 && issues.length > 0 && issues.every((i) => /confirm: true/.test(i.message)) };
+}
+
+export function CourseLog({ reportId, entries, open, figures }: { reportId: string; entries: CourseEntryView[]; open: boolean; figures?: CourseFiguresView | null }) {
   const router = useRouter();
   const id = useId();
   const [kind, setKind] = useState<"dose" | "observation">("dose");
@@ -27,10 +61,11 @@ export function CourseLog({ reportId, entries, open }: { reportId: string; entri
   const [text, setText] = useState("");
   const [photo, setPhoto] = useState<File | null>(null);
   const [error, setError] = useState<string | null>(null);
+  const [confirming, setConfirming] = useState(false);
   const [busy, setBusy] = useState(false);
+  const [editing, setEditing] = useState<number | null>(null);
 
-  async function onSubmit(e: FormEvent) {
-    e.preventDefault();
+  async function save(confirm: boolean) {
     setBusy(true);
     setError(null);
     try {
@@ -47,66 +82,182 @@ export function CourseLog({ reportId, entries, open }: { reportId: string; entri
       }
       await fetchJson(`/api/reports/${reportId}/entries`, {
         method: "POST",
-        body: JSON.stringify({ kind, at: new Date(at).toISOString(), ...(kind === "dose" ? { amountMl: Number(amount.replace(",", ".")) || undefined } : { text: text.trim() || undefined, photoId }) }),
+        body: JSON.stringify({
+          kind, at: new Date(at).toISOString(), ...(confirm ? { confirm: true } : {}),
+          ...(kind === "dose" ? { amountMl: Number(amount.replace(",", ".")) || undefined } : { text: text.trim() || undefined, photoId }),
+        }),
       });
       setAmount("");
       setText("");
       setPhoto(null);
       setAt(localNow());
+      setConfirming(false);
       router.refresh();
     } catch (err) {
-      setError(err instanceof ApiError ? [err.message, ...(err.body.issues ?? []).map((i) => i.message)].join(" ") : "The entry could not be saved; try again.");
+      const e = explain(err);
+      setError(e.message);
+      setConfirming(e.needsConfirm);
     } finally {
       setBusy(false);
     }
   }
 
+  function onSubmit(e: FormEvent) {
+    e.preventDefault();
+    void save(false);
+  }
+
   return (
-    <section className="grid gap-3" aria-labelledby={`${id}-title`}>
+    <section className="grid min-w-0 gap-3" aria-labelledby={`${id}-title`}>
       <h2 id={`${id}-title`} className="text-xl font-bold text-peat-900">Course log</h2>
+      {figures?.open ? <NextDose figures={figures} /> : null}
       {entries.length === 0 ? (
         <p className="text-peat-700">Nothing logged yet. Log each dose when you give it; you will get an e-mail when the next one is due.</p>
       ) : (
-        <ol className="grid gap-1" data-testid="course-entries">
+        <ol className="grid gap-2" data-testid="course-entries">
           {entries.map((e) => (
-            <li key={e.id}>
-              <time dateTime={e.at} className="font-bold">{new Date(e.at).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}</time>{" "}
-              — {e.kind === "dose" ? `dose of ${e.amountMl} mL` : e.text}
-              {e.photoId ? (
-                <a href={`/api/photos/${e.photoId}?size=full`} className="ml-2 inline-block align-middle">
-                  <img src={`/api/photos/${e.photoId}?size=thumb`} alt="Photo with this observation" className="inline h-12 rounded border border-peat-100" />
-                </a>
+            <li key={e.id} className="grid min-w-0 gap-1 break-words" data-struck={e.struckAt ? "true" : undefined}>
+              <div className={e.struckAt ? "text-peat-700 line-through" : undefined}>
+                <time dateTime={e.at} className="font-bold">{new Date(e.at).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}</time>{" "}
+                — {e.kind === "dose" ? `dose of ${e.amountMl} mL` : e.text}
+                {e.kind === "dose" && e.concentration != null ? <span data-testid="entry-concentration"> → {round(e.concentration, 2)} {figures?.unit ?? "mg/L"}</span> : null}
+                {e.kind === "dose" && e.text ? <span> ({e.text})</span> : null}
+                {e.photoId ? (
+                  <a href={`/api/photos/${e.photoId}?size=full`} className="ml-2 inline-block align-middle">
+                    <img src={`/api/photos/${e.photoId}?size=thumb`} alt="Photo with this observation" className="inline h-12 rounded border border-peat-100" />
+                  </a>
+                ) : null}
+              </div>
+              {e.struckAt ? <span className="text-sm text-peat-700">Struck out {new Date(e.struckAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}; kept in the history.</span> : null}
+              {open && !e.struckAt ? (
+                editing === e.id ? (
+                  <EntryEditor reportId={reportId} entry={e} onDone={() => { setEditing(null); router.refresh(); }} onCancel={() => setEditing(null)} />
+                ) : (
+                  <button type="button" className="justify-self-start text-sm underline" onClick={() => setEditing(e.id)}>Correct or strike out</button>
+                )
               ) : null}
             </li>
           ))}
         </ol>
       )}
       {open ? (
-        <form onSubmit={onSubmit} className="grid max-w-xl gap-3 rounded-lg border border-peat-100 bg-white p-4" aria-label="Add to the course log">
-          <fieldset className="flex gap-4">
+        <form onSubmit={onSubmit} className="grid w-full max-w-xl min-w-0 gap-3 rounded-lg border border-peat-100 bg-white p-4" aria-label="Add to the course log">
+          <fieldset className="flex flex-wrap gap-4">
             <legend className="sr-only">What to log</legend>
             <label className="flex items-center gap-2"><input type="radio" name="kind" checked={kind === "dose"} onChange={() => setKind("dose")} /> A dose</label>
             <label className="flex items-center gap-2"><input type="radio" name="kind" checked={kind === "observation"} onChange={() => setKind("observation")} /> An observation</label>
           </fieldset>
           <label htmlFor={`${id}-at`} className="font-bold">When</label>
-          <input id={`${id}-at`} type="datetime-local" value={at} onChange={(e) => setAt(e.target.value)} className="rounded-md border border-peat-300 px-3 py-2" />
+          <input id={`${id}-at`} type="datetime-local" value={at} onChange={(e) => { setAt(e.target.value); setConfirming(false); }} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
           {kind === "dose" ? (
             <>
               <label htmlFor={`${id}-ml`} className="font-bold">mL of stock added</label>
-              <input id={`${id}-ml`} inputMode="decimal" value={amount} onChange={(e) => setAmount(e.target.value)} className="rounded-md border border-peat-300 px-3 py-2" />
+              <input id={`${id}-ml`} inputMode="decimal" value={amount} onChange={(e) => { setAmount(e.target.value); setConfirming(false); }} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
             </>
           ) : (
             <>
               <label htmlFor={`${id}-text`} className="font-bold">What you saw</label>
-              <textarea id={`${id}-text`} rows={3} value={text} onChange={(e) => setText(e.target.value)} className="rounded-md border border-peat-300 px-3 py-2" />
+              <textarea id={`${id}-text`} rows={3} value={text} onChange={(e) => setText(e.target.value)} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
               <label htmlFor={`${id}-photo`} className="font-bold">Photo (optional)</label>
-              <input id={`${id}-photo`} type="file" accept="image/jpeg,image/png,image/webp,image/avif" onChange={(e) => setPhoto(e.target.files?.[0] ?? null)} />
+              <input id={`${id}-photo`} type="file" accept="image/jpeg,image/png,image/webp,image/avif" onChange={(e) => setPhoto(e.target.files?.[0] ?? null)} className="w-full min-w-0" />
             </>
           )}
           {error ? <p role="alert" className="font-bold text-alarm-700">{error}</p> : null}
-          <button type="submit" disabled={busy} className="justify-self-start rounded-md bg-peat-700 px-4 py-2 font-bold text-white">{busy ? "Saving…" : "Add to the log"}</button>
+          <div className="flex flex-wrap gap-3">
+            <button type="submit" disabled={busy} className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white">{busy ? "Saving…" : "Add to the log"}</button>
+            {confirming ? <button type="button" disabled={busy} onClick={() => void save(true)} className="rounded-md border-2 border-alarm-700 px-4 py-2 font-bold text-alarm-700">Yes, it is right: save it</button> : null}
+          </div>
         </form>
       ) : null}
     </section>
+  );
+}
+
+function NextDose({ figures }: { figures: CourseFiguresView }) {
+  const next = figures.nextDose;
+  return (
+    <div className="grid min-w-0 gap-2 rounded-lg border-2 border-peat-500 bg-white p-4" data-testid="next-dose">
+      {next ? (
+        <p>
+          <span className="font-bold">{next.first ? "First dose: due now" : Date.parse(next.at) <= Date.now() ? `Next dose: due since ${inWords(next.at)}` : `Next dose: ${inWords(next.at)}`}</span>
+          {next.first ? null : <> (<time dateTime={next.at}>{fmtTime(next.at)}</time>)</>} —{" "}
+          <span data-testid="next-dose-ml">{round(next.doseMl, 1)} mL</span>
+          {next.concentration != null ? <>, making <span data-testid="next-dose-concentration">{round(next.concentration, 2)} {next.unit}</span></> : null}
+          {figures.intervalHours ? <> (every {figures.intervalHours} h)</> : null}. Give it only if the fish took the last dose well.
+        </p>
+      ) : (
+        <p className="font-bold">No further dose is planned{figures.watchUntil ? <>; keep watching until <time dateTime={figures.watchUntil}>{fmtTime(figures.watchUntil)}</time></> : null}.</p>
+      )}
+      <p className="font-bold">What to watch for</p>
+      <ul className="ml-5 grid list-disc gap-1">
+        {figures.watchFor.map((w) => <li key={w}>{w}</li>)}
+      </ul>
+    </div>
+  );
+}
+
+function EntryEditor({ reportId, entry, onDone, onCancel }: { reportId: string; entry: CourseEntryView; onDone: () => void; onCancel: () => void }) {
+  const id = useId();
+  const [at, setAt] = useState(() => toLocalInput(entry.at));
+  const [amount, setAmount] = useState(entry.amountMl != null ? String(entry.amountMl) : "");
+  const [text, setText] = useState(entry.text ?? "");
+  const [note, setNote] = useState("");
+  const [error, setError] = useState<string | null>(null);
+  const [confirming, setConfirming] = useState(false);
+  const [busy, setBusy] = useState(false);
+
+  async function send(body: Record<string, unknown>) {
+    setBusy(true);
+    setError(null);
+    try {
+      await fetchJson(`/api/reports/${reportId}/entries/${entry.id}`, { method: "PATCH", body: JSON.stringify({ ...body, ...(note.trim() ? { note: note.trim() } : {}) }) });
+      onDone();
+    } catch (err) {
+      const e = explain(err);
+      setError(e.message);
+      setConfirming(e.needsConfirm);
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  function changes(confirm: boolean): Record<string, unknown> {
+    const out: Record<string, unknown> = {};
+    if (at !== toLocalInput(entry.at)) out.at = new Date(at).toISOString();
+    if (entry.kind === "dose") {
+      const ml = Number(amount.replace(",", "."));
+      if (amount.trim() !== "" && ml !== entry.amountMl) out.amountMl = Number.isFinite(ml) ? ml : amount;
+    }
+    if (text !== (entry.text ?? "")) out.text = text;
+    if (confirm) out.confirm = true;
+    return out;
+  }
+
+  return (
+    <form
+      onSubmit={(e) => { e.preventDefault(); void send(changes(false)); }}
+      className="grid w-full max-w-xl min-w-0 gap-2 rounded-lg border border-peat-100 bg-white p-3"
+      aria-label="Correct this entry"
+    >
+      <label htmlFor={`${id}-at`} className="font-bold">When</label>
+      <input id={`${id}-at`} type="datetime-local" value={at} onChange={(e) => { setAt(e.target.value); setConfirming(false); }} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
+      {entry.kind === "dose" ? (
+        <>
+          <label htmlFor={`${id}-ml`} className="font-bold">mL of stock added</label>
+          <input id={`${id}-ml`} inputMode="decimal" value={amount} onChange={(e) => { setAmount(e.target.value); setConfirming(false); }} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
+        </>
+      ) : null}
+      <label htmlFor={`${id}-text`} className="font-bold">{entry.kind === "dose" ? "Note on the dose" : "What you saw"}</label>
+      <textarea id={`${id}-text`} rows={2} value={text} onChange={(e) => setText(e.target.value)} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
+      <label htmlFor={`${id}-note`} className="font-bold">Why (kept in the history)</label>
+      <input id={`${id}-note`} value={note} onChange={(e) => setNote(e.target.value)} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
+      {error ? <p role="alert" className="font-bold text-alarm-700">{error}</p> : null}
+      <div className="flex flex-wrap gap-3">
+        <button type="submit" disabled={busy} className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white">Save the correction</button>
+        {confirming ? <button type="button" disabled={busy} onClick={() => void send(changes(true))} className="rounded-md border-2 border-alarm-700 px-4 py-2 font-bold text-alarm-700">Yes, it is right: save it</button> : null}
+        <button type="button" disabled={busy} onClick={() => void send({ struck: true })} className="rounded-md border border-alarm-700 px-4 py-2 text-alarm-700">Strike out</button>
+        <button type="button" disabled={busy} onClick={onCancel} className="rounded-md px-4 py-2 underline">Cancel</button>
+      </div>
+    </form>
   );
 }

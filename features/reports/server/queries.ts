@@ -69,7 +69,7 @@ export async function getReportById(actor: Actor | null, id: string) {
     flags: canReview(actor) || mine ? row.flags : [],
     completeness: row.completeness,
     courseOpen: row.courseOpen,
-    courseEntries: entries.map((e) => ({ id: e.id, kind: e.kind, at: e.at.toISOString(), amountMl: e.amountMl, text: e.text, photoId: e.photoId })),
+    courseEntries: entries.map((e) => ({ id: e.id, kind: e.kind, at: e.at.toISOString(), amountMl: e.amountMl, text: e.text, photoId: e.photoId, struckAt: e.struckAt?.toISOString() ?? null })),
     lastNote: lastNote ? { action: lastNote.action, note: lastNote.note, at: lastNote.at.toISOString() } : null,
     photos: pics.map((p) => ({ id: p.id, width: p.width, height: p.height, bytes: p.bytes, stage: p.stage })),
     createdAt: row.createdAt.toISOString(),

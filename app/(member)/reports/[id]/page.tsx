@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { getPageActor } from "@/features/members/server";
-import { getReportById, getReportHistory } from "@/features/reports/server";
+import { getCourse, getReportById, getReportHistory } from "@/features/reports/server";
 import { StatusBadge } from "@/features/reports/components/status-badge";
 import { CourseLog } from "@/features/reports/components/course-log";
 import { ReportActions } from "@/features/reports/components/report-actions";
@@ -15,7 +15,7 @@ export const metadata = { title: "Report" };
 const actionWords: Record<string, string> = {
   created: "created the draft", course_opened: "opened the course log", submitted: "submitted it for review", resubmitted: "resubmitted it",
   accept: "accepted it", return: "returned it for changes", decline: "declined it", retract: "retracted it", photo_added: "added a photo",
-  dose_logged: "logged a dose", map_species: "mapped the species", correct_loss_cause: "corrected the cause of losses", imported: "imported it",
+  dose_logged: "logged a dose", entry_corrected: "corrected a course entry", entry_struck: "struck out a course entry", map_species: "mapped the species", correct_loss_cause: "corrected the cause of losses", imported: "imported it",
 };
 
 export default async function ReportPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ submitted?: string }> }) {
@@ -23,6 +23,7 @@ export default async function ReportPage({ params, searchParams }: { params: Pro
   const actor = await getPageActor();
   const report = await pageData(getReportById(actor, id));
   const [history, catalogue] = await Promise.all([pageData(getReportHistory(actor, id)), getCatalogue()]);
+  const course = report.courseOpen || report.courseEntries.length ? await pageData(getCourse(actor, id)) : null;
   const condition = catalogue.conditions.find((c) => c.slug === report.conditionSlug)?.name ?? report.conditionSlug;
   return (
     <div className="grid gap-8">
@@ -49,8 +50,8 @@ export default async function ReportPage({ params, searchParams }: { params: Pro
 
       <ReportDetails report={report} conditionName={condition ?? null} />
 
-      {report.courseOpen || report.courseEntries.length ? (
-        <CourseLog reportId={report.id} entries={report.courseEntries} open={report.isMine && report.status === "draft"} />
+      {course ? (
+        <CourseLog reportId={report.id} entries={course.entries} figures={course} open={report.isMine && report.status === "draft"} />
       ) : null}
 
       <section className="grid gap-2">
