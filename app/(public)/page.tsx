@@ -1,7 +1,22 @@
 import Link from "next/link";
 import { Notice } from "@/features/shared/components/ui";
+import { getPageActor } from "@/features/members/server";
+import { getMemberHome } from "@/features/reports/server";
+import { countAwaitingReview } from "@/features/review/server";
+import { canReview } from "@/features/shared/policies";
+import { pageData } from "@/features/shared/server/page";
+import { MemberHome } from "@/app/_components/member-home";
 
-export default function HomePage() {
+export default async function HomePage() {
+  const actor = await getPageActor();
+  if (actor) {
+    // Reports sits below review in the layer order, so the queue's count is composed here.
+    const [home, queue] = await Promise.all([
+      pageData(getMemberHome({ actor })),
+      canReview(actor) ? countAwaitingReview({ actor }).then((count) => ({ count })) : null,
+    ]);
+    return <MemberHome name={actor.name} home={home} queue={queue} />;
+  }
   return (
     <div className="grid gap-10">
       <section className="rounded-xl bg-peat-100 p-8">

@@ -261,3 +261,13 @@ function EntryEditor({ reportId, entry, onDone, onCancel }: { reportId: string; 
     </form>
   );
 }
+
+/** A due time in words and in the reader's local time (formatted in the browser, hence no hydration warning). */
+export function DueTime({ at }: { at: string }) {
+  const past = Date.parse(at) <= Date.now();
+  return (
+    <time dateTime={at} suppressHydrationWarning>
+      {past ? `due since ${inWords(at)}` : inWords(at)} ({fmtTime(at)})
+    </time>
+  );
+}

@@ -167,6 +167,18 @@ export async function getCourse(actor: Actor | null, reportId: string) {
   return { ...courseFigures(row, agent, mgPerMl, unit, all), entries: all.map((e) => ({ ...entryOut(e), concentration: concentrationOf(e, row.volumeL, mgPerMl, unit) })) };
 }
 
+/** The next dose of each of these open courses (for the member's home); one small read per course. */
+export async function nextDosesOf(rows: ReportRow[]) {
+  const db = await getDb();
+  return Promise.all(
+    rows.map(async (row) => {
+      const { agent, mgPerMl, unit } = await courseStock(db, row);
+      const all = await db.select().from(courseEntries).where(eq(courseEntries.reportId, row.id));
+      return { reportId: row.id, ...courseFigures(row, agent, mgPerMl, unit, all) };
+    }),
+  );
+}
+
 function concentrationOf(e: EntryRow, volumeL: number | null, mgPerMl: number | null, unit: ConcentrationUnit): number | null {
   return e.kind === "dose" && e.amountMl != null && volumeL && mgPerMl ? concentrationFromMl(e.amountMl, volumeL, mgPerMl, unit) : null;
 }

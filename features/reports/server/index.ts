@@ -5,3 +5,4 @@ export { addCourseEntry, correctCourseEntry, getCourse, runDueReminders, startRe
 export { computeFlags, type Flag } from "./flags";
 export { derive } from "./derive";
 export type { ReportRow } from "./mapping";
+export { getMemberHome, type MemberHome } from "./home";
