@@ -130,6 +130,9 @@ describe("correcting and striking out course entries", () => {
     expect(both.status).toBe(422);
     expect(both.body.error.issues[0].path).toBe("struck");
     expect((await patch(id, e.body.id, { struck: false })).body.error.issues[0].path).toBe("struck");
+    const note = await call(entriesRoute.POST, `/api/reports/${id}/entries`, { params: { id }, cookie: owner.cookie, body: { kind: "observation", at: new Date().toISOString(), text: "Calm." } });
+    expect((await patch(id, note.body.id, { text: "  " })).body.error.issues[0].path).toBe("text");
+    expect((await patch(id, note.body.id, { amountMl: 3 })).body.error.issues[0].path).toBe("amountMl");
     expect((await patch(id, "not-a-number", { amountMl: 20 })).status).toBe(404);
     expect((await patch(id, 999_999, { amountMl: 20 })).status).toBe(404);
     expect((await getCourse(actorOf(owner), id)).entries[0]!.amountMl).toBe(30);

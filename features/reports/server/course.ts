@@ -126,6 +126,9 @@ export async function correctCourseEntry(actor: Actor | null, reportId: string, 
   if (patch.amountMl !== undefined && entry.kind !== "dose") {
     throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "amountMl", message: "An observation has no amount; correct its text or time." }]);
   }
+  if (entry.kind === "observation" && patch.text !== undefined && !patch.text) {
+    throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "text", message: "Describe what you saw, or strike the observation out." }]);
+  }
   if (patch.amountMl !== undefined && !patch.confirm) {
     const { mgPerMl, unit } = await courseStock(db, row);
     const problem = amountNeedsConfirm(patch.amountMl, plannedDoseMl(row, mgPerMl, unit, all, entry.id));
