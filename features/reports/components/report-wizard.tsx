@@ -107,9 +107,13 @@ const stepOfField: Record<string, number> = Object.fromEntries(
     ["fishLost", "lossCause", "distress", "condition", "observedDaysAfter", "notes"],
   ].flatMap((fields, step) => fields.map((f) => [f, step])),
 );
-const plainFix: Record<string, string> = Object.fromEntries(Object.values(required).flat());
+const plainFix: Record<string, string> = {
+  ...Object.fromEntries(Object.values(required).flat()),
+  speciesOther: "Give the species as you know it.", ph: "Give a pH between 0 and 14, or leave it empty.", stockPercent: "Give the stock strength (%) of what you added.",
+  amountMl: "Give the mL added per dose.", intervalHours: "Give the hours between doses.", lossCause: "Choose the likely cause of the losses.", stockBasis: "Choose what the strength is of.",
+};
 // A server message that names a field or lists allowed values is not for people: say the field's own fix instead.
-const looksRaw = (m: string) => /\b[a-z]+[A-Z]\w*\b|\b[a-z]+_[a-z_]+\b|\bmust be [\w/-]+(, [\w/-]+)* or [\w/-]+/.test(m);
+const looksRaw = (m: string) => /\b[a-z]+[A-Z]\w*\b|\b[a-z]+_[a-z_]+\b|must be one of|\bmust be [\w/-]+(, [\w/-]+)* or [\w/-]+|^[a-z]\w* (must|is) /.test(m);
 interface ChecklistItem { field: string; step: number; text: string }
 function checklistOf(issues: { path: string; message: string }[]): ChecklistItem[] {
   const seen = new Set<string>();
