@@ -34,7 +34,7 @@ describe("the moderator's decision", () => {
       await signInAs(mod, "moderator@example.org");
       await mod.goto(`${baseUrl()}/review/${id}`);
       const flags = mod.getByTestId("review-flags");
-      expect(await flags.textContent()).toMatch(/Above ceiling:.*300 mg\/L.*plausible ceiling of 150 mg\/L/);
+      expect(await flags.textContent()).toMatch(/Above ceiling:.*300(\.0)? mg\/L.*plausible ceiling of 150 mg\/L/);
       // The flags come before the decision form on the page.
       const [flagsY, formY] = await Promise.all([flags.boundingBox(), mod.getByRole("form", { name: "Decision" }).boundingBox()]);
       expect(flagsY!.y).toBeLessThan(formY!.y);
