@@ -3,7 +3,7 @@ import type { ReportView } from "@/features/reports/server";
 const v = (x: unknown, unit = "") => (x === null || x === undefined || x === "" ? "—" : `${x}${unit}`);
 
 /** The fields, flags and photos of one report, for its member's page and the review page. */
-export function ReportDetails({ report, conditionName }: { report: ReportView; conditionName: string | null }) {
+export function ReportDetails({ report, conditionName, showFlags = true }: { report: ReportView; conditionName: string | null; showFlags?: boolean }) {
   const condition = conditionName;
   const dose = report.concentration == null ? "—" : `${report.concentration >= 10 ? report.concentration.toFixed(1) : report.concentration.toPrecision(3)} ${report.unit}`;
   return (
@@ -38,7 +38,7 @@ export function ReportDetails({ report, conditionName }: { report: ReportView; c
         </dl>
       </section>
 
-      {report.flags.length ? (
+      {showFlags && report.flags.length ? (
         <section className="grid gap-2">
           <h2 className="text-xl font-bold text-peat-900">Points a moderator will check</h2>
           <ul className="list-disc pl-6">{report.flags.map((f) => <li key={f.code}>{f.message}</li>)}</ul>

@@ -1,1 +1,2 @@
 export * from "./schemas";
+export { flagLabels } from "./flag-labels";

@@ -1,17 +1,21 @@
 import { z } from "zod";
 import { lossCauses, reportStatuses } from "@/features/reports";
 
-export const decisions = ["accept", "return", "decline", "retract"] as const;
+/**
+ * "propose_accept" records one moderator's accept of a report flagged above the agent's plausible ceiling without
+ * changing its status: a second moderator's accept then completes it (the alternative is an override note).
+ */
+export const decisions = ["accept", "return", "decline", "retract", "propose_accept"] as const;
 export type Decision = (typeof decisions)[number];
 
 export const decisionSchema = z
   .object({
-    decision: z.enum(decisions, { error: "decision must be accept, return, decline or retract." }),
+    decision: z.enum(decisions, { error: "decision must be accept, return, decline, retract or propose_accept." }),
     note: z.string({ error: "note must be text." }).trim().max(2000, "The note is at most 2000 characters.").optional().default(""),
   })
   .strict()
   .superRefine((d, ctx) => {
-    if (d.decision !== "accept" && d.note.length < 3) {
+    if (d.decision !== "accept" && d.decision !== "propose_accept" && d.note.length < 3) {
       const what = { return: "what the member should fix", decline: "why the report is declined", retract: "why the report is retracted" }[d.decision];
       ctx.addIssue({ code: "custom", path: ["note"], message: `Write a note saying ${what}.` });
     }
@@ -38,7 +42,11 @@ export const decisionStatus: Record<Decision, { from: string; to: string }> = {
   return: { from: "awaiting_review", to: "returned" },
   decline: { from: "awaiting_review", to: "declined" },
   retract: { from: "accepted", to: "retracted" },
+  propose_accept: { from: "awaiting_review", to: "awaiting_review" },
 };
+
+/** The shortest override note that lets one moderator accept a report flagged above the agent's ceiling. */
+export const overrideNoteMin = 20;
 
 /** Every status but draft: drafts stay their author's own. */
 export const listedStatuses = reportStatuses.filter((s) => s !== "draft") as Exclude<(typeof reportStatuses)[number], "draft">[];

@@ -82,6 +82,59 @@ describe("decisions and who may make them", () => {
   });
 });
 
+describe("a dose above the agent's plausible ceiling", () => {
+  // 400 mL of 3 % w/v stock in the factory's 40 L tank is 300 mg/L, above the starter catalogue's ceiling of 150 mg/L.
+  const hotBody = () => reportBody({ submit: true, treatment: { amountMl: 400 } });
+
+  it("cannot be accepted by one moderator without an override note (422 naming note); nothing changes", async () => {
+    const id = await submitted(hotBody());
+    for (const note of [undefined, "Looks fine."]) {
+      const r = await decide(id, mod.cookie, note === undefined ? { decision: "accept" } : { decision: "accept", note });
+      expect(r.status).toBe(422);
+      expect(r.body.error.code).toBe("invalid");
+      expect(r.body.error.issues[0].path).toBe("note");
+      expect(r.body.error.issues[0].message).toMatch(/override note of at least 20 characters/);
+    }
+    const [row] = await (await getDb()).select().from(schema.reports).where(eq(schema.reports.id, id));
+    expect(row!.status).toBe("awaiting_review");
+    const h = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: mod.cookie });
+    expect(h.body.events.map((e: { action: string }) => e.action)).toEqual(["created", "submitted"]);
+  });
+
+  it("is accepted by one moderator with an override note, which the history keeps", async () => {
+    const id = await submitted(hotBody());
+    const note = "Member re-measured the stock by titration; dose confirmed.";
+    const r = await decide(id, mod.cookie, { decision: "accept", note });
+    expect(r.status).toBe(200);
+    expect(r.body).toEqual({ id, status: "accepted" });
+    const h = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: member.cookie });
+    expect(h.body.events.at(-1)).toMatchObject({ action: "accept", from: "awaiting_review", to: "accepted", note, actor: { name: "Moe Moderator" } });
+  });
+
+  it("is accepted without a note once a second moderator accepts after the first one's proposal", async () => {
+    const id = await submitted(hotBody());
+    const first = await decide(id, mod.cookie, { decision: "propose_accept" });
+    expect(first.body).toEqual({ id, status: "awaiting_review" });
+    // The proposer alone cannot complete it.
+    expect((await decide(id, mod.cookie, { decision: "accept" })).status).toBe(422);
+    expect((await decide(id, mod.cookie, { decision: "propose_accept" })).status).toBe(409);
+    expect((await decide(id, mod2.cookie, { decision: "accept" })).body.status).toBe("accepted");
+    const h = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: mod.cookie });
+    expect(h.body.events.map((e: { action: string; actor: { name: string } }) => [e.action, e.actor.name])).toEqual([
+      ["created", "Mira Member"],
+      ["submitted", "Mira Member"],
+      ["propose_accept", "Moe Moderator"],
+      ["accept", "Nia Second"],
+    ]);
+  });
+
+  it("does not need a second moderator when the dose is within the ceiling", async () => {
+    const id = await submitted();
+    expect((await decide(id, mod.cookie, { decision: "propose_accept" })).status).toBe(409);
+    expect((await decide(id, mod.cookie, { decision: "accept" })).body.status).toBe("accepted");
+  });
+});
+
 describe("a return → resubmit → accept cycle", () => {
   it("keeps every step in the history with actor and note, and mails the member once per decision", async () => {
     const id = await submitted();

@@ -23,6 +23,28 @@ function explain(err: Failure, context: "sign-in" | "sign-up" | "reset"): string
   return err.message ?? err.error?.message ?? "Something went wrong. Try again.";
 }
 
+/**
+ * What the e-mail confirmation link did. better-auth's verify-email route redirects to the callbackURL either
+ * plainly (confirmed) or with `error=<CODE>` (TOKEN_EXPIRED, INVALID_TOKEN, USER_NOT_FOUND, INVALID_USER): an error
+ * always wins over the `verified` marker that the callbackURL itself carries.
+ */
+function verificationOutcome(params: URLSearchParams): { tone: "info" | "alarm"; title: string; body: ReactNode } | null {
+  const error = params.get("error");
+  if (error) {
+    const code = error.toUpperCase();
+    if (code === "TOKEN_EXPIRED")
+      return { tone: "alarm", title: "This confirmation link has expired", body: <>Your address is not confirmed yet. Links work for one hour: sign in below with your e-mail and password, and we send you a fresh link.</> };
+    if (code === "USER_NOT_FOUND")
+      return { tone: "alarm", title: "This confirmation link has no account", body: <>The account it was sent for no longer exists. <Link href="/sign-up">Join again</Link> to get a new link.</> };
+    if (code === "INVALID_USER")
+      return { tone: "alarm", title: "This link is for another account", body: <>You are signed in as someone else. Sign out, then open the link from the e-mail again.</> };
+    return { tone: "alarm", title: "This confirmation link is invalid", body: <>Your address is not confirmed by it: the link may be incomplete (copy the whole of it) or replaced by a newer one. Sign in below with your e-mail and password, and we send you a fresh link.</> };
+  }
+  if (params.get("verified")) return { tone: "info", title: "Address confirmed", body: <>Your e-mail address is confirmed. Sign in below if this page does not show you signed in.</> };
+  if (params.get("reset")) return { tone: "info", title: "Password changed", body: <>Sign in with your new password. Other devices were signed out.</> };
+  return null;
+}
+
 function FormShell({ title, children, footer }: { title: string; children: ReactNode; footer?: ReactNode }) {
   return (
     <div className="mx-auto max-w-md rounded-xl border border-peat-100 bg-white p-6 shadow-sm">
@@ -43,6 +65,7 @@ export function SignInForm() {
   const id = useId();
   const [error, setError] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
+  const outcome = verificationOutcome(params);
   async function onSubmit(e: FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const data = new FormData(e.currentTarget);
@@ -70,7 +93,13 @@ export function SignInForm() {
         </p>
       }
     >
-      {params.get("verified") ? <Notice title="Address confirmed">You can sign in now.</Notice> : null}
+      {outcome ? (
+        <div data-testid="verification-outcome" className="mb-4">
+          <Notice tone={outcome.tone} title={outcome.title}>
+            {outcome.body}
+          </Notice>
+        </div>
+      ) : null}
       <form onSubmit={onSubmit} className="grid gap-4" noValidate={false}>
         <Field label="E-mail" id={`${id}-email`}>
           <TextInput id={`${id}-email`} name="email" type="email" autoComplete="email" required />
@@ -199,7 +228,9 @@ export function ResetPasswordForm() {
   const router = useRouter();
   const id = useId();
   const token = params.get("token");
-  const [error, setError] = useState<string | null>(params.get("error") ? explain({ code: "INVALID_TOKEN" }, "reset") : null);
+  // better-auth answers an unknown, used and expired reset link alike (error=INVALID_TOKEN): say all three.
+  const linkFailed = !!params.get("error");
+  const [error, setError] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
   async function onSubmit(e: FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -216,9 +247,20 @@ export function ResetPasswordForm() {
     else router.push("/sign-in?reset=1");
   }
   return (
-    <FormShell title="Choose a new password" footer={<Link href="/forgot-password">Ask for a new link</Link>}>
-      {!token ? (
-        <p role="alert">{error ?? "This page needs the link from your reset e-mail."}</p>
+    <FormShell title={linkFailed ? "This reset link does not work" : token ? "Choose a new password" : "Open the link from your e-mail"} footer={<Link href="/forgot-password">Ask for a new link</Link>}>
+      {linkFailed || !token ? (
+        <div role="alert" data-testid="reset-outcome" className="grid gap-2">
+          {linkFailed ? (
+            <p>
+              Your password was not changed. The link has expired (reset links work for a limited time), was already used, or is incomplete.
+            </p>
+          ) : (
+            <p>This page needs the whole link from your password-reset e-mail. Your password was not changed.</p>
+          )}
+          <p>
+            Next: <Link href="/forgot-password">ask for a new reset link</Link> and open the newest e-mail.
+          </p>
+        </div>
       ) : (
         <form onSubmit={onSubmit} className="grid gap-4">
           <Field label="New password" id={`${id}-password`} hint="At least 10 characters.">

@@ -21,31 +21,55 @@ const features = tableFeatures({ rowSortingFeature, rowPaginationFeature });
 const helper = createColumnHelper<typeof features, Member>();
 const emptyRows: Member[] = [];
 
+const roleWords: Record<Role, string> = { member: "member", moderator: "moderator", admin: "admin" };
+
+/** Choosing a role only proposes it (arrow keys move through the menu freely); a confirm step changes it. */
 function RoleSelect({ member }: { member: Member }) {
   const client = useQueryClient();
+  const id = useId();
   const [error, setError] = useState<string | null>(null);
+  const [pending, setPending] = useState<Role | null>(null);
   const change = useMutation({
     mutationFn: (role: Role) => fetchJson(`/api/admin/members/${member.id}`, { method: "PATCH", body: JSON.stringify({ role }) }),
     onSuccess: () => {
       setError(null);
+      setPending(null);
       return client.invalidateQueries({ queryKey: memberKeys.all });
     },
     onError: (err) => setError(err instanceof ApiError ? err.message : "The role could not be changed."),
   });
+  const proposed = pending && pending !== member.role ? pending : null;
   return (
     <div>
       <Select
         aria-label={`Role of ${member.name}`}
-        value={member.role}
+        value={proposed ?? member.role}
         disabled={change.isPending}
-        onChange={(e) => change.mutate(e.target.value as Role)}
+        aria-describedby={proposed ? `${id}-confirm` : undefined}
+        onChange={(e) => {
+          setError(null);
+          setPending(e.target.value as Role);
+        }}
       >
         {roles.map((r) => (
           <option key={r} value={r}>
-            {r}
+            {roleWords[r] ?? r}
           </option>
         ))}
       </Select>
+      {proposed ? (
+        <div className="mt-1 flex flex-wrap items-center gap-2 text-sm" id={`${id}-confirm`} data-testid="role-confirm">
+          <span>
+            Make {member.name} {proposed === "admin" ? "an" : "a"} {roleWords[proposed] ?? proposed} (now {roleWords[member.role as Role] ?? member.role})?
+          </span>
+          <button type="button" disabled={change.isPending} onClick={() => change.mutate(proposed)} className="rounded-md bg-peat-700 px-2 py-1 font-bold text-white">
+            {change.isPending ? "Changing…" : "Change role"}
+          </button>
+          <button type="button" disabled={change.isPending} onClick={() => { setPending(null); setError(null); }} className="rounded-md border border-peat-500 px-2 py-1">
+            Cancel
+          </button>
+        </div>
+      ) : null}
       {error ? (
         <p role="alert" className="mt-1 text-sm text-alarm-700">
           {error}

@@ -98,6 +98,36 @@ const required: Record<number, [string, string][]> = {
   3: [["fishLost", "Give the number of fish lost (0 if none)."], ["distress", "Choose the distress seen."], ["condition", "Choose how the condition ended."], ["observedDaysAfter", "Give the days watched after the last dose."]],
 };
 
+/** The wizard step each field is on, for the submit checklist (the fields named in steps' <Fld>s). */
+const stepOfField: Record<string, number> = Object.fromEntries(
+  [
+    ["speciesId", "speciesOther", "fishCount", "sizeClass", "conditionSlug", "startedOn"],
+    ["volume", "volumeUnit", "temperature", "temperatureUnit", "ph", "setting"],
+    ["agentSlug", "stockFormId", "stockPercent", "stockBasis", "stockDensityGPerMl", "amountMl", "statedConcentration", "doses", "intervalHours", "otherTreatments"],
+    ["fishLost", "lossCause", "distress", "condition", "observedDaysAfter", "notes"],
+  ].flatMap((fields, step) => fields.map((f) => [f, step])),
+);
+const plainFix: Record<string, string> = {
+  ...Object.fromEntries(Object.values(required).flat()),
+  speciesOther: "Give the species as you know it.", ph: "Give a pH between 0 and 14, or leave it empty.", stockPercent: "Give the stock strength (%) of what you added.",
+  amountMl: "Give the mL added per dose.", intervalHours: "Give the hours between doses.", lossCause: "Choose the likely cause of the losses.", stockBasis: "Choose what the strength is of.",
+};
+// A server message that names a field or lists allowed values is not for people: say the field's own fix instead.
+const looksRaw = (m: string) => /\b[a-z]+[A-Z]\w*\b|\b[a-z]+_[a-z_]+\b|must be one of|\bmust be [\w/-]+(, [\w/-]+)* or [\w/-]+|^[a-z]\w* (must|is) /.test(m);
+interface ChecklistItem { field: string; step: number; text: string }
+function checklistOf(issues: { path: string; message: string }[]): ChecklistItem[] {
+  const seen = new Set<string>();
+  const items: ChecklistItem[] = [];
+  for (const i of issues) {
+    const field = fieldOfPath(i.path);
+    if (seen.has(field)) continue;
+    seen.add(field);
+    const step = stepOfField[field] ?? 4;
+    items.push({ field, step, text: !looksRaw(i.message) ? i.message : (plainFix[field] ?? "Check this answer.") });
+  }
+  return items.sort((x, y) => x.step - y.step);
+}
+
 const fieldOfPath = (path: string) => path.split(".").pop()!.replace(/^condition$/, "condition");
 
 function Fld({ fid, errs, name, label, hint, children }: { fid: string; errs: Record<string, string>; name: string; label: string; hint?: string; children: ReactNode }) {
@@ -118,6 +148,7 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
   const [form, setForm] = useState<Form>(() => initialForm(report, prefill ?? {}));
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [banner, setBanner] = useState<string | null>(null);
+  const [checklist, setChecklist] = useState<ChecklistItem[] | null>(null);
   const [busy, setBusy] = useState(false);
   const [speciesSearch, setSpeciesSearch] = useState("");
   const set = (k: string) => (e: { target: { value: string } }) => setForm((f) => ({ ...f, [k]: e.target.value }));
@@ -194,13 +225,14 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
     if (!report) return;
     setBusy(true);
     setBanner(null);
+    setChecklist(null);
     try {
       await fetchJson(`/api/reports/${report.id}/submit`, { method: "POST" });
       router.push(`/reports/${report.id}?submitted=1`);
       router.refresh();
     } catch (err) {
-      if (err instanceof ApiError && err.body.issues) {
-        setBanner(`${err.message} ${err.body.issues.map((i) => `${i.path}: ${i.message}`).join(" ")}`);
+      if (err instanceof ApiError && err.body.issues?.length) {
+        setChecklist(checklistOf(err.body.issues));
       } else setBanner(err instanceof ApiError ? err.message : "The report could not be submitted; try again.");
     } finally {
       setBusy(false);
@@ -234,6 +266,29 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
         </div>
       ) : null}
       {banner ? <p role="alert" className="rounded-md bg-alarm-100 p-3 font-bold text-alarm-700">{banner}</p> : null}
+      {checklist ? (
+        <div role="alert" className="grid gap-2 rounded-md border-l-4 border-alarm-500 bg-alarm-100 p-4" data-testid="submit-checklist">
+          <p className="font-bold text-alarm-700">The report is not submitted yet: {checklist.length === 1 ? "one thing is" : `${checklist.length} things are`} missing or need fixing.</p>
+          <ul className="grid gap-1">
+            {checklist.map((c) => (
+              <li key={c.field}>
+                <button
+                  type="button"
+                  className="text-left underline"
+                  onClick={() => {
+                    setStep(c.step);
+                    // After the step renders, put the cursor in the field to fix.
+                    setTimeout(() => document.getElementById(`${id}-${c.field}`)?.focus(), 0);
+                  }}
+                >
+                  Step {c.step + 1}, {steps[c.step]}
+                </button>
+                : {c.text}
+              </li>
+            ))}
+          </ul>
+        </div>
+      ) : null}
 
       <form className="grid max-w-2xl gap-4" onSubmit={(e) => { e.preventDefault(); if (step < 4) void save(step + 1); }} noValidate aria-label={steps[step]}>
         {step === 0 ? (

@@ -3,6 +3,7 @@
 import { useRouter } from "next/navigation";
 import { useId, useState, type FormEvent } from "react";
 import { ApiError, fetchJson } from "@/features/shared/fetch-json";
+import { overrideNoteMin } from "../schemas";
 
 const choices = {
   awaiting_review: [
@@ -13,11 +14,23 @@ const choices = {
   accepted: [{ value: "retract", label: "Retract from the evidence (duplicate, error)" }],
 } as const;
 
-export function DecisionForm({ id, status, isMine, species, lossCause }: { id: string; status: string; isMine: boolean; species: { id: string; label: string }[] | null; lossCause?: string | null }) {
+/** Where one moderator stands on a report flagged above the agent's ceiling: who proposed to accept it, in this round. */
+export interface CeilingState {
+  aboveCeiling: boolean;
+  proposedByMe: boolean;
+  proposedByOther: string | null;
+}
+
+export function DecisionForm({ id, status, isMine, species, lossCause, ceiling, flagsId }: { id: string; status: string; isMine: boolean; species: { id: string; label: string }[] | null; lossCause?: string | null; ceiling?: CeilingState; flagsId?: string }) {
   const router = useRouter();
   const fid = useId();
-  const options = choices[status as keyof typeof choices];
-  const [decision, setDecision] = useState<string>(options?.[0]?.value ?? "");
+  const base = choices[status as keyof typeof choices];
+  // Above the ceiling, one moderator may instead record an accept that a second moderator completes.
+  const needsOverride = status === "awaiting_review" && !!ceiling?.aboveCeiling && !ceiling.proposedByOther;
+  const options: readonly { value: string; label: string }[] | undefined =
+    base && needsOverride && !ceiling?.proposedByMe ? [...base, { value: "propose_accept", label: "Accept, but ask a second moderator to accept too" }] : base;
+  // Nothing is chosen when the form opens: a decision is always a deliberate act.
+  const [decision, setDecision] = useState<string>("");
   const [note, setNote] = useState("");
   const [error, setError] = useState<string | null>(null);
   const [done, setDone] = useState<string | null>(null);
@@ -47,8 +60,26 @@ export function DecisionForm({ id, status, isMine, species, lossCause }: { id: s
   }
   const onSubmit = (e: FormEvent) => {
     e.preventDefault();
-    void post(`/api/reports/${id}/decision`, { decision, note }, "Decision saved; the member has been told by e-mail.");
+    if (!decision) {
+      setError("Choose a decision first: accept, return or decline.");
+      return;
+    }
+    void post(
+      `/api/reports/${id}/decision`,
+      { decision, note },
+      decision === "propose_accept" ? "Your accept is recorded; the report waits for a second moderator to accept it too." : "Decision saved; the member has been told by e-mail.",
+    );
   };
+  const noteLabel =
+    decision === "accept" && needsOverride
+      ? `Override note (required: at least ${overrideNoteMin} characters saying why this dose is plausible)`
+      : decision === "accept" || decision === "propose_accept"
+        ? "Note (optional)"
+        : decision === "return"
+          ? "What should the member fix?"
+          : decision === ""
+            ? "Note"
+            : "Reason";
   return (
     <div className="grid gap-6">
       {species ? (
@@ -79,7 +110,22 @@ export function DecisionForm({ id, status, isMine, species, lossCause }: { id: s
         </form>
       ) : null}
       <form onSubmit={onSubmit} className="grid gap-3 rounded-lg border border-peat-100 bg-white p-4" aria-label="Decision">
-        <fieldset className="grid gap-2">
+        {status === "awaiting_review" && ceiling?.aboveCeiling ? (
+          <div className="rounded-md border-2 border-alarm-700 bg-white p-3" id={`${fid}-ceiling`} data-testid="ceiling-rule">
+            <p className="font-bold text-alarm-700">This dose is above the agent&apos;s plausible ceiling.</p>
+            {ceiling.proposedByOther ? (
+              <p>{ceiling.proposedByOther} has already accepted it and asked for a second moderator: your accept completes it.</p>
+            ) : ceiling.proposedByMe ? (
+              <p>You have accepted it and asked for a second moderator; another moderator&apos;s accept completes it. You can still accept it alone with an override note.</p>
+            ) : (
+              <p>
+                To accept it on your own, write an override note of at least {overrideNoteMin} characters saying why the dose is plausible. Or choose
+                &ldquo;ask a second moderator&rdquo;: the report is accepted when another moderator accepts it too.
+              </p>
+            )}
+          </div>
+        ) : null}
+        <fieldset className="grid gap-2" aria-describedby={[flagsId, status === "awaiting_review" && ceiling?.aboveCeiling ? `${fid}-ceiling` : null].filter(Boolean).join(" ") || undefined}>
           <legend className="mb-1 font-bold">Decision</legend>
           {options.map((o) => (
             <label key={o.value} className="flex items-center gap-2">
@@ -87,8 +133,11 @@ export function DecisionForm({ id, status, isMine, species, lossCause }: { id: s
             </label>
           ))}
         </fieldset>
-        <label htmlFor={`${fid}-note`} className="font-bold">{decision === "accept" ? "Note (optional)" : decision === "return" ? "What should the member fix?" : "Reason"}</label>
+        <label htmlFor={`${fid}-note`} className="font-bold">{noteLabel}</label>
         <textarea id={`${fid}-note`} rows={3} value={note} onChange={(e) => setNote(e.target.value)} className="rounded-md border border-peat-300 px-3 py-2" />
+        {decision === "accept" && needsOverride ? (
+          <p className="text-sm text-peat-700" aria-live="polite">{note.trim().length} of at least {overrideNoteMin} characters.</p>
+        ) : null}
         {error ? <p role="alert" className="font-bold text-alarm-700">{error}</p> : null}
         {done ? <p role="status" className="font-bold text-peat-700">{done}</p> : null}
         <button type="submit" disabled={busy} className="justify-self-start rounded-md bg-peat-700 px-4 py-2 font-bold text-white">{busy ? "Saving…" : "Record the decision"}</button>

@@ -1,5 +1,6 @@
 "use client";
 
+import { flagLabels } from "../flag-labels";
 import { Pager, TableView } from "@/features/shared/components/table-parts";
 import Link from "next/link";
 import { useQuery } from "@tanstack/react-query";
@@ -33,10 +34,7 @@ const features = tableFeatures({
 const helper = createColumnHelper<typeof features, QueueRow>();
 const empty: QueueRow[] = [];
 
-export const flagLabels: Record<string, string> = {
-  stated_mismatch: "stated ≠ computed", above_ceiling: "above ceiling", outside_group_range: "outside group's range",
-  temperature_unusual: "temperature", ph_unusual: "pH", species_not_listed: "species not listed", no_photos: "no photos", suspected_duplicate: "possible duplicate",
-};
+export { flagLabels };
 
 const columns = helper.columns([
   helper.accessor("species", { header: "Fish", sortFn: "alphanumeric", cell: (c) => <Link href={`/review/${c.row.original.id}`} className="font-bold">{c.getValue()}</Link> }),

@@ -1,5 +1,5 @@
 import "server-only";
-import { and, desc, eq } from "drizzle-orm";
+import { and, asc, desc, eq } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { getDb, schema } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
@@ -9,7 +9,7 @@ import type { Actor } from "@/features/shared/roles";
 import { assertRole } from "@/features/members/server";
 import { sendMail } from "@/features/mail/server";
 import { derive, getReportRowById, recordEvent } from "@/features/reports/server";
-import { decisionStatus, type CorrectionInput, type DecisionInput } from "../schemas";
+import { decisionStatus, overrideNoteMin, type CorrectionInput, type DecisionInput } from "../schemas";
 
 const { reports, reportEvents, users, species } = schema;
 
@@ -43,6 +43,29 @@ export async function decideReport(actor: Actor | null, id: string, input: Decis
     throw new AppError("conflict", "This species is not in the catalogue yet: map it to a catalogue species before accepting, so the report counts in a group.");
   }
   const db = await getDb();
+  const aboveCeiling = row.flags.some((f) => f.code === "above_ceiling");
+  if (input.decision === "propose_accept") {
+    if (!aboveCeiling) throw new AppError("conflict", "Only a report flagged above the agent's plausible ceiling waits for a second moderator; accept it directly.");
+    if (await proposedBy(id, actor.id)) throw new AppError("conflict", "You have already asked for a second moderator's accept on this report.");
+    const ok = await db.transaction(async (tx) => {
+      // Re-read under the transaction so a decision made meanwhile is not papered over with a proposal.
+      const [cur] = await tx.select({ status: reports.status }).from(reports).where(eq(reports.id, id));
+      if (cur?.status !== from) return false;
+      await recordEvent(tx, { reportId: id, actorId: actor.id, action: "propose_accept", from, to, note: input.note || null });
+      return true;
+    });
+    if (!ok) throw await conflict(id, (await getReportRowById(id))?.status ?? "gone", input.decision);
+    return { id, status: row.status, groupSlug: row.groupSlug, agentSlug: row.agentSlug };
+  }
+  // A dose above the agent's plausible ceiling is accepted by two moderators, or by one who writes down why.
+  if (input.decision === "accept" && aboveCeiling && input.note.length < overrideNoteMin && !(await proposedByAnother(id, actor.id))) {
+    throw new AppError("invalid", "This dose is above the agent's plausible ceiling: write an override note, or ask a second moderator to accept it too.", [
+      {
+        path: "note",
+        message: `Write an override note of at least ${overrideNoteMin} characters saying why this dose is plausible (for example, how the member measured it), or choose "Ask a second moderator" so another moderator's accept completes it.`,
+      },
+    ]);
+  }
   const updated = await db.transaction(async (tx) => {
     const [u] = await tx
       .update(reports)
@@ -61,6 +84,21 @@ export async function decideReport(actor: Actor | null, id: string, input: Decis
   return { id, status: updated.status, groupSlug: updated.groupSlug, agentSlug: updated.agentSlug };
 }
 
+/** Accept proposals on this report (from its current review round) by moderators other than `actorId`. */
+async function proposedByAnother(id: string, actorId: string): Promise<boolean> {
+  return (await proposals(id)).some((p) => p !== actorId);
+}
+async function proposedBy(id: string, actorId: string): Promise<boolean> {
+  return (await proposals(id)).includes(actorId);
+}
+async function proposals(id: string): Promise<string[]> {
+  const db = await getDb();
+  const events = await db.select({ action: reportEvents.action, actorId: reportEvents.actorId }).from(reportEvents).where(eq(reportEvents.reportId, id)).orderBy(asc(reportEvents.at), asc(reportEvents.id));
+  // A resubmission starts a new round: proposals made on an earlier version no longer count.
+  const start = events.findLastIndex((e) => e.action === "submitted" || e.action === "resubmitted");
+  return events.slice(start + 1).filter((e) => e.action === "propose_accept" && e.actorId).map((e) => e.actorId!);
+}
+
 async function conflict(id: string, status: string, decision: string): Promise<AppError> {
   const db = await getDb();
   const who = alias(users, "who");
@@ -75,7 +113,8 @@ async function conflict(id: string, status: string, decision: string): Promise<A
   return new AppError("conflict", `This report is ${status.replace("_", " ")}, so "${decision}" no longer applies.${detail}`);
 }
 
-async function notifyMember(userId: string, reportId: string, decision: keyof typeof words, note: string) {
+async function notifyMember(userId: string, reportId: string, decision: DecisionInput["decision"], note: string) {
+  if (decision === "propose_accept") return;
   const db = await getDb();
   const [u] = await db.select({ email: users.email, name: users.name }).from(users).where(eq(users.id, userId));
   if (!u) return;

@@ -2,6 +2,7 @@ import Link from "next/link";
 import { getPageActor } from "@/features/members/server";
 import { getReviewPage } from "@/features/review/server";
 import { DecisionForm } from "@/features/review/components/decision-form";
+import { flagLabels } from "@/features/review";
 import { StatusBadge } from "@/features/reports/components/status-badge";
 import { getCatalogue } from "@/features/catalogue/server";
 import { PageTitle } from "@/features/shared/components/ui";
@@ -12,6 +13,19 @@ import { ReportDetails } from "@/app/_components/report-details";
 export const metadata = { title: "Review a report" };
 
 const fmt = (x: number | null | undefined) => (x == null ? "—" : x >= 10 ? x.toFixed(1) : x.toPrecision(3));
+const when = (iso: string) => new Date(iso).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" });
+
+/** History actions in words. */
+const actionWords: Record<string, string> = {
+  created: "started the draft", course_opened: "opened a course log", submitted: "submitted it", resubmitted: "submitted it again",
+  accept: "accepted it", return: "returned it for changes", decline: "declined it", retract: "retracted it",
+  propose_accept: "accepted it and asked a second moderator to accept too (dose above the ceiling)",
+  map_species: "mapped the species to the catalogue", correct_loss_cause: "corrected the likely cause of losses", dose_logged: "logged a dose",
+};
+const flagTitle = (code: string) => {
+  const label = flagLabels[code] ?? "a point to check";
+  return label.charAt(0).toUpperCase() + label.slice(1);
+};
 
 export default async function ReviewReportPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
@@ -20,6 +34,15 @@ export default async function ReviewReportPage({ params }: { params: Promise<{ i
   const catalogue = await getCatalogue();
   const condition = catalogue.conditions.find((c) => c.slug === report.conditionSlug)?.name ?? report.conditionSlug;
   const group = catalogue.speciesGroups.find((g) => g.slug === report.groupSlug);
+  // Accept proposals count only in the current review round (after the latest submission).
+  const round = history.events.slice(history.events.findLastIndex((e) => e.action === "submitted" || e.action === "resubmitted") + 1);
+  const proposals = round.filter((e) => e.action === "propose_accept" && e.actor?.id);
+  const other = proposals.find((e) => e.actor!.id !== actor?.id);
+  const ceiling = {
+    aboveCeiling: report.flags.some((f) => f.code === "above_ceiling"),
+    proposedByMe: proposals.some((e) => e.actor!.id === actor?.id),
+    proposedByOther: other ? other.actor!.name || "Another moderator" : null,
+  };
   return (
     <div className="grid gap-8">
       <p><Link href="/review">← Review queue</Link></p>
@@ -31,6 +54,22 @@ export default async function ReviewReportPage({ params }: { params: Promise<{ i
           {report.source === "demo" ? <span className="rounded bg-reed-100 px-2 py-0.5 text-sm">Demo data (invented)</span> : null}
         </div>
       </div>
+      <section className="grid gap-2 rounded-lg border border-peat-100 bg-white p-4" aria-labelledby="review-flags-title" data-testid="review-flags">
+        <h2 id="review-flags-title" className="text-lg font-bold text-peat-900">
+          {report.flags.length ? `Points to check first (${report.flags.length})` : "Points to check first"}
+        </h2>
+        {report.flags.length ? (
+          <ul id="review-flags" className="grid gap-2">
+            {report.flags.map((f) => (
+              <li key={f.code} className={`rounded-md border-l-4 p-2 ${f.code === "above_ceiling" ? "border-alarm-700 bg-white" : "border-reed-300 bg-reed-100"}`}>
+                <strong>{flagTitle(f.code)}:</strong> {f.message}
+              </li>
+            ))}
+          </ul>
+        ) : (
+          <p id="review-flags">Nothing unusual was found when the report was submitted.</p>
+        )}
+      </section>
       <section className="grid gap-2 rounded-lg border border-peat-100 bg-white p-4" aria-label="Against the group's accepted reports">
         <h2 className="text-lg font-bold text-peat-900">Where this dose falls</h2>
         {context && context.n > 0 ? (
@@ -48,13 +87,35 @@ export default async function ReviewReportPage({ params }: { params: Promise<{ i
         isMine={report.isMine}
         species={report.speciesId ? null : catalogue.species.map((s) => ({ id: s.id, label: `${s.commonName} (${s.scientificName})` }))}
         lossCause={report.outcome.fishLost ? report.outcome.lossCause : null}
+        ceiling={ceiling}
+        flagsId="review-flags"
       />
-      <ReportDetails report={report} conditionName={condition ?? null} />
+      <section className="grid gap-2" aria-labelledby="review-course-title">
+        <h2 id="review-course-title" className="text-xl font-bold text-peat-900">Course log</h2>
+        {report.courseEntries.length === 0 ? (
+          <p className="text-peat-700">{report.courseOpen ? "The course is open; nothing logged yet." : "No course log: the member reported the treatment in one go."}</p>
+        ) : (
+          <ol className="grid gap-2" data-testid="review-course-log">
+            {report.courseEntries.map((e) => (
+              <li key={e.id} className="rounded-md border border-peat-100 bg-white p-2">
+                <strong>{when(e.at)}</strong> — {e.kind === "dose" ? `a dose of ${e.amountMl ?? "?"} mL of stock` : `observed: ${e.text ?? ""}`}
+                {e.photoId ? (
+                  <a href={`/api/photos/${e.photoId}?size=full`} className="ml-2 inline-block align-middle">
+                    {/* Served by our own route, which checks who may see the report. */}
+                    <img src={`/api/photos/${e.photoId}?size=thumb`} alt={`Photo with the observation of ${when(e.at)}`} className="h-20 rounded border border-peat-100 object-cover" />
+                  </a>
+                ) : null}
+              </li>
+            ))}
+          </ol>
+        )}
+      </section>
+      <ReportDetails report={report} conditionName={condition ?? null} showFlags={false} />
       <section className="grid gap-2">
         <h2 className="text-xl font-bold text-peat-900">History</h2>
         <ol className="grid gap-1" data-testid="history">
           {history.events.map((e, i) => (
-            <li key={i}><strong>{new Date(e.at).toLocaleString("en-GB")}</strong>: {e.actor?.name ?? "someone"} — {e.action}{e.note ? ` (“${e.note}”)` : ""}</li>
+            <li key={i}><strong>{when(e.at)}</strong>: {e.actor?.name ?? "someone"} {actionWords[e.action] ?? e.action.replaceAll("_", " ")}{e.note ? ` (“${e.note}”)` : ""}</li>
           ))}
         </ol>
       </section>
