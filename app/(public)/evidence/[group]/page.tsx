@@ -74,7 +74,7 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
 
           <section className="grid gap-2">
             <h2 className="text-xl font-bold text-peat-900">Every accepted report</h2>
-            <DoseChart unit={s.unit} points={s.points} p25={d.p25} p75={d.p75} median={d.median} medianInterval={d.medianInterval} lowestAdverse={s.lowestAdverseDose} bands={s.bands} />
+            <DoseChart unit={s.unit} points={s.points} pointBins={s.pointBins} p25={d.p25} p75={d.p75} median={d.median} medianInterval={d.medianInterval} lowestAdverse={s.lowestAdverseDose} bands={s.bands} />
             <p className="text-sm" data-testid="chart-text">
               In words: {s.tolerated} tolerated doses from {fmtDose(d.min)} to {fmtDose(d.max)} {s.unit}, the middle half between {fmtDose(d.p25)} and {fmtDose(d.p75)}, 10th and 90th percentiles {fmtDose(d.p10)} and {fmtDose(d.p90)};
               {" "}{s.reports - s.tolerated} adverse report{s.reports - s.tolerated === 1 ? "" : "s"}{s.lowestAdverseDose != null ? `, the lowest at ${fmtDose(s.lowestAdverseDose)} ${s.unit}` : ""}.
@@ -86,9 +86,9 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
             {dr && read ? (
               <>
                 <figure className="grid gap-1">
-                  <RiskChart unit={s.unit} level={s.confidenceLevel} curve={dr.curve} bmd={dr.bmd} bmdl={dr.bmdl} points={s.points} />
+                  <RiskChart unit={s.unit} level={s.confidenceLevel} curve={dr.curve} bmd={dr.bmd} bmdl={dr.bmdl} points={s.points} pointBins={s.pointBins} />
                   <figcaption className="text-sm text-peat-700">
-                    Anecdotal: a logistic curve fitted to these members&apos; reports, not a controlled study. Red line: the fitted chance that a course goes badly; shaded: its {s.confidenceLevel} % interval; dots: each report, went badly along the top, went well along the bottom; solid rule: BMD₁₀; dashed rule: BMDL₁₀.
+                    Anecdotal: a logistic curve fitted to these members&apos; reports, not a controlled study. Red line: the fitted chance that a course goes badly; shaded: its {s.confidenceLevel} % interval; {s.points.length ? "dots: each report, went badly along the top, went well along the bottom;" : "bars: the reports per narrow dose band, went badly hanging from the top, went well along the bottom;"} solid rule: BMD₁₀; dashed rule: BMDL₁₀.
                   </figcaption>
                 </figure>
                 <p data-testid="risk-text">
