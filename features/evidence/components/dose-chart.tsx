@@ -2,6 +2,7 @@
 
 import * as Plot from "@observablehq/plot";
 import { useEffect, useRef } from "react";
+import { useWidth } from "./use-width";
 
 interface Props {
   unit: string;
@@ -20,6 +21,7 @@ interface Props {
 export function DoseChart({ unit, points, pointBins = [], p25, p75, median, medianInterval, lowestAdverse, bands }: Props) {
   const dots = useRef<HTMLDivElement>(null);
   const shares = useRef<HTMLDivElement>(null);
+  const width = useWidth(dots);
   useEffect(() => {
     const outcome = (d: Props["points"][number]) => (d.tolerated ? "Tolerated" : "Adverse");
     // Large groups come as bins: one bar per bin and outcome, its height the count of reports.
@@ -28,6 +30,7 @@ export function DoseChart({ unit, points, pointBins = [], p25, p75, median, medi
       { from: b.from, to: b.to, n: b.reports - b.tolerated, outcome: "Adverse" },
     ]).filter((b) => b.n > 0) : [];
     const chart = Plot.plot({
+      width,
       height: 220,
       marginLeft: 90,
       style: { fontSize: "12px" },
@@ -46,10 +49,12 @@ export function DoseChart({ unit, points, pointBins = [], p25, p75, median, medi
     });
     const withData = bands.filter((b) => b.reports > 0);
     const shareChart = Plot.plot({
+      width,
       height: 220,
       marginLeft: 50,
       style: { fontSize: "12px" },
-      x: { label: `Dose band (${unit})`, domain: withData.map((b) => `${b.from}–${b.to ?? "+"}`) },
+      x: { label: `Dose band (${unit})`, domain: withData.map((b) => `${b.from}–${b.to ?? "+"}`), tickRotate: width < 480 && withData.length > 5 ? -40 : 0 },
+      marginBottom: width < 480 && withData.length > 5 ? 56 : 30,
       y: { label: "Share tolerated", domain: [0, 1], tickFormat: "%", grid: true },
       marks: [
         Plot.ruleX(withData, { x: (b) => `${b.from}–${b.to ?? "+"}`, y1: (b) => b.toleratedShare.low, y2: (b) => b.toleratedShare.high, stroke: "#1d5444" }),
@@ -62,17 +67,17 @@ export function DoseChart({ unit, points, pointBins = [], p25, p75, median, medi
       chart.remove();
       shareChart.remove();
     };
-  }, [unit, points, pointBins, p25, p75, median, medianInterval, lowestAdverse, bands]);
+  }, [width, unit, points, pointBins, p25, p75, median, medianInterval, lowestAdverse, bands]);
   return (
     <div className="grid gap-4">
       <figure className="grid gap-1">
-        <div ref={dots} data-testid="dose-chart" aria-hidden="true" />
+        <div ref={dots} data-testid="dose-chart" aria-hidden="true" className="min-w-0" />
         <figcaption className="text-sm text-peat-700">
           {points.length || !pointBins.length ? "Each dot is one accepted report at its peak dose." : "Each bar counts the accepted reports in a narrow dose band (too many reports for a dot each)."} Shaded: the middle half of tolerated doses; solid line: their median; dashed box: the median&apos;s interval; red dashed line: the lowest dose that went badly.
         </figcaption>
       </figure>
       <figure className="grid gap-1">
-        <div ref={shares} data-testid="band-chart" aria-hidden="true" />
+        <div ref={shares} data-testid="band-chart" aria-hidden="true" className="min-w-0" />
         <figcaption className="text-sm text-peat-700">Share of reports tolerated in each dose band, with its Wilson interval. The band table below gives the same figures as text.</figcaption>
       </figure>
     </div>

@@ -2,6 +2,7 @@
 
 import * as Plot from "@observablehq/plot";
 import { useEffect, useRef } from "react";
+import { useWidth } from "./use-width";
 import type { CurvePoint } from "../dose-response";
 
 interface Props {
@@ -18,6 +19,7 @@ interface Props {
 /** The fitted chance that a course goes badly, with its band, over log dose; BMD₁₀ and BMDL₁₀ marked; each report beneath. */
 export function RiskChart({ unit, level, curve, bmd, bmdl, points, pointBins = [] }: Props) {
   const ref = useRef<HTMLDivElement>(null);
+  const width = useWidth(ref);
   useEffect(() => {
     // Large groups come as bins: bars hanging from the top (went badly) and standing on the bottom (went well),
     // up to a tenth of the height for the fullest bin.
@@ -25,6 +27,7 @@ export function RiskChart({ unit, level, curve, bmd, bmdl, points, pointBins = [
     const most = Math.max(1, ...bins.map((b) => Math.max(b.tolerated, b.reports - b.tolerated)));
     const tall = (n: number) => (0.1 * n) / most;
     const chart = Plot.plot({
+      width,
       height: 260,
       marginLeft: 50,
       style: { fontSize: "12px" },
@@ -45,6 +48,6 @@ export function RiskChart({ unit, level, curve, bmd, bmdl, points, pointBins = [
     });
     ref.current?.replaceChildren(chart);
     return () => chart.remove();
-  }, [unit, level, curve, bmd, bmdl, points, pointBins]);
-  return <div ref={ref} data-testid="risk-chart" aria-hidden="true" />;
+  }, [width, unit, level, curve, bmd, bmdl, points, pointBins]);
+  return <div ref={ref} data-testid="risk-chart" aria-hidden="true" className="min-w-0" />;
 }

@@ -5,7 +5,7 @@ import { getSummaryDetail } from "@/features/evidence/server";
 import { DoseChart } from "@/features/evidence/components/dose-chart";
 import { RiskChart } from "@/features/evidence/components/risk-chart";
 import { isFitted, riskAt } from "@/features/evidence";
-import { counts, fmtDose, pct } from "@/features/evidence/components/format";
+import { cards, counts, fmtDose, pct } from "@/features/evidence/components/format";
 import { Cautions } from "@/features/shared/components/cautions";
 import { Notice, PageTitle } from "@/features/shared/components/ui";
 import { AppError } from "@/features/shared/errors";
@@ -105,18 +105,18 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
 
           <section className="grid gap-2">
             <h2 className="text-xl font-bold text-peat-900">By dose band</h2>
-            <div className="overflow-x-auto rounded-lg border border-peat-100 bg-white">
-              <table className="w-full text-left" data-testid="band-table">
-                <thead className="bg-peat-50">
+            <div className="min-w-0 overflow-x-auto rounded-lg border border-peat-100 bg-white">
+              <table className={cards.table} data-testid="band-table">
+                <thead className={cards.thead}>
                   <tr><th scope="col" className="px-3 py-2">Dose ({s.unit})</th><th scope="col" className="px-3 py-2">Reports</th><th scope="col" className="px-3 py-2">Tolerated (interval)</th><th scope="col" className="px-3 py-2">Cleared (interval)</th></tr>
                 </thead>
-                <tbody>
+                <tbody className={cards.tbody}>
                   {s.bands.map((b) => (
-                    <tr key={b.from} className="border-t border-peat-100">
-                      <th scope="row" className="px-3 py-2">{b.from} to {b.to == null ? "and above" : `under ${b.to}`}</th>
-                      <td className="px-3 py-2">{b.reports}</td>
-                      <td className="px-3 py-2">{b.reports ? `${b.tolerated} (${pct(b.toleratedShare.value)}; ${pct(b.toleratedShare.low)}–${pct(b.toleratedShare.high)})` : "—"}</td>
-                      <td className="px-3 py-2">{b.reports ? `${b.cleared} (${pct(b.clearedShare.value)}; ${pct(b.clearedShare.low)}–${pct(b.clearedShare.high)})` : "—"}</td>
+                    <tr key={b.from} className={cards.tr}>
+                      <th scope="row" className={cards.head}>{b.from} to {b.to == null ? "and above" : `under ${b.to}`}</th>
+                      <td data-label="Reports" className={cards.cell}>{b.reports}</td>
+                      <td data-label="Tolerated (interval)" className={cards.cell}>{b.reports ? `${b.tolerated} (${pct(b.toleratedShare.value)}; ${pct(b.toleratedShare.low)}–${pct(b.toleratedShare.high)})` : "—"}</td>
+                      <td data-label="Cleared (interval)" className={cards.cell}>{b.reports ? `${b.cleared} (${pct(b.clearedShare.value)}; ${pct(b.clearedShare.low)}–${pct(b.clearedShare.high)})` : "—"}</td>
                     </tr>
                   ))}
                 </tbody>
