@@ -116,4 +116,9 @@ export const doseResponseSchema = z.object({
     .nullable()
     .optional()
     .describe("With speciesId or group: a cautious first dose from the evidence; null when the group has no tolerated median"),
+  risk: z
+    .object({ dose: z.number(), risk: z.number(), low: z.number(), high: z.number(), level: z.number(), extrapolated: z.boolean() })
+    .nullable()
+    .optional()
+    .describe("With speciesId or group: the fitted chance (anecdotal) that the planned concentration goes badly, with its interval; null without a fitted dose-response"),
 });

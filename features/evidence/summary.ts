@@ -43,6 +43,8 @@ export const bandSchema = z.object({
 export const summaryDetailSchema = summarySchema.extend({
   bands: z.array(bandSchema),
   points: z.array(z.object({ dose: z.number(), tolerated: z.boolean(), cleared: z.boolean() })),
+  /** Above 300 reports `points` is empty and these carry the same counts per narrow dose bin; empty at or below. */
+  pointBins: z.array(z.object({ from: z.number(), to: z.number(), reports: z.number().int(), tolerated: z.number().int(), cleared: z.number().int() })),
   species: z.array(z.object({ id: z.string().nullable(), commonName: z.string(), scientificName: z.string().nullable(), reports: z.number().int() })),
 });
 

@@ -1,7 +1,8 @@
 import Link from "next/link";
 import { getCatalogue } from "@/features/catalogue/server";
 import { getSummaries } from "@/features/evidence/server";
-import { counts, fmtDose, pct } from "@/features/evidence/components/format";
+import { cards, counts, fmtDose, pct } from "@/features/evidence/components/format";
+import { GroupsChart } from "@/features/evidence/components/groups-chart";
 import { Cautions } from "@/features/shared/components/cautions";
 import { Notice, PageTitle } from "@/features/shared/components/ui";
 
@@ -14,6 +15,12 @@ export default async function EvidencePage({ searchParams }: { searchParams: Pro
   const condition = catalogue.conditions.some((c) => c.slug === sp.condition) ? sp.condition : undefined;
   const s = await getSummaries(agentSlug, condition);
   const q = new URLSearchParams({ agent: agentSlug, ...(condition ? { condition } : {}) });
+  // The comparison picture: groups with a tolerated range to draw (doses above zero, for the log axis).
+  const compared = s.groups.flatMap((g) => {
+    const d = g.toleratedDose;
+    if (d.p10 == null || d.p90 == null || d.median == null || d.p10 <= 0) return [];
+    return [{ name: g.group.name, p10: d.p10, p90: d.p90, median: d.median, bmdl: g.doseResponse?.bmdl ?? null }];
+  });
   return (
     <div className="grid gap-6">
       <PageTitle lead={`What members' fish tolerated, per group, for ${s.agentName.toLowerCase()}. Only reports a moderator accepted count. Intervals are ${s.confidenceLevel} %.`}>Evidence</PageTitle>
@@ -35,10 +42,20 @@ export default async function EvidencePage({ searchParams }: { searchParams: Pro
         <button type="submit" className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white">Show</button>
         <a href={`/api/export/summaries.csv?${q}`} className="rounded-md border border-peat-500 px-4 py-2 font-bold no-underline">Download as CSV</a>
       </form>
-      <div className="overflow-x-auto rounded-lg border border-peat-100 bg-white">
-        <table className="w-full text-left" data-testid="evidence-table">
+      {compared.length > 1 ? (
+        <figure className="grid min-w-0 gap-1 rounded-lg border border-peat-100 bg-white p-3">
+          <GroupsChart unit={s.unit} rows={compared} />
+          <figcaption className="text-sm text-peat-700">
+            Groups compared on one dose axis (log scale). Green bar: the middle 80 % of tolerated doses (10th to 90th percentile); dark dot: the median
+            tolerated dose; red tick: the BMDL₁₀, the lower limit of the dose at which the fitted chance of a bad outcome reaches 10 %, where a curve could be
+            fitted. Anecdotal. The table below gives the figures as text.
+          </figcaption>
+        </figure>
+      ) : null}
+      <div className="min-w-0 overflow-x-auto rounded-lg border border-peat-100 bg-white">
+        <table className={cards.table} data-testid="evidence-table">
           <caption className="sr-only">Summaries per species group for {s.agentName}</caption>
-          <thead className="bg-peat-50">
+          <thead className={cards.thead}>
             <tr>
               <th scope="col" className="px-3 py-2">Group</th>
               <th scope="col" className="px-3 py-2">Evidence</th>
@@ -46,23 +63,27 @@ export default async function EvidencePage({ searchParams }: { searchParams: Pro
               <th scope="col" className="px-3 py-2">Tolerated range (p25–p75, {s.unit})</th>
               <th scope="col" className="px-3 py-2">Median tolerated (interval)</th>
               <th scope="col" className="px-3 py-2">Lowest dose that went badly</th>
+              <th scope="col" className="px-3 py-2">p10–p90 ({s.unit})</th>
+              <th scope="col" className="px-3 py-2">BMDL₁₀ ({s.unit})</th>
             </tr>
           </thead>
-          <tbody>
+          <tbody className={cards.tbody}>
             {s.groups.map((g) => (
-              <tr key={g.group.slug} className="border-t border-peat-100 align-top">
-                <th scope="row" className="px-3 py-2">
+              <tr key={g.group.slug} className={cards.tr}>
+                <th scope="row" className={cards.head}>
                   <Link href={`/evidence/${g.group.slug}?${q}`}>{g.group.name}</Link>
                   {g.reports > 0 && g.sparse ? <span className="ml-2 rounded bg-reed-100 px-1.5 text-xs font-normal">too few to lean on</span> : null}
                 </th>
-                <td className="px-3 py-2">{g.reports ? counts(g.reports, g.members, g.fish) : <span className="text-peat-700">No accepted reports yet</span>}</td>
-                <td className="px-3 py-2">{g.reports ? <>{g.tolerated} of {g.reports} ({pct(g.toleratedShare.value)}; {pct(g.toleratedShare.low)}–{pct(g.toleratedShare.high)})</> : "—"}</td>
-                <td className="px-3 py-2">{g.toleratedDose.p25 == null ? "—" : `${fmtDose(g.toleratedDose.p25)}–${fmtDose(g.toleratedDose.p75)}`}</td>
-                <td className="px-3 py-2">
+                <td data-label="Evidence" className={cards.cell}>{g.reports ? counts(g.reports, g.members, g.fish) : <span className="text-peat-700">No accepted reports yet</span>}</td>
+                <td data-label="Tolerated" className={cards.cell}>{g.reports ? <>{g.tolerated} of {g.reports} ({pct(g.toleratedShare.value)}; {pct(g.toleratedShare.low)}–{pct(g.toleratedShare.high)})</> : "—"}</td>
+                <td data-label={`Tolerated range (p25–p75, ${s.unit})`} className={cards.cell}>{g.toleratedDose.p25 == null ? "—" : `${fmtDose(g.toleratedDose.p25)}–${fmtDose(g.toleratedDose.p75)}`}</td>
+                <td data-label="Median tolerated (interval)" className={cards.cell}>
                   {fmtDose(g.toleratedDose.median)}
                   {g.toleratedDose.medianInterval ? ` (${fmtDose(g.toleratedDose.medianInterval.low)}–${fmtDose(g.toleratedDose.medianInterval.high)})` : g.tolerated ? " (too few for an interval)" : ""}
                 </td>
-                <td className="px-3 py-2">{g.lowestAdverseDose == null ? "none reported" : `${fmtDose(g.lowestAdverseDose)} ${s.unit}`}</td>
+                <td data-label="Lowest dose that went badly" className={cards.cell}>{g.lowestAdverseDose == null ? "none reported" : `${fmtDose(g.lowestAdverseDose)} ${s.unit}`}</td>
+                <td data-label={`p10–p90 (${s.unit})`} className={cards.cell}>{g.toleratedDose.p10 == null ? "—" : `${fmtDose(g.toleratedDose.p10)}–${fmtDose(g.toleratedDose.p90)}`}</td>
+                <td data-label={`BMDL₁₀ (${s.unit})`} className={cards.cell}>{g.doseResponse?.bmdl == null ? "no fitted curve" : fmtDose(g.doseResponse.bmdl)}</td>
               </tr>
             ))}
           </tbody>

@@ -243,6 +243,20 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
         ],
       })
     : [];
+  // Where the group has a fitted dose–response, /api/dose reads the chance the planned dose goes badly from it (the
+  // fit lives in the evidence feature, above this one, so the server works it out).
+  const riskUrl = plan && query.success && groupSlug && evidenceQuery.isSuccess && evidence?.doseResponse?.bmdl != null ? `/api/dose?${new URLSearchParams(toQuery(values) as Record<string, string>)}` : null;
+  const riskQuery = useQuery({
+    queryKey: ["planner-risk", riskUrl],
+    enabled: riskUrl !== null,
+    placeholderData: (previous) => previous,
+    queryFn: async (): Promise<DoseRisk | null> => {
+      const r = await fetch(riskUrl!);
+      if (!r.ok) throw new Error("The fitted chance could not be loaded.");
+      return ((await r.json()) as { risk?: DoseRisk | null }).risk ?? null;
+    },
+  });
+  const risk = riskUrl !== null ? (riskQuery.data ?? null) : null;
   const warningKey = warnings.map((w) => w.message).join("|");
   const cleared = warnings.length === 0 || acknowledged === warningKey;
   const suggested = suggestFirstDose(evidence ?? null, firstDoseFraction);
@@ -467,6 +481,7 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
             </label>
           </div>
         ) : null}
+        {risk ? <RiskNote risk={risk} unit={agent.unit} groupName={evidence?.group.name ?? "these fish"} /> : null}
         <div aria-live="polite" data-testid="planner-result">
           {plan && cleared ? (
             <Result plan={plan} agent={agent} />
@@ -491,6 +506,23 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
           </a>
         ) : null}
       </section>
+    </div>
+  );
+}
+
+/** The fitted chance that a dose goes badly, as GET /api/dose answers it. */
+interface DoseRisk { dose: number; risk: number; low: number; high: number; level: number; extrapolated: boolean }
+
+function RiskNote({ risk, unit, groupName }: { risk: DoseRisk; unit: string; groupName: string }) {
+  return (
+    <div className="grid gap-1 rounded-lg border border-peat-300 bg-white p-4" data-testid="planner-risk">
+      <p className="text-sm font-bold uppercase tracking-wide text-peat-700">Chance this dose goes badly (anecdotal)</p>
+      <p>
+        At {fmtSig(risk.dose)} {unit}, the curve fitted to members&apos; reports for {groupName} puts the chance of a bad outcome at about{" "}
+        <strong>{pct(risk.risk)}</strong> ({risk.level} % interval {pct(risk.low)}–{pct(risk.high)}).
+      </p>
+      {risk.extrapolated ? <p className="font-bold text-alarm-700">This dose lies outside the doses members reported: the figure is read from the curve beyond the reports and may be far off.</p> : null}
+      <p className="text-sm text-peat-700">From self-selected reports, not a controlled study; a group mixes species. A low figure does not make a dose safe: start low, watch closely and ask an aquatic vet.</p>
     </div>
   );
 }

@@ -2,3 +2,17 @@ export const fmtDose = (x: number | null | undefined) => (x == null ? "—" : Ma
 export const pct = (x: number | null | undefined) => (x == null ? "—" : `${Math.round(x * 100)} %`);
 export const counts = (reports: number, members: number, fish: number) =>
   `${reports} report${reports === 1 ? "" : "s"} from ${members} member${members === 1 ? "" : "s"}, ${fish} fish`;
+
+/**
+ * Classes that turn a table into stacked cards below the `sm` breakpoint (a phone), each cell led by its column's
+ * name from `data-label`; from `sm` up it stays a table. The header row is hidden on phones, not removed, so
+ * screen readers on wide screens keep their column headers.
+ */
+export const cards = {
+  table: "w-full text-left max-sm:block",
+  thead: "bg-peat-50 max-sm:hidden",
+  tbody: "max-sm:block",
+  tr: "border-t border-peat-100 align-top max-sm:grid max-sm:gap-1 max-sm:px-3 max-sm:py-3",
+  cell: "px-3 py-2 max-sm:p-0 max-sm:before:block max-sm:before:text-xs max-sm:before:font-bold max-sm:before:uppercase max-sm:before:text-peat-700 max-sm:before:content-[attr(data-label)]",
+  head: "px-3 py-2 max-sm:p-0 max-sm:text-lg",
+};

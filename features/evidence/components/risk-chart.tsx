@@ -2,6 +2,7 @@
 
 import * as Plot from "@observablehq/plot";
 import { useEffect, useRef } from "react";
+import { useWidth } from "./use-width";
 import type { CurvePoint } from "../dose-response";
 
 interface Props {
@@ -11,15 +12,25 @@ interface Props {
   bmd: number;
   bmdl: number;
   points: { dose: number; tolerated: boolean }[];
+  /** Counts per narrow dose bin, sent instead of points for large groups. */
+  pointBins?: { from: number; to: number; reports: number; tolerated: number }[];
 }
 
 /** The fitted chance that a course goes badly, with its band, over log dose; BMD₁₀ and BMDL₁₀ marked; each report beneath. */
-export function RiskChart({ unit, level, curve, bmd, bmdl, points }: Props) {
+export function RiskChart({ unit, level, curve, bmd, bmdl, points, pointBins = [] }: Props) {
   const ref = useRef<HTMLDivElement>(null);
+  const width = useWidth(ref);
   useEffect(() => {
+    // Large groups come as bins: bars hanging from the top (went badly) and standing on the bottom (went well),
+    // up to a tenth of the height for the fullest bin.
+    const bins = points.length === 0 ? pointBins.filter((b) => b.from > 0) : [];
+    const most = Math.max(1, ...bins.map((b) => Math.max(b.tolerated, b.reports - b.tolerated)));
+    const tall = (n: number) => (0.1 * n) / most;
     const chart = Plot.plot({
+      width,
       height: 260,
       marginLeft: 50,
+      style: { fontSize: "12px" },
       x: { type: "log", label: `Peak dose (${unit}, log scale)`, grid: true },
       y: { label: "Chance the course goes badly", domain: [0, 1], tickFormat: "%", grid: true },
       marks: [
@@ -27,6 +38,8 @@ export function RiskChart({ unit, level, curve, bmd, bmdl, points }: Props) {
         Plot.lineY(curve, { x: "dose", y: "risk", stroke: "#b3261e", strokeWidth: 2 }),
         // The reports themselves: went badly along the top, went well along the bottom.
         Plot.dot(points.filter((p) => p.dose > 0), { x: "dose", y: (p: Props["points"][number]) => (p.tolerated ? 0 : 1), fill: (p: Props["points"][number]) => (p.tolerated ? "#2f7a63" : "#b3261e"), fillOpacity: 0.5, r: 3 }),
+        Plot.rect(bins.filter((b) => b.tolerated > 0), { x1: "from", x2: "to", y1: 0, y2: (b: (typeof bins)[number]) => tall(b.tolerated), fill: "#2f7a63", fillOpacity: 0.5, title: (b: (typeof bins)[number]) => `${b.tolerated} went well` }),
+        Plot.rect(bins.filter((b) => b.reports > b.tolerated), { x1: "from", x2: "to", y1: (b: (typeof bins)[number]) => 1 - tall(b.reports - b.tolerated), y2: 1, fill: "#b3261e", fillOpacity: 0.5, title: (b: (typeof bins)[number]) => `${b.reports - b.tolerated} went badly` }),
         Plot.ruleX([bmdl], { stroke: "#0f2e26", strokeDasharray: "4,3" }),
         Plot.ruleX([bmd], { stroke: "#0f2e26" }),
         Plot.text([{ x: bmd, label: "BMD₁₀" }, { x: bmdl, label: "BMDL₁₀" }], { x: "x", y: 0.92, text: "label", dx: 4, textAnchor: "start", fill: "#0f2e26" }),
@@ -35,6 +48,6 @@ export function RiskChart({ unit, level, curve, bmd, bmdl, points }: Props) {
     });
     ref.current?.replaceChildren(chart);
     return () => chart.remove();
-  }, [unit, level, curve, bmd, bmdl, points]);
-  return <div ref={ref} data-testid="risk-chart" aria-hidden="true" />;
+  }, [width, unit, level, curve, bmd, bmdl, points, pointBins]);
+  return <div ref={ref} data-testid="risk-chart" aria-hidden="true" className="min-w-0" />;
 }

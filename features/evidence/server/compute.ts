@@ -115,29 +115,71 @@ export function summaryFromRow(row: Row, group: { slug: string; name: string }, 
   };
 }
 
-/** The chart's anonymous points and the contributing species of one group × agent, read when its page is shown. */
+/** Above this many reports the chart gets counts per narrow dose bin instead of one point per report. */
+export const POINTS_LIMIT = 300;
+/** How many bins the group's dose range is cut into (log-spaced where every dose is above zero). */
+export const POINT_BINS = 60;
+
+export interface PointBin { from: number; to: number; reports: number; tolerated: number; cleared: number }
+
+/**
+ * The chart's anonymous points and the contributing species of one group × agent, read when its page is shown.
+ * At or below POINTS_LIMIT reports, one point per report and no bins; above it, no points and the reports
+ * counted per dose bin in SQL, so a page at any size ships a few dozen rows.
+ */
 export async function getPointsAndSpecies(groupSlug: string, agentSlug: string, conditionSlug: string) {
   const db = await getDb();
   const cond = conditionSlug ? sql`and r.condition_slug = ${conditionSlug}` : sql``;
-  const [row] = rowsOf<{ pts: string | null; species: unknown }>(
+  // Bin b of POINT_BINS over [lo, hi]; on log dose when lo > 0 (doses span decades), else linear. The top
+  // edge belongs to the last bin; a single distinct dose is one bin. CASE keeps ln() and width_bucket away
+  // from the cases they refuse.
+  const bucket = sql.raw(`case when st.hi = st.lo then 1
+    when st.lo > 0 then least(width_bucket(ln(b.dose), ln(st.lo), ln(st.hi), ${POINT_BINS}), ${POINT_BINS})
+    else least(width_bucket(b.dose, st.lo, st.hi, ${POINT_BINS}), ${POINT_BINS}) end`);
+  const [row] = rowsOf<{ n: number; lo: number | null; hi: number | null; pts: string | null; bins: unknown; species: unknown }>(
     await db.execute(sql`
-      select string_agg(r.concentration::text || ':' || (${TOLERATED}::int * 2 + (r.condition_outcome = 'cleared')::int)::text, ',' order by r.concentration) as pts,
+      with b as (
+        select r.concentration as dose, ${TOLERATED} as tol, r.condition_outcome = 'cleared' as clr
+          from reports r
+         where ${accepted(groupSlug, agentSlug)} ${cond}
+      ), st as (select count(*)::int as n, min(dose) as lo, max(dose) as hi from b)
+      select st.n, st.lo, st.hi,
+             case when st.n <= ${POINTS_LIMIT} then
+               (select string_agg(b.dose::text || ':' || (b.tol::int * 2 + coalesce(b.clr, false)::int)::text, ',' order by b.dose) from b)
+             end as pts,
+             case when st.n > ${POINTS_LIMIT} then
+               (select json_agg(json_build_array(x.k, x.n, x.t, x.c) order by x.k)
+                  from (select ${bucket} as k, count(*)::int as n, count(*) filter (where b.tol)::int as t, count(*) filter (where b.clr)::int as c
+                          from b group by 1) x)
+             end as bins,
              (select json_agg(json_build_array(x.species_id, x.common_name, x.scientific_name, x.n) order by x.n desc, x.common_name)
                 from (select r2.species_id, coalesce(s.common_name, r2.species_other, '?') as common_name, s.scientific_name, count(*)::int as n
                         from reports r2 left join species s on s.id = r2.species_id
                        where r2.status = 'accepted' and r2.group_slug = ${groupSlug} and r2.agent_slug = ${agentSlug} and r2.concentration is not null
                              ${conditionSlug ? sql`and r2.condition_slug = ${conditionSlug}` : sql``}
                        group by 1, 2, 3) x) as species
-        from reports r
-       where ${accepted(groupSlug, agentSlug)} ${cond}`),
+        from st`),
   );
   const points = (row?.pts ? row.pts.split(",") : []).map((p) => {
     const [dose, code] = p.split(":");
     const c = Number(code);
     return { dose: Number(dose), tolerated: c >= 2, cleared: c % 2 === 1 };
   });
-  const sp = (typeof row?.species === "string" ? JSON.parse(row.species) : row?.species) as [string | null, string, string | null, number][] | null;
-  return { points, species: (sp ?? []).map(([id, commonName, scientificName, n]) => ({ id, commonName, scientificName, reports: Number(n) })) };
+  const json = <T,>(v: unknown) => (typeof v === "string" ? JSON.parse(v) : v) as T | null;
+  const lo = toNum(row?.lo), hi = toNum(row?.hi);
+  const bins = json<[number, number, number, number][]>(row?.bins) ?? [];
+  // The bins' edges, worked out the way the SQL cut them (only bins holding reports are sent).
+  const edge = (k: number) => {
+    if (lo === null || hi === null || hi === lo) return k === 0 ? (lo ?? 0) : (hi ?? 0);
+    return lo > 0 ? Math.exp(Math.log(lo) + (k / POINT_BINS) * (Math.log(hi) - Math.log(lo))) : lo + (k / POINT_BINS) * (hi - lo);
+  };
+  const pointBins: PointBin[] = bins.map(([k, n, t, c]) => ({
+    from: Number(k) === 1 ? lo! : edge(Number(k) - 1),
+    to: Number(k) === POINT_BINS || hi === lo ? hi! : edge(Number(k)),
+    reports: Number(n), tolerated: Number(t), cleared: Number(c),
+  }));
+  const sp = json<[string | null, string, string | null, number][]>(row?.species);
+  return { points, pointBins, species: (sp ?? []).map(([id, commonName, scientificName, n]) => ({ id, commonName, scientificName, reports: Number(n) })) };
 }
 
 /** A statement runner: the database or an open transaction. */

@@ -1,8 +1,9 @@
-import { getCatalogue, planDoseFromQuery } from "@/features/catalogue/server";
+import { getCatalogue, getClubSettings, planDoseFromQuery } from "@/features/catalogue/server";
 import { courseSchedule, type DoseQuery, type Plan, type PlanIcsQuery } from "@/features/dosing";
 import { planCalendar } from "@/features/dosing/server";
 import { cautionPoints } from "@/features/shared/components/cautions";
 import { AppError } from "@/features/shared/errors";
+import { isFitted, riskAt } from "../dose-response";
 import { getSummaries } from "./queries";
 
 /** A group's stored Summary for an agent (zero counts where the group has no reports), or null. */
@@ -11,9 +12,20 @@ async function groupSummary(groupSlug: string, agentSlug: string) {
   return groups.find((g) => g.group.slug === groupSlug) ?? null;
 }
 
-/** GET /api/dose with the named group's evidence: the plan, its warnings, the evidence and a cautious first dose. */
-export function planDoseWithEvidence(q: DoseQuery, scheduled?: (plan: Plan) => { label: string; concentration: number }[]) {
-  return planDoseFromQuery(q, { loadEvidence: groupSummary, scheduled });
+/**
+ * GET /api/dose with the named group's evidence: the plan, its warnings, the evidence, a cautious first dose and,
+ * where the group has a fitted dose–response, the fitted chance that the planned concentration goes badly with its
+ * pointwise interval at the club's level (`extrapolated` when the dose lies outside the reported doses).
+ */
+export async function planDoseWithEvidence(q: DoseQuery, scheduled?: (plan: Plan) => { label: string; concentration: number }[]) {
+  const answer = await planDoseFromQuery(q, { loadEvidence: groupSummary, scheduled });
+  if (!("evidence" in answer)) return answer;
+  const fit = answer.evidence?.doseResponse;
+  if (!isFitted(fit) || !(answer.concentration > 0)) return { ...answer, risk: null };
+  const { confidenceLevel } = await getClubSettings();
+  const at = riskAt(fit, answer.concentration, confidenceLevel);
+  const extrapolated = fit.curve.length > 0 && (answer.concentration < fit.curve[0]!.dose || answer.concentration > fit.curve.at(-1)!.dose);
+  return { ...answer, risk: { ...at, level: confidenceLevel, extrapolated } };
 }
 
 /** GET /api/dose/plan.ics: the planned course from `start`, a dose every interval, then the checks, as iCalendar. */

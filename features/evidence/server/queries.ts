@@ -17,7 +17,7 @@ function emptySummary(group: { slug: string; name: string }, edges: number[], le
     toleratedDose: { min: null, p10: null, p25: null, median: null, p75: null, p90: null, max: null, medianInterval: null },
     lowestAdverseDose: null, sparse: true, doseResponse: fitDoseResponse([], level),
     bands: edges.slice(0, -1).map((from, i) => ({ from, to: edges[i + 1]!, reports: 0, tolerated: 0, toleratedShare: none, cleared: 0, clearedShare: none })),
-    points: [], species: [],
+    points: [], pointBins: [], species: [],
   };
 }
 
@@ -36,7 +36,7 @@ async function conditionOrError(slug: string | undefined) {
   return c.slug;
 }
 
-const strip = ({ bands: _b, points: _p, species: _s, ...summary }: SummaryDetail): Summary => summary;
+const strip = ({ bands: _b, points: _p, pointBins: _pb, species: _s, ...summary }: SummaryDetail): Summary => summary;
 
 import { summaryCache } from "./cache";
 

@@ -5,7 +5,7 @@ import { getSummaryDetail } from "@/features/evidence/server";
 import { DoseChart } from "@/features/evidence/components/dose-chart";
 import { RiskChart } from "@/features/evidence/components/risk-chart";
 import { isFitted, riskAt } from "@/features/evidence";
-import { counts, fmtDose, pct } from "@/features/evidence/components/format";
+import { cards, counts, fmtDose, pct } from "@/features/evidence/components/format";
 import { Cautions } from "@/features/shared/components/cautions";
 import { Notice, PageTitle } from "@/features/shared/components/ui";
 import { AppError } from "@/features/shared/errors";
@@ -74,7 +74,7 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
 
           <section className="grid gap-2">
             <h2 className="text-xl font-bold text-peat-900">Every accepted report</h2>
-            <DoseChart unit={s.unit} points={s.points} p25={d.p25} p75={d.p75} median={d.median} medianInterval={d.medianInterval} lowestAdverse={s.lowestAdverseDose} bands={s.bands} />
+            <DoseChart unit={s.unit} points={s.points} pointBins={s.pointBins} p25={d.p25} p75={d.p75} median={d.median} medianInterval={d.medianInterval} lowestAdverse={s.lowestAdverseDose} bands={s.bands} />
             <p className="text-sm" data-testid="chart-text">
               In words: {s.tolerated} tolerated doses from {fmtDose(d.min)} to {fmtDose(d.max)} {s.unit}, the middle half between {fmtDose(d.p25)} and {fmtDose(d.p75)}, 10th and 90th percentiles {fmtDose(d.p10)} and {fmtDose(d.p90)};
               {" "}{s.reports - s.tolerated} adverse report{s.reports - s.tolerated === 1 ? "" : "s"}{s.lowestAdverseDose != null ? `, the lowest at ${fmtDose(s.lowestAdverseDose)} ${s.unit}` : ""}.
@@ -86,9 +86,9 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
             {dr && read ? (
               <>
                 <figure className="grid gap-1">
-                  <RiskChart unit={s.unit} level={s.confidenceLevel} curve={dr.curve} bmd={dr.bmd} bmdl={dr.bmdl} points={s.points} />
+                  <RiskChart unit={s.unit} level={s.confidenceLevel} curve={dr.curve} bmd={dr.bmd} bmdl={dr.bmdl} points={s.points} pointBins={s.pointBins} />
                   <figcaption className="text-sm text-peat-700">
-                    Anecdotal: a logistic curve fitted to these members&apos; reports, not a controlled study. Red line: the fitted chance that a course goes badly; shaded: its {s.confidenceLevel} % interval; dots: each report, went badly along the top, went well along the bottom; solid rule: BMD₁₀; dashed rule: BMDL₁₀.
+                    Anecdotal: a logistic curve fitted to these members&apos; reports, not a controlled study. Red line: the fitted chance that a course goes badly; shaded: its {s.confidenceLevel} % interval; {s.points.length ? "dots: each report, went badly along the top, went well along the bottom;" : "bars: the reports per narrow dose band, went badly hanging from the top, went well along the bottom;"} solid rule: BMD₁₀; dashed rule: BMDL₁₀.
                   </figcaption>
                 </figure>
                 <p data-testid="risk-text">
@@ -105,18 +105,18 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
 
           <section className="grid gap-2">
             <h2 className="text-xl font-bold text-peat-900">By dose band</h2>
-            <div className="overflow-x-auto rounded-lg border border-peat-100 bg-white">
-              <table className="w-full text-left" data-testid="band-table">
-                <thead className="bg-peat-50">
+            <div className="min-w-0 overflow-x-auto rounded-lg border border-peat-100 bg-white">
+              <table className={cards.table} data-testid="band-table">
+                <thead className={cards.thead}>
                   <tr><th scope="col" className="px-3 py-2">Dose ({s.unit})</th><th scope="col" className="px-3 py-2">Reports</th><th scope="col" className="px-3 py-2">Tolerated (interval)</th><th scope="col" className="px-3 py-2">Cleared (interval)</th></tr>
                 </thead>
-                <tbody>
+                <tbody className={cards.tbody}>
                   {s.bands.map((b) => (
-                    <tr key={b.from} className="border-t border-peat-100">
-                      <th scope="row" className="px-3 py-2">{b.from} to {b.to == null ? "and above" : `under ${b.to}`}</th>
-                      <td className="px-3 py-2">{b.reports}</td>
-                      <td className="px-3 py-2">{b.reports ? `${b.tolerated} (${pct(b.toleratedShare.value)}; ${pct(b.toleratedShare.low)}–${pct(b.toleratedShare.high)})` : "—"}</td>
-                      <td className="px-3 py-2">{b.reports ? `${b.cleared} (${pct(b.clearedShare.value)}; ${pct(b.clearedShare.low)}–${pct(b.clearedShare.high)})` : "—"}</td>
+                    <tr key={b.from} className={cards.tr}>
+                      <th scope="row" className={cards.head}>{b.from} to {b.to == null ? "and above" : `under ${b.to}`}</th>
+                      <td data-label="Reports" className={cards.cell}>{b.reports}</td>
+                      <td data-label="Tolerated (interval)" className={cards.cell}>{b.reports ? `${b.tolerated} (${pct(b.toleratedShare.value)}; ${pct(b.toleratedShare.low)}–${pct(b.toleratedShare.high)})` : "—"}</td>
+                      <td data-label="Cleared (interval)" className={cards.cell}>{b.reports ? `${b.cleared} (${pct(b.clearedShare.value)}; ${pct(b.clearedShare.low)}–${pct(b.clearedShare.high)})` : "—"}</td>
                     </tr>
                   ))}
                 </tbody>
