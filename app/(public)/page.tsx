@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { redirect } from "next/navigation";
 import { Notice } from "@/features/shared/components/ui";
 import { getPageActor } from "@/features/members/server";
 import { getMemberHome } from "@/features/reports/server";
@@ -7,7 +8,11 @@ import { canReview } from "@/features/shared/policies";
 import { pageData } from "@/features/shared/server/page";
 import { MemberHome } from "@/app/_components/member-home";
 
-export default async function HomePage() {
+export default async function HomePage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+  // A confirmation link sent at sign-in returns here; when it failed, better-auth adds error=<CODE>. The sign-in page
+  // says what happened and what to do, so the home page never looks like a success.
+  const { error } = await searchParams;
+  if (typeof error === "string" && /^[A-Z_]{3,40}$/.test(error)) redirect(`/sign-in?error=${error}`);
   const actor = await getPageActor();
   if (actor) {
     // Reports sits below review in the layer order, so the queue's count is composed here.

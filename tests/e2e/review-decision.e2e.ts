@@ -72,4 +72,14 @@ describe("the e-mail confirmation link", () => {
       await page.close();
     });
   }
+
+  it("says so too when a link sent at sign-in (which returns to the home page) fails", async () => {
+    const page = await browser().newPage();
+    await page.goto(`${baseUrl()}/api/auth/verify-email?token=nonsense&callbackURL=${encodeURIComponent("/")}`);
+    await page.waitForURL(/\/sign-in\?error=/);
+    const outcome = page.getByTestId("verification-outcome");
+    await outcome.waitFor();
+    expect((await outcome.textContent()) ?? "").toMatch(/invalid/i);
+    await page.close();
+  });
 });
