@@ -1,12 +1,6 @@
-import Link from "next/link";
+import Forbidden from "@/app/forbidden";
 
 export const metadata = { title: "Not allowed" };
 
-export default function ForbiddenPage() {
-  return (
-    <div className="max-w-xl">
-      <h1 className="text-3xl font-bold text-peat-900">Not for your role</h1>
-      <p className="mt-3">This page is for club moderators or officers. If you think you should have access, ask a club officer. <Link href="/">Back to the start</Link>.</p>
-    </div>
-  );
-}
+// The same words the framework's forbidden() fallback shows; this address is where layouts redirect.
+export default Forbidden;

@@ -11,6 +11,7 @@ import { reportInputSchema, reportStatuses, type ReportInput } from "@/features/
 import { derive, type ReportRow } from "@/features/reports/server";
 import { enqueueEvidenceRecompute, wakeEvidenceWorker } from "@/features/shared/server/evidence-outbox";
 import { drainEvidenceOutbox } from "@/features/evidence/server";
+import { canonicalJson } from "@/features/shared/server/idempotency";
 import { controlCharacterIn, unneutralise } from "./csv-cells";
 import { refreshPlannerStatistics, type ExchangedEvent } from "./reports-csv";
 
@@ -96,14 +97,8 @@ function toColumns(i: ReportInput) {
 
 /** The content fingerprint: the normalised report (key order ignored) and its reporter. Status and history are not content. */
 function fingerprint(input: ReportInput, reporter: string | null): string {
-  const canonical = (v: unknown): unknown =>
-    Array.isArray(v)
-      ? v.map(canonical)
-      : v && typeof v === "object"
-        ? Object.fromEntries(Object.keys(v).sort().map((k) => [k, canonical((v as Record<string, unknown>)[k])]))
-        : v;
   const { showName: _s, submit: _u, ...content } = input;
-  return crypto.createHash("sha256").update(`${JSON.stringify(canonical(content))}\n${(reporter ?? "").toLowerCase()}`).digest("hex");
+  return crypto.createHash("sha256").update(`${canonicalJson(content)}\n${(reporter ?? "").toLowerCase()}`).digest("hex");
 }
 
 const importStatuses = reportStatuses.filter((s) => s !== "draft");

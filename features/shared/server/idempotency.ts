@@ -82,14 +82,19 @@ export async function storeIdempotentResponse(tx: Tx, claim: IdempotencyClaim | 
 
 /** A stable hash of what a request asks for: method, path and its parsed content (key order ignored). */
 export function requestHash(req: Request, content: unknown): string {
+  const url = new URL(req.url);
+  return crypto.createHash("sha256").update(`${req.method} ${url.pathname}\n${canonicalJson(content)}`).digest("hex");
+}
+
+/** JSON with object keys sorted at every depth, so equal content hashes alike whatever its key order. */
+export function canonicalJson(value: unknown): string {
   const canonical = (v: unknown): unknown =>
     Array.isArray(v)
       ? v.map(canonical)
       : v && typeof v === "object"
         ? Object.fromEntries(Object.keys(v).sort().map((k) => [k, canonical((v as Record<string, unknown>)[k])]))
         : v;
-  const url = new URL(req.url);
-  return crypto.createHash("sha256").update(`${req.method} ${url.pathname}\n${JSON.stringify(canonical(content))}`).digest("hex");
+  return JSON.stringify(canonical(value));
 }
 
 /** The request's Idempotency-Key, if any: 1–255 visible ASCII characters. */
