@@ -21,6 +21,18 @@ const envSchema = z.object({
   // Set by Tanklore's own server (db/http-server.ts) for its process: it stamps each request with the socket's address.
   TANKLORE_PEER_HEADER: z.enum(["on"]).optional(),
   PORT: z.coerce.number().int().min(1).max(65535).default(3000),
+  // Set by db/serve.ts for the app it starts: where the embedded database's own process listens, its control
+  // address (for the backup's data-directory dump), and that migrations were applied before the app started.
+  TANKLORE_EMBEDDED_DB_URL: z.string().regex(/^postgres(ql)?:\/\//).optional(),
+  TANKLORE_EMBEDDED_DB_CONTROL: z.url().optional(),
+  TANKLORE_MIGRATIONS: z.enum(["applied"]).optional(),
+}).superRefine((env, ctx) => {
+  // Several processes on one PostgreSQL server must share the session secret and the public address: a
+  // generated per-process secret would split sessions between them, so the start stops here instead.
+  if (!env.DATABASE_URL) return;
+  for (const key of ["BETTER_AUTH_SECRET", "BETTER_AUTH_URL"] as const) {
+    if (!env[key]) ctx.addIssue({ code: "custom", path: [key], message: `${key} is required when DATABASE_URL is set.` });
+  }
 });
 
 export type Env = z.infer<typeof envSchema>;

@@ -8,10 +8,9 @@ import { Readable } from "node:stream";
 import { pipeline } from "node:stream/promises";
 import { promisify } from "node:util";
 import zlib from "node:zlib";
-import type { PGlite } from "@electric-sql/pglite";
 import { and, count, eq, isNull, lt, or, sql } from "drizzle-orm";
 import tar from "tar-stream";
-import { getDb, getDbKind, schema, type Db, type DbKind } from "@/db/client";
+import { dumpEmbeddedDataDir, getDb, getDbKind, schema, type Db, type DbKind } from "@/db/client";
 import { AppError } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { dataDir, getEnv } from "@/features/shared/env";
@@ -130,9 +129,8 @@ async function stage(): Promise<Staged> {
         }
         await fsp.mkdir(path.join(dir, "database"), { recursive: true });
         if (kind === "pglite") {
-          const client = (db as unknown as { $client: PGlite }).$client;
-          const tarball = await client.dumpDataDir("none");
-          await fsp.writeFile(path.join(dir, dbFile), Buffer.from(await tarball.arrayBuffer()));
+          // In the app served by `npm start` the embedded database runs in its own process, which writes the dump.
+          await dumpEmbeddedDataDir(path.join(dir, dbFile));
         } else {
           await pgDump(snapshot!, path.join(dir, dbFile));
         }
