@@ -103,6 +103,7 @@ async function stop(code: number): Promise<void> {
     await db.close(); // a clean shutdown checkpoints
   } finally {
     if (useSocket) fs.rmSync(socketPath, { force: true });
+    fs.rmSync(`${dir}.address`, { force: true });
     releaseLock(lock);
     process.exit(code);
   }
@@ -110,6 +111,10 @@ async function stop(code: number): Promise<void> {
 for (const sig of ["SIGINT", "SIGTERM"] as const) process.on(sig, () => void stop(0));
 // The parent (db/serve.ts) went away, even by kill -9: stop rather than hold the data directory forever.
 process.on("disconnect", () => void stop(0));
+
+// Where an operator's script (npm run db:compact) finds the running database; removed on a clean stop.
+const addressFile = `${dir}.address`;
+fs.writeFileSync(addressFile, url);
 
 const ready = { url, control: controlUrl };
 if (process.send) process.send({ tankloreDatabaseReady: ready });

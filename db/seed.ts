@@ -7,7 +7,8 @@ import { starterAgents, starterSpecies } from "@/features/catalogue/starter-data
 import { concentrationFromMl, doseMlForTarget, stockMgPerMl, toCelsius, toLitres, type VolumeUnit } from "@/features/dosing";
 import { DEFAULT_DEMO_PASSWORD, DEMO_CLUB_NAME, demoPeople, demoPeroxideTolerance, prng } from "./demo-data";
 import type { ReportStatus } from "./schema";
-import { recomputeAll } from "@/features/evidence/server";
+import { drainEvidenceOutbox } from "@/features/evidence/server";
+import { enqueueEvidenceRecompute } from "@/features/shared/server/evidence-outbox";
 import { computeFlags } from "@/features/reports/server";
 
 const { users, accounts, reports, reportEvents, clubSettings } = schema;
@@ -31,7 +32,9 @@ export async function seedDemo(db: Db, opts: SeedOptions = {}): Promise<SeedResu
   const ids = await seedPeople(db, password);
   let created = 0;
   if (opts.reports !== false) created = await seedReports(db, ids);
-  await recomputeAll(db);
+  // Only what changed: the demo reports' pairs were queued with them (so a run stopped before this line leaves them
+  // queued, not lost); a second run with nothing new drains an empty outbox instead of recomputing every summary.
+  await drainEvidenceOutbox({ db });
   return { password, accounts: demoPeople.map(({ email, name, role }) => ({ email, name, role })), reportsCreated: created };
 }
 
@@ -157,6 +160,7 @@ async function seedReports(db: Db, ids: Map<string, string>): Promise<number> {
   await db.transaction(async (tx) => {
     await tx.insert(reports).values(reportRows);
     await tx.insert(reportEvents).values(eventRows);
+    await enqueueEvidenceRecompute(tx, reportRows.filter((r) => r.status === "accepted").map((r) => ({ groupSlug: r.groupSlug, agentSlug: r.agentSlug })));
   });
   // Reports awaiting review carry the flags the server computes on submission, like any other.
   const waiting = await db.select().from(reports).where(and(eq(reports.source, "demo"), eq(reports.status, "awaiting_review")));

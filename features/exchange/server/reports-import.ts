@@ -2,7 +2,7 @@ import crypto from "node:crypto";
 import Papa from "papaparse";
 import { z } from "zod";
 import { inArray, sql } from "drizzle-orm";
-import { getDb, schema, type Db } from "@/db/client";
+import { checkpointEmbedded, getDb, schema, type Db } from "@/db/client";
 import { AppError, type FieldIssue } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { zodIssues } from "@/features/shared/server/http";
@@ -346,11 +346,23 @@ export async function runReportsImport(p: PreparedImport, opts: ImportOptions = 
     await breathe();
   }
   result.touched = pairsOf(result.touched.map((t) => ({ columns: t, status: "accepted" })));
-  if (result.imported) await refreshPlannerStatistics(); // the table grew in bulk
+  if (result.imported) {
+    await refreshPlannerStatistics(); // the table grew in bulk
+    await checkpointAfterBulkWrite();
+  }
   // The worker drains each batch's pairs as they commit; the answer waits for the last, so the figures an admin
   // looks at next already count the file.
   if (result.touched.length) await drainEvidenceOutbox();
   return result;
+}
+
+/** The embedded database has no checkpointer of its own: write the import's WAL out now, so it can be recycled. */
+async function checkpointAfterBulkWrite(): Promise<void> {
+  try {
+    await checkpointEmbedded();
+  } catch (err) {
+    console.warn("Could not checkpoint after the import:", err instanceof Error ? err.message : err);
+  }
 }
 
 /** After a batch commits: its pairs are already in the evidence outbox; wake the worker to drain them. */
