@@ -31,8 +31,9 @@ export default async function setup(project: TestProject) {
   const seed = spawnSync(process.execPath, ["--conditions=react-server", ...tsx, "db/seed.ts"], { cwd: root, env, stdio: "inherit" });
   if (seed.status !== 0) throw new Error("seeding the demo club failed");
 
-  // The same server as `npm start` (Next.js behind db/http-server.ts, which stamps the socket address).
-  const server: ChildProcess = spawn(process.execPath, [...tsx, "db/http-server.ts"], {
+  // `npm start` itself: the embedded database in its own process, migrations, then Next.js behind
+  // db/http-server.ts (which stamps the socket address).
+  const server: ChildProcess = spawn(process.execPath, ["--conditions=react-server", ...tsx, "db/start.ts"], {
     cwd: root,
     env,
     stdio: ["ignore", "pipe", "pipe"],
@@ -54,8 +55,9 @@ export default async function setup(project: TestProject) {
   project.provide("demoPassword", env.DEMO_PASSWORD);
   project.provide("dataDir", dataDir);
   return async () => {
-    server.kill("SIGTERM");
-    await new Promise((r) => setTimeout(r, 500));
+    const exited = new Promise((r) => server.once("exit", r));
+    server.kill("SIGTERM"); // stops the app, then the database process
+    await Promise.race([exited, new Promise((r) => setTimeout(r, 15_000))]);
     if (server.exitCode === null) server.kill("SIGKILL");
     if (process.env.E2E_KEEP_LOG) console.log(log);
     fs.rmSync(dataDir, { recursive: true, force: true });

@@ -1,0 +1,69 @@
+import fs from "node:fs";
+import path from "node:path";
+import { describe, expect, inject, it } from "vitest";
+
+// The server of `npm start` (tests/e2e/global-setup.ts runs db/start.ts): the embedded database lives in its own
+// process, so a long import keeps that process busy and the app's event loop free.
+const base = () => inject("baseUrl");
+
+const header = "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after,notes";
+/** One valid row; `n` makes each row's content (and so its fingerprint) different. */
+const line = (n: number) =>
+  `accepted,member-e2e${n % 40},poecilia-reticulata,${3 + (n % 9)},adult,white-spot,2018-0${1 + (n % 9)}-1${n % 10},60,L,25,C,bare,hydrogen-peroxide,3,${20 + (n % 50)},1,0,,mild,cleared,7,"liveness probe row ${n}"`;
+
+async function signIn(email: string): Promise<string> {
+  const res = await fetch(`${base()}/api/auth/sign-in/email`, {
+    method: "POST",
+    headers: { "content-type": "application/json", origin: base() },
+    body: JSON.stringify({ email, password: inject("demoPassword") }),
+  });
+  expect(res.status, `sign-in of ${email}`).toBe(200);
+  return res.headers.getSetCookie().map((c) => c.split(";")[0]!).join("; ");
+}
+
+/** Calls `url` one request after another until `done()`; returns every answer's status and wait in ms. */
+async function probe(url: string, done: () => boolean): Promise<{ status: number; ms: number }[]> {
+  const seen: { status: number; ms: number }[] = [];
+  while (!done()) {
+    const t = performance.now();
+    const res = await fetch(url);
+    await res.arrayBuffer();
+    seen.push({ status: res.status, ms: performance.now() - t });
+    await new Promise((r) => setTimeout(r, 50));
+  }
+  return seen;
+}
+
+describe("the embedded database in its own process", () => {
+  it("is held by its own process, not the app's, and answers the app through the wire protocol", async () => {
+    const holder = JSON.parse(fs.readFileSync(path.join(inject("dataDir"), "pgdata.lock"), "utf8")) as { command: string };
+    expect(holder.command).toContain("database-process");
+    const health = await fetch(`${base()}/api/health`);
+    expect(await health.json()).toEqual({ status: "ok", database: "pglite" });
+  });
+
+  it("keeps liveness under 0.5 s and the summaries answering during a 10,000-row import", { timeout: 600_000 }, async () => {
+    const admin = await signIn("admin@example.org");
+    const csv = [header, ...Array.from({ length: 10_000 }, (_, k) => line(k))].join("\n");
+    let finished = false;
+    const importing = fetch(`${base()}/api/import/reports`, {
+      method: "POST",
+      headers: { cookie: admin, origin: base(), "content-type": "text/csv" },
+      body: csv,
+    }).finally(() => (finished = true));
+    const [live, summaries, res] = await Promise.all([
+      probe(`${base()}/api/health/live`, () => finished),
+      probe(`${base()}/api/summaries`, () => finished),
+      importing,
+    ]);
+    const body = (await res.json()) as { imported: number };
+    expect(res.status).toBe(200);
+    expect(body.imported).toBe(10_000);
+    const longest = Math.max(...live.map((p) => p.ms));
+    console.log(`import: ${live.length} liveness probes, longest ${longest.toFixed(0)} ms; ${summaries.length} summaries answers, longest ${Math.max(...summaries.map((p) => p.ms)).toFixed(0)} ms`);
+    expect(live.every((p) => p.status === 200)).toBe(true);
+    expect(longest).toBeLessThan(500);
+    expect(summaries.length).toBeGreaterThan(1);
+    expect(summaries.every((p) => p.status === 200)).toBe(true);
+  });
+});
