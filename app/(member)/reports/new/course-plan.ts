@@ -43,7 +43,11 @@ export async function coursePlanFromParams(sp: Record<string, string | undefined
   const groupSlug = species?.groupSlug ?? q.data.group;
   const group = catalogue.speciesGroups.find((g) => g.slug === groupSlug);
   const fish = species ? `${species.commonName} (${species.scientificName})${group ? `, ${group.name}` : ""}` : group ? group.name : null;
-  const amount = (a: { doseMl: number | null; doseGrams?: number }) => (a.doseMl == null ? `${fmt(a.doseGrams ?? 0, 1)} g of dry salt` : `${fmt(a.doseMl)} mL`);
+  // What the keeper measures: the mL on the syringe's marks, or the grams on the scale, as the planner shows them.
+  const amount = (a: { doseMl: number | null; measured: { ml: number } | null; doseGrams?: number; weighed?: { grams: number } }) =>
+    a.doseMl == null
+      ? `${fmt(a.weighed && a.weighed.grams > 0 ? a.weighed.grams : (a.doseGrams ?? 0), 1)} g of dry salt`
+      : `${fmt(a.measured && a.measured.ml > 0 ? a.measured.ml : a.doseMl)} mL`;
   return {
     fish,
     agentName: agent?.name ?? answer.agent,
