@@ -5,4 +5,5 @@ export * from "./stock-reading";
 export * from "./guard-rails";
 export * from "./syringe";
 export * from "./plan";
+export * from "./dry-salt";
 export * from "./schemas";

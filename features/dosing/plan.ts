@@ -1,6 +1,7 @@
 import { concentrationFromMl, doseMlForTarget, DosingInputError, stockMgPerMl, type ConcentrationUnit, type Stock } from "./concentration";
 import { measurable, type Measure } from "./syringe";
 import { toleranceFor } from "./strength";
+import type { DryPlan } from "./dry-salt";
 import { litresFromDimensions, toLitres, type LengthUnit, type VolumeUnit } from "./units";
 
 export type VolumeInput =
@@ -120,8 +121,9 @@ export function redoseChecklist(start: Date, doses: number, redoseHours: number 
 }
 
 export interface CourseItem extends ChecklistItem {
-  /** For doses: the measured mL to add and the concentration it makes. */
+  /** For doses: the measured mL to add (or, for dry salt, the weighed grams) and the concentration it makes. */
   doseMl?: number;
+  doseGrams?: number;
   concentration?: number;
   reduced?: boolean;
 }
@@ -130,12 +132,16 @@ export interface CourseItem extends ChecklistItem {
  * The dated course of a plan: the first dose reduced when the plan has a first-dose fraction below 1, later doses
  * full, each followed by a check, then the days of watching.
  */
-export function courseSchedule(plan: Plan, start: Date, doses: number, redoseHours: number | null, watchDays: number): CourseItem[] {
+export function courseSchedule(plan: Plan | DryPlan, start: Date, doses: number, redoseHours: number | null, watchDays: number): CourseItem[] {
   let n = 0;
   return redoseChecklist(start, doses, redoseHours, watchDays).map((item) => {
     if (item.kind !== "dose") return item;
     const reduced = n++ === 0 && plan.firstDose !== undefined && plan.firstDose.fraction < 1;
-    const d = reduced ? plan.firstDose! : plan;
+    if ("form" in plan && plan.form === "dry") {
+      const d = reduced ? plan.firstDose! : plan;
+      return { ...item, doseGrams: d.weighed.grams > 0 ? d.weighed.grams : d.doseGrams, concentration: d.concentration, reduced };
+    }
+    const d = reduced ? (plan as Plan).firstDose! : (plan as Plan);
     return { ...item, doseMl: d.measured.ml > 0 ? d.measured.ml : d.doseMl, concentration: d.concentration, reduced };
   });
 }

@@ -21,6 +21,8 @@ const doseQueryFields = z.object({
   displacementPercent: num("displacementPercent").refine((v) => v >= 0 && v < 100, "displacementPercent must be from 0 up to (not including) 100.").optional(),
   target: positive("target").optional(),
   addedMl: positive("addedMl").optional(),
+  form: z.enum(["stock", "dry"], { error: "form must be stock (a solution measured in mL) or dry (salt weighed in grams)." }).optional(),
+  addedGrams: positive("addedGrams").optional(),
   fraction: num("fraction").refine((v) => v > 0 && v <= 1, "fraction must be above 0 and at most 1 (for example 0.5 for a half dose).").optional(),
   speciesId: z.string().min(1, "speciesId names a species from /api/catalogue.").optional(),
   group: z.string().min(1, "group names a species group slug from /api/catalogue.").optional(),
@@ -29,7 +31,16 @@ const doseQueryFields = z.object({
 type DoseQueryFields = z.infer<typeof doseQueryFields>;
 
 function checkDoseQuery(q: DoseQueryFields, ctx: z.RefinementCtx) {
-  if (q.stockPercent === undefined && q.stockFormId === undefined) {
+  const dry = q.form === "dry";
+  if (dry) {
+    // Dry salt is weighed: there is no stock strength and nothing is measured in mL.
+    for (const f of ["stockPercent", "stockFormId", "basis", "densityGPerMl"] as const) {
+      if (q[f] !== undefined) ctx.addIssue({ code: "custom", path: [f], message: `Dry salt has no stock strength: leave ${f} out with form=dry.` });
+    }
+    if (q.addedMl !== undefined) ctx.addIssue({ code: "custom", path: ["addedMl"], message: "Dry salt is weighed: give addedGrams instead of addedMl with form=dry." });
+  } else if (q.addedGrams !== undefined) {
+    ctx.addIssue({ code: "custom", path: ["addedGrams"], message: "addedGrams is for dry salt: add form=dry, or give addedMl of the stock." });
+  } else if (q.stockPercent === undefined && q.stockFormId === undefined) {
     ctx.addIssue({ code: "custom", path: ["stockPercent"], message: "stockPercent is required (or a stockFormId from the catalogue)." });
   }
   const byVolume = q.volume !== undefined || q.volumeUnit !== undefined;
@@ -46,10 +57,12 @@ function checkDoseQuery(q: DoseQueryFields, ctx: z.RefinementCtx) {
   } else {
     ctx.addIssue({ code: "custom", path: ["volume"], message: "Give the water volume (volume and volumeUnit) or the tank's length, width, depth and lengthUnit." });
   }
-  if (q.target !== undefined && q.addedMl !== undefined) {
-    ctx.addIssue({ code: "custom", path: ["addedMl"], message: "Give either target or addedMl, not both." });
-  } else if (q.target === undefined && q.addedMl === undefined) {
-    ctx.addIssue({ code: "custom", path: ["target"], message: "Give a target concentration, or addedMl to see what a dose made." });
+  const added = dry ? q.addedGrams : q.addedMl;
+  const addedName = dry ? "addedGrams" : "addedMl";
+  if (q.target !== undefined && added !== undefined) {
+    ctx.addIssue({ code: "custom", path: [addedName], message: `Give either target or ${addedName}, not both.` });
+  } else if (q.target === undefined && added === undefined && !(dry && q.addedMl !== undefined)) {
+    ctx.addIssue({ code: "custom", path: ["target"], message: `Give a target concentration, or ${addedName} to see what a dose made.` });
   }
 }
 
@@ -75,22 +88,29 @@ export const planIcsQuerySchema = doseQueryFields
 export type PlanIcsQuery = z.infer<typeof planIcsQuerySchema>;
 
 const measureSchema = z.object({ ml: z.number(), step: z.number(), tool: z.string() });
+const weighSchema = z.object({ grams: z.number(), step: z.number(), tool: z.string() });
 
 export const doseResponseSchema = z.object({
   agent: z.string(),
   unit: z.enum(["mg/L", "g/L"]),
   volumeL: z.number(),
-  stockMgPerMl: z.number(),
+  form: z.enum(["stock", "dry"]).describe("stock: a solution measured in mL; dry: salt weighed in grams (form=dry), where the mL fields and stock are null"),
+  stockMgPerMl: z.number().nullable(),
   target: z.number().nullable(),
-  doseMl: z.number(),
+  doseMl: z.number().nullable(),
   concentration: z.number(),
   activeGrams: z.number().describe("grams of the active the full dose adds (for salt: dry salt to dissolve instead of brine)"),
-  measured: measureSchema,
-  firstDose: z.object({ fraction: z.number(), doseMl: z.number(), concentration: z.number(), measured: measureSchema }).optional(),
+  doseGrams: z.number().optional().describe("form=dry: grams of dry salt for the full dose"),
+  weighed: weighSchema.optional().describe("form=dry: the grams rounded down to what a scale reads"),
+  measured: measureSchema.nullable(),
+  firstDose: z
+    .object({ fraction: z.number(), doseMl: z.number().nullable(), doseGrams: z.number().optional(), concentration: z.number(), measured: measureSchema.nullable(), weighed: weighSchema.optional() })
+    .optional(),
   strengthRange: z
     .object({ lowPercent: z.number(), highPercent: z.number(), concentrationLow: z.number(), concentrationHigh: z.number(), source: z.string() })
     .optional(),
-  stock: z.object({
+  stock: z
+    .object({
     percent: z.number(),
     basis: z.enum(["w/v", "w/w"]),
     densityGPerMl: z.number().nullable(),
@@ -98,7 +118,8 @@ export const doseResponseSchema = z.object({
     compound: z.string().nullable(),
     activeFraction: z.number(),
     presetId: z.string().nullable(),
-  }),
+  })
+    .nullable(),
   warnings: z.array(z.object({ code: z.enum(doseWarningCodes), message: z.string() })),
   evidence: z
     .object({
@@ -112,7 +133,15 @@ export const doseResponseSchema = z.object({
     .optional()
     .describe("The group's evidence Summary for the agent (with speciesId or group)"),
   suggestedFirstDose: z
-    .object({ fraction: z.number(), concentration: z.number(), doseMl: z.number(), limitedBy: z.enum(["median", "lowest_adverse", "bmdl"]), measured: measureSchema })
+    .object({
+      fraction: z.number(),
+      concentration: z.number(),
+      doseMl: z.number().nullable(),
+      doseGrams: z.number().optional(),
+      limitedBy: z.enum(["median", "lowest_adverse", "bmdl"]),
+      measured: measureSchema.nullable(),
+      weighed: weighSchema.optional(),
+    })
     .nullable()
     .optional()
     .describe("With speciesId or group: a cautious first dose from the evidence; null when the group has no tolerated median"),

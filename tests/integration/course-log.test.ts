@@ -4,11 +4,14 @@ import * as entriesRoute from "@/app/api/reports/[id]/entries/route";
 import * as entryRoute from "@/app/api/reports/[id]/entries/[entryId]/route";
 import * as historyRoute from "@/app/api/reports/[id]/history/route";
 import * as reportRoute from "@/app/api/reports/[id]/route";
+import * as reportsRoute from "@/app/api/reports/route";
+import * as decisionRoute from "@/app/api/reports/[id]/decision/route";
+import { drainEvidenceOutbox, groupSummary } from "@/features/evidence/server";
 import { getDb } from "@/db/client";
 import { seedCatalogue } from "@/features/catalogue/server";
 import { getCourse } from "@/features/reports/server";
 import { call } from "../support/http";
-import { signedInUser } from "../support/factories";
+import { reportBody, signedInUser } from "../support/factories";
 
 type U = Awaited<ReturnType<typeof signedInUser>>;
 let owner: U, other: U;
@@ -147,5 +150,92 @@ describe("correcting and striking out course entries", () => {
     const byVisitor = await patch(id, e.body.id, { amountMl: 20 }, null);
     expect(byVisitor.status).toBe(401);
     expect((await getCourse(actorOf(owner), id)).entries[0]!.amountMl).toBe(30);
+  });
+});
+
+describe("the course log's guard rails, shared with the planner", () => {
+  let mod: U;
+  /** An accepted peroxide report on `speciesId`, dosed by stated concentration so its dose is exactly `dose`. */
+  async function accepted(speciesId: string, dose: number, adverse = false) {
+    const body = reportBody({
+      speciesId,
+      treatment: { statedConcentration: dose, doses: 1 },
+      outcome: { fishLost: adverse ? 2 : 0, lossCause: adverse ? "treatment" : null, distress: adverse ? "severe" : "mild", condition: "improved" },
+      submit: true,
+    });
+    delete body.treatment.amountMl;
+    delete body.treatment.intervalHours;
+    const r = await call(reportsRoute.POST, "/api/reports", { body, cookie: other.cookie });
+    expect(r.status).toBe(201);
+    const d = await call(decisionRoute.POST, `/api/reports/${r.body.id}/decision`, { params: { id: r.body.id }, cookie: mod.cookie, body: { decision: "accept" } });
+    expect(d.body.status).toBe("accepted");
+  }
+
+  beforeAll(async () => {
+    mod = await signedInUser("moderator");
+    // Corydoras: tolerated at 10, 15, 20, 25, 30 mg/L (highest 30); lost at 12 mg/L, the lowest adverse dose.
+    for (const d of [10, 15, 20, 25, 30]) await accepted("corydoras-paleatus", d);
+    await accepted("corydoras-aeneus", 12, true);
+    await drainEvidenceOutbox();
+  }, 120_000);
+
+  /** 3 % w/v peroxide (30 mg/mL) in 40 L, planned at 10 mg/L = 13.33 mL: 1 mL makes 0.75 mg/L. */
+  async function corydorasCourse(): Promise<string> {
+    const d = await call(draftsRoute.POST, "/api/reports/drafts", {
+      cookie: owner.cookie,
+      body: { courseOpen: true, speciesId: "corydoras-paleatus", fishCount: 4, water: { volume: 40, volumeUnit: "L" }, treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, stockBasis: "w/v", statedConcentration: 10, intervalHours: 48 } },
+    });
+    expect(d.status).toBe(201);
+    return d.body.id as string;
+  }
+  const codes = (issues: { code?: string }[]) => issues.map((i) => i.code).filter(Boolean);
+
+  it("asks the keeper to acknowledge a dose at or above the group's lowest adverse dose, and keeps the acknowledgement", async () => {
+    const id = await corydorasCourse();
+    const at = new Date(Date.now() - HOUR);
+    // 20 mL × 30 mg/mL ÷ 40 L = 15 mg/L (hand computation), at or above 12 mg/L; 20 mL is under 3× the planned 13.33 mL.
+    const refused = await logDose(id, at, 20);
+    expect(refused.status).toBe(422);
+    expect(codes(refused.body.error.issues)).toEqual(["at_or_above_lowest_adverse"]);
+    expect(refused.body.error.issues[0]).toMatchObject({ path: "amountMl", message: expect.stringMatching(/12 mg\/L.*confirm: true/) });
+    expect((await getCourse(actorOf(owner), id)).entries).toHaveLength(0);
+
+    const confirmed = await logDose(id, at, 20, { confirm: true });
+    expect(confirmed.status).toBe(201);
+    const history = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: owner.cookie });
+    expect(history.body.events.find((e: { action: string }) => e.action === "dose_logged").note).toBe("20 mL; warnings acknowledged: at or above lowest adverse");
+
+    // The log shows the warning on the entry and on the next dose, which repeats it.
+    const course = await getCourse(actorOf(owner), id, { loadEvidence: groupSummary });
+    expect(course.entries[0]!.warnings.map((w) => w.code)).toEqual(["at_or_above_lowest_adverse"]);
+    expect(course.nextDoseWarnings.map((w) => w.code)).toEqual(["at_or_above_lowest_adverse"]);
+  });
+
+  it("logs a dose below every rail without asking", async () => {
+    const id = await corydorasCourse();
+    // 8 mL → 6 mg/L: below 12 (lowest adverse), 30 (highest tolerated) and 150 (ceiling).
+    const ok = await logDose(id, new Date(Date.now() - HOUR), 8);
+    expect(ok.status).toBe(201);
+    const course = await getCourse(actorOf(owner), id, { loadEvidence: groupSummary });
+    expect(course.entries[0]!.warnings).toEqual([]);
+    expect(course.entries[0]!.concentration).toBeCloseTo(6, 12);
+  });
+
+  it("judges a correction the same way: above the highest tolerated dose and the plausible ceiling", async () => {
+    const id = await corydorasCourse();
+    const e = await logDose(id, new Date(Date.now() - HOUR), 8);
+    // 45 mL → 33.75 mg/L: above 30 (highest tolerated) and over 3× the planned 13.33 mL.
+    const refused = await patch(id, e.body.id, { amountMl: 45 });
+    expect(refused.status).toBe(422);
+    expect(refused.body.error.issues[0].message).toMatch(/more than 3×/);
+    expect(codes(refused.body.error.issues)).toEqual(["at_or_above_lowest_adverse", "above_highest_tolerated"]);
+    // 250 mL → 187.5 mg/L: above peroxide's plausible ceiling of 150 mg/L (the catalogue's figure).
+    const huge = await patch(id, e.body.id, { amountMl: 250 });
+    expect(codes(huge.body.error.issues)).toContain("above_ceiling");
+    expect((await getCourse(actorOf(owner), id)).entries[0]!.amountMl).toBe(8);
+    const ok = await patch(id, e.body.id, { amountMl: 45, confirm: true, note: "Measured twice." });
+    expect(ok.status).toBe(200);
+    const history = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: owner.cookie });
+    expect(history.body.events.find((ev: { action: string }) => ev.action === "entry_corrected").note).toMatch(/amount 8 mL → 45 mL; warnings acknowledged: at or above lowest adverse, above highest tolerated — Measured twice\./);
   });
 });

@@ -8,11 +8,15 @@ import {
   doseMlForTarget,
   doseWarnings,
   DosingInputError,
+  gramsForTarget,
+  planDrySalt,
+  weighable,
   measurable,
   planDose,
   readStrength,
   suggestFirstDose,
   type DoseQuery,
+  type DryPlan,
   type GuardEvidence,
   type Plan,
   type StockReading,
@@ -89,13 +93,14 @@ export async function planDoseFromQuery<E extends GuardEvidence>(
   q: DoseQuery,
   options: { loadEvidence?: EvidenceLoader<E>; scheduled?: (plan: Plan) => { label: string; concentration: number }[] } = {},
 ) {
-  const { agent, stock } = await readQueryStock(q);
-  const groupSlug = await groupOfQuery(q);
-  const unit = agent.unit === "g/L" ? "g/L" : "mg/L";
   const water: VolumeInput =
     q.volume !== undefined
       ? { kind: "volume", volume: q.volume, unit: q.volumeUnit! }
       : { kind: "dimensions", length: q.length!, width: q.width!, depth: q.depth!, unit: q.lengthUnit!, displacementPercent: q.displacementPercent };
+  if (q.form === "dry") return planDryFromQuery(q, water, options);
+  const { agent, stock } = await readQueryStock(q);
+  const groupSlug = await groupOfQuery(q);
+  const unit = agent.unit === "g/L" ? "g/L" : "mg/L";
   let plan;
   try {
     plan = planDose({
@@ -124,15 +129,79 @@ export async function planDoseFromQuery<E extends GuardEvidence>(
   ];
   const warnings = doseWarnings({ unit, ceiling: agent.plausibleCeiling, doses, evidence });
 
-  const answer = { ...plan, stock: stockEcho(stock), warnings };
+  const answer = { ...plan, form: "stock" as const, stock: stockEcho(stock), warnings };
   if (evidence === undefined) return answer;
-  // The club's default share (½ or ⅓), or the keeper's own fraction where that is more cautious.
-  const clubFraction = (await getClubSettings()).firstDoseFraction ?? DEFAULT_FIRST_DOSE_FRACTION;
-  const suggested = suggestFirstDose(evidence, Math.min(q.fraction ?? clubFraction, clubFraction));
+  const suggested = await suggestedOf(evidence, q.fraction);
   const suggestedFirstDose = suggested
     ? (() => {
         const doseMl = doseMlForTarget(suggested.concentration, plan.volumeL, stock.mgPerMl, unit);
         return { ...suggested, doseMl, measured: measurable(doseMl) };
+      })()
+    : null;
+  return { ...answer, evidence, suggestedFirstDose };
+}
+
+/** The club's default share (½ or ⅓), or the keeper's own fraction where that is more cautious, applied to the evidence. */
+async function suggestedOf(evidence: GuardEvidence | null, fraction: number | undefined) {
+  const clubFraction = (await getClubSettings()).firstDoseFraction ?? DEFAULT_FIRST_DOSE_FRACTION;
+  return suggestFirstDose(evidence, Math.min(fraction ?? clubFraction, clubFraction));
+}
+
+/** The checks every plan gets: the planned concentration, a reduced first dose, and any scheduled later doses. */
+function checkedDoses<P extends { target: number | null; concentration: number; firstDose?: { concentration: number } }>(plan: P, scheduled: ((plan: P) => { label: string; concentration: number }[]) | undefined) {
+  return [
+    { label: plan.target !== null ? "the target" : "the concentration your salt makes", concentration: plan.concentration },
+    ...(plan.firstDose ? [{ label: "the first dose", concentration: plan.firstDose.concentration }] : []),
+    ...(scheduled?.(plan) ?? []),
+  ];
+}
+
+/**
+ * GET /api/dose with form=dry: salt weighed in grams instead of poured as brine. Only for agents dosed in g/L; the
+ * same guard rails and evidence as a stock plan, with grams where a stock plan has mL (the mL fields are null).
+ */
+async function planDryFromQuery<E extends GuardEvidence>(
+  q: DoseQuery,
+  water: VolumeInput,
+  options: { loadEvidence?: EvidenceLoader<E>; scheduled?: (plan: Plan) => { label: string; concentration: number }[] },
+) {
+  const db = await getDb();
+  const [agent] = await db.select().from(schema.agents).where(eq(schema.agents.slug, q.agent));
+  if (!agent) {
+    throw new AppError("invalid", "Unknown agent; see /api/catalogue for the agents.", [{ path: "agent", message: `No agent "${q.agent}" in the catalogue.` }]);
+  }
+  if (agent.unit !== "g/L") throw invalid("form", `${agent.name} is dosed from a solution in mL; form=dry is for salt, dosed in g/L.`);
+  const groupSlug = await groupOfQuery(q);
+  let plan: DryPlan;
+  try {
+    plan = planDrySalt({ agentSlug: agent.slug, unit: "g/L", water, target: q.target, addedGrams: q.addedGrams, fraction: q.fraction });
+  } catch (err) {
+    if (err instanceof DosingInputError) throw invalid(err.field, err.message);
+    throw err;
+  }
+  let evidence: E | null | undefined;
+  if (groupSlug !== null) {
+    if (!options.loadEvidence) throw new Error("planDoseFromQuery: a group was named but no evidence loader was given");
+    evidence = await options.loadEvidence(groupSlug, agent.slug);
+  }
+  // The schedule only reads the concentration, the same for a dry and a stock plan.
+  const scheduled = options.scheduled as ((p: typeof plan) => { label: string; concentration: number }[]) | undefined;
+  const warnings = doseWarnings({ unit: "g/L", ceiling: agent.plausibleCeiling, doses: checkedDoses(plan, scheduled), evidence });
+  const answer = {
+    ...plan,
+    doseMl: null,
+    stockMgPerMl: null,
+    measured: null,
+    stock: null,
+    firstDose: plan.firstDose ? { ...plan.firstDose, doseMl: null, measured: null } : undefined,
+    warnings,
+  };
+  if (evidence === undefined) return answer;
+  const suggested = await suggestedOf(evidence, q.fraction);
+  const suggestedFirstDose = suggested
+    ? (() => {
+        const doseGrams = gramsForTarget(suggested.concentration, plan.volumeL, "g/L");
+        return { ...suggested, doseMl: null, measured: null, doseGrams, weighed: weighable(doseGrams) };
       })()
     : null;
   return { ...answer, evidence, suggestedFirstDose };

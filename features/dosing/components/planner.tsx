@@ -6,6 +6,7 @@ import { useSearchParams } from "next/navigation";
 import { useEffect, useId, useMemo, useState } from "react";
 import { useForm, useWatch, type Resolver } from "react-hook-form";
 import { courseSchedule, planDose, type CourseItem, type Plan, type VolumeInput } from "../plan";
+import { planDrySalt, type DryPlan } from "../dry-salt";
 import { DosingInputError } from "../concentration";
 import { doseWarnings, suggestFirstDose, type DoseWarning, type GuardEvidence } from "../guard-rails";
 import { doseQuerySchema, type DoseQuery } from "../schemas";
@@ -67,6 +68,8 @@ interface PlannerValues {
   speciesId: string;
   group: string;
   agent: string;
+  /** For salt (g/L): poured as brine from a bottle, or weighed dry. */
+  saltForm: "stock" | "dry";
   stockFormId: string;
   stockPercent: string;
   basis: StockBasis;
@@ -82,6 +85,7 @@ interface PlannerValues {
   mode: "target" | "added";
   target: string;
   addedMl: string;
+  addedGrams: string;
   fractionChoice: string;
   fraction: string;
 }
@@ -92,7 +96,9 @@ const numText = (s: string | undefined) => (blank(s) ? undefined : s!.trim().rep
 /** The GET /api/dose query these form values stand for (blank fields left out), so one schema judges both. */
 export function toQuery(v: Partial<PlannerValues>): Record<string, string | undefined> {
   const q: Record<string, string | undefined> = { agent: v.agent };
-  if (!blank(v.stockFormId)) q.stockFormId = v.stockFormId;
+  const dry = v.saltForm === "dry";
+  if (dry) q.form = "dry";
+  else if (!blank(v.stockFormId)) q.stockFormId = v.stockFormId;
   else {
     q.stockPercent = numText(v.stockPercent) ?? "";
     q.basis = v.basis;
@@ -106,7 +112,8 @@ export function toQuery(v: Partial<PlannerValues>): Record<string, string | unde
     q.volume = numText(v.volume) ?? "";
     q.volumeUnit = v.volumeUnit;
   }
-  if (v.mode === "added") q.addedMl = numText(v.addedMl) ?? "";
+  if (v.mode === "added" && dry) q.addedGrams = numText(v.addedGrams) ?? "";
+  else if (v.mode === "added") q.addedMl = numText(v.addedMl) ?? "";
   else q.target = numText(v.target) ?? "";
   q.fraction = v.fractionChoice === "custom" ? (numText(v.fraction) ?? "") : v.fractionChoice;
   if (!blank(v.speciesId)) q.speciesId = v.speciesId;
@@ -131,7 +138,7 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
   const initialAgent = agents.find((a) => a.slug === params.get("agent")) ?? agents[0]!;
   const initialFraction = params.get("fraction");
   const initialGroup = fish.groups.find((g) => g.slug === params.get("group"));
-  const { register, control, setValue, getValues, handleSubmit, formState } = useForm<PlannerValues>({
+  const { register, control, setValue, handleSubmit, formState } = useForm<PlannerValues>({
     mode: "onTouched",
     resolver: plannerResolver,
     defaultValues: {
@@ -139,6 +146,7 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
       speciesId: "",
       group: initialGroup?.slug ?? "",
       agent: initialAgent.slug,
+      saltForm: initialAgent.unit === "g/L" && params.get("form") === "dry" ? "dry" : "stock",
       stockFormId: initialAgent.stockForms[0]?.id ?? "",
       stockPercent: "3",
       basis: "w/v",
@@ -154,6 +162,7 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
       mode: "target",
       target: params.get("target") ?? "",
       addedMl: "",
+      addedGrams: "",
       fractionChoice: initialFraction
         ? (fractions.find((f) => f.value !== "custom" && Math.abs(Number(f.value) - Number(initialFraction)) < 1e-6)?.value ?? "custom")
         : "0.5",
@@ -203,10 +212,17 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
 
   const stock = agent.stockForms.find((s) => s.id === values.stockFormId);
   const query = useMemo(() => doseQuerySchema.safeParse(toQuery(values)), [values]);
-  const { plan, problem } = useMemo((): { plan: Plan | null; problem: string | null } => {
+  const { plan, problem } = useMemo((): { plan: Plan | DryPlan | null; problem: string | null } => {
     if (!query.success) return { plan: null, problem: null };
     const q: DoseQuery = query.data;
     try {
+      if (q.form === "dry") {
+        const water: VolumeInput =
+          q.volume !== undefined
+            ? { kind: "volume", volume: q.volume, unit: q.volumeUnit! }
+            : { kind: "dimensions", length: q.length!, width: q.width!, depth: q.depth!, unit: q.lengthUnit!, displacementPercent: q.displacementPercent };
+        return { plan: planDrySalt({ agentSlug: agent.slug, unit: agent.unit, water, target: q.target, addedGrams: q.addedGrams, fraction: q.fraction }), problem: null };
+      }
       const reading = readStrength({ percent: q.stockPercent, basis: q.basis, densityGPerMl: q.densityGPerMl, preset: stock ?? null });
       const water: VolumeInput =
         q.volume !== undefined
@@ -333,9 +349,11 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
               onChange: (e) => {
                 const next = agents.find((a) => a.slug === e.target.value)!;
                 setValue("stockFormId", next.stockForms[0]?.id ?? "");
+                if (next.unit !== "g/L") setValue("saltForm", "stock");
                 // A concentration of one treatment means nothing for another (25 mg/L of peroxide is not 25 g/L of salt).
                 setValue("target", "");
                 setValue("addedMl", "");
+                setValue("addedGrams", "");
                 setAcknowledged(null);
               },
             })}
@@ -347,6 +365,13 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
             ))}
           </select>
           <p className="text-sm text-peat-700">{agent.description}</p>
+          {agent.unit === "g/L" ? (
+            <div className="flex flex-wrap gap-4" role="radiogroup" aria-label="How you add the salt">
+              <label className="flex items-center gap-2"><input type="radio" value="dry" {...register("saltForm", { onChange: () => setAcknowledged(null) })} /> Dry salt, weighed in grams</label>
+              <label className="flex items-center gap-2"><input type="radio" value="stock" {...register("saltForm", { onChange: () => setAcknowledged(null) })} /> Brine from a bottle, in mL</label>
+            </div>
+          ) : null}
+          {values.saltForm !== "dry" ? (<>
           <label htmlFor={`${id}-stock`} className="font-bold">Stock strength</label>
           <select {...register("stockFormId")} id={`${id}-stock`} className={input}>
             {agent.stockForms.map((s) => (
@@ -378,6 +403,9 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
               <div className="sm:col-span-3">{err("stockPercent")}{err("densityGPerMl")}</div>
             </div>
           ) : null}
+          </>) : (
+            <p className="text-sm text-peat-700">Weigh plain salt (no iodine or anti-caking agent) and dissolve it fully in a jug of tank water before adding it; 1 g/L is about 1 part per thousand.</p>
+          )}
         </fieldset>
 
         {groupSlug ? <EvidencePanel evidence={evidenceQuery.isSuccess ? evidence! : null} failed={evidenceQuery.isError} unit={agent.unit} agentName={agent.name} suggested={suggested} onUse={useSuggestion} /> : null}
@@ -433,13 +461,19 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
           <legend className="mb-1 text-lg font-bold text-peat-900">3. Dose</legend>
           <div className="flex flex-wrap gap-4" role="radiogroup" aria-label="What to work out">
             <label className="flex items-center gap-2"><input type="radio" value="target" {...register("mode")} /> How much do I add?</label>
-            <label className="flex items-center gap-2"><input type="radio" value="added" {...register("mode")} /> What did my mL make?</label>
+            <label className="flex items-center gap-2"><input type="radio" value="added" {...register("mode")} /> {values.saltForm === "dry" ? "What did my grams make?" : "What did my mL make?"}</label>
           </div>
           {values.mode !== "added" ? (
             <div className="grid gap-1">
               <label htmlFor={`${id}-target`} className="font-bold">Target concentration ({agent.unit})</label>
               <input {...register("target")} {...field("target")} inputMode="decimal" className={input} />
               {err("target")}
+            </div>
+          ) : values.saltForm === "dry" ? (
+            <div className="grid gap-1">
+              <label htmlFor={`${id}-addedGrams`} className="font-bold">Grams of dry salt added</label>
+              <input {...register("addedGrams")} {...field("addedGrams")} inputMode="decimal" className={input} />
+              {err("addedGrams")}
             </div>
           ) : (
             <div className="grid gap-1">
@@ -484,7 +518,7 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
         {risk ? <RiskNote risk={risk} unit={agent.unit} groupName={evidence?.group.name ?? "these fish"} /> : null}
         <div aria-live="polite" data-testid="planner-result">
           {plan && cleared ? (
-            <Result plan={plan} agent={agent} />
+            "form" in plan ? <DryResult plan={plan} agent={agent} /> : <Result plan={plan} agent={agent} />
           ) : plan ? (
             <p className="text-peat-700">Tick the box above to see the dose and the plan.</p>
           ) : problem ? (
@@ -497,10 +531,7 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
         {plan && cleared && values.volumeMode !== "dimensions" ? (
           <a
             className="justify-self-start rounded-md border border-peat-500 px-4 py-2 font-bold no-underline no-print"
-            href={`/reports/new?${new URLSearchParams({
-              course: "1", agentSlug: agent.slug, ...(stock ? { stockFormId: stock.id } : {}), stockPercent: String(stock ? stock.percent : getValues("stockPercent")), stockBasis: stock ? stock.basis : values.basis,
-              volume: values.volume, volumeUnit: values.volumeUnit, amountMl: String((plan.firstDose ?? plan).measured.ml || ""), ...(agent.redoseHours ? { intervalHours: String(agent.redoseHours) } : {}),
-            })}`}
+            href={`/reports/new?${courseParams(plan, agent, stock, values, warnings)}`}
           >
             Start a course log with this dose
           </a>
@@ -508,6 +539,30 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
       </section>
     </div>
   );
+}
+
+/**
+ * The new course form's address: the treatment and water the wizard fills in, plus the plan itself (fish, target,
+ * first-dose share, form) so the course page can show the plan and the warnings acknowledged here.
+ */
+function courseParams(plan: Plan | DryPlan, agent: PlannerAgent, stock: PlannerStock | undefined, values: PlannerValues, warnings: DoseWarning[]) {
+  const p = new URLSearchParams({ course: "1", agentSlug: agent.slug, volume: values.volume, volumeUnit: values.volumeUnit });
+  if ("form" in plan) p.set("form", "dry");
+  else {
+    if (stock) p.set("stockFormId", stock.id);
+    p.set("stockPercent", String(stock ? stock.percent : values.stockPercent));
+    p.set("stockBasis", stock ? stock.basis : values.basis);
+    const first = (plan.firstDose ?? plan).measured.ml;
+    if (first) p.set("amountMl", String(first));
+  }
+  if (agent.redoseHours) p.set("intervalHours", String(agent.redoseHours));
+  if (values.speciesId) p.set("speciesId", values.speciesId);
+  else if (values.group) p.set("group", values.group);
+  p.set("target", String(Number(plan.concentration.toPrecision(4))));
+  if (plan.firstDose) p.set("fraction", String(Number(plan.firstDose.fraction.toPrecision(4))));
+  // The codes the keeper ticked off here; the course page works the messages out again from the plan.
+  if (warnings.length) p.set("acknowledged", warnings.map((w) => w.code).join(","));
+  return p;
 }
 
 /** The fitted chance that a dose goes badly, as GET /api/dose answers it. */
@@ -558,6 +613,37 @@ function EvidencePanel({ evidence, failed, unit, agentName, suggested, onUse }: 
         </>
       )}
     </section>
+  );
+}
+
+function DryResult({ plan, agent }: { plan: DryPlan; agent: PlannerAgent }) {
+  const u = agent.unit;
+  const first = plan.firstDose && plan.firstDose.fraction < 1 ? plan.firstDose : null;
+  return (
+    <div className="grid gap-4">
+      {first ? (
+        <div className="rounded-lg border-2 border-peat-500 bg-white p-4">
+          <p className="text-sm font-bold uppercase tracking-wide text-peat-700">First dose ({fmt(first.fraction * 100, 0)} % of the full dose)</p>
+          <p className="mt-1 text-3xl font-bold" data-testid="first-dose-grams">{first.weighed.grams > 0 ? `${fmt(first.weighed.grams, 1)} g` : "too little to weigh"}</p>
+          <p className="text-sm">exactly {fmtSig(first.doseGrams)} g of dry salt, giving {fmtSig(first.concentration)} {u}; weigh on a {first.weighed.tool}</p>
+        </div>
+      ) : null}
+      <div className="rounded-lg border border-peat-300 bg-white p-4">
+        <p className="text-sm font-bold uppercase tracking-wide text-peat-700">{plan.target !== null ? "Full dose of dry salt" : "What your salt makes"}</p>
+        {plan.target !== null ? (
+          <>
+            <p className="mt-1 text-3xl font-bold" data-testid="dose-grams">{plan.weighed.grams > 0 ? `${fmt(plan.weighed.grams, 1)} g` : "too little to weigh"}</p>
+            <p className="text-sm">exactly {fmtSig(plan.doseGrams)} g for {fmtSig(plan.concentration)} {u}; weigh on a {plan.weighed.tool}, rounded down</p>
+          </>
+        ) : (
+          <p className="mt-1 text-3xl font-bold" data-testid="concentration">{fmtSig(plan.concentration)} {u}</p>
+        )}
+        <dl className="mt-3 grid grid-cols-[max-content_1fr] gap-x-4 text-sm">
+          <dt className="font-bold">Water</dt><dd data-testid="volume-l">{fmtSig(plan.volumeL)} L</dd>
+          <dt className="font-bold">Salt</dt><dd>dissolve it fully in tank water, then add it slowly</dd>
+        </dl>
+      </div>
+    </div>
   );
 }
 
@@ -614,7 +700,7 @@ function Result({ plan, agent }: { plan: Plan; agent: PlannerAgent }) {
 }
 
 interface ChecklistProps {
-  plan: Plan;
+  plan: Plan | DryPlan;
   agent: PlannerAgent;
   items: CourseItem[];
   doses: string;
@@ -654,7 +740,7 @@ function Checklist({ plan, agent, items, doses, setDoses, start, setStart, icsHr
             <input type="checkbox" id={`${id}-c${i}`} className="mt-1" />
             <label htmlFor={`${id}-c${i}`}>
               <strong>{item.at.toLocaleString("en-GB", { weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" })}</strong> — {item.label}
-              {item.kind === "dose" ? `: ${fmt(item.doseMl!)} mL, ${fmtSig(item.concentration!)} ${agent.unit}${item.reduced ? " (first, reduced)" : ""}` : ""}
+              {item.kind === "dose" ? `: ${item.doseGrams !== undefined ? `${fmt(item.doseGrams, 1)} g of dry salt` : `${fmt(item.doseMl!)} mL`}, ${fmtSig(item.concentration!)} ${agent.unit}${item.reduced ? " (first, reduced)" : ""}` : ""}
             </label>
           </li>
         ))}

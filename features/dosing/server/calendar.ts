@@ -24,7 +24,7 @@ export function planCalendar(input: CalendarInput): string {
   const events: EventAttributes[] = input.items.map((item, i) => {
     const what =
       item.kind === "dose"
-        ? `${input.agentName}: ${item.label} — add ${fmt(item.doseMl!)} mL (${fmt(item.concentration!)} ${input.unit}${item.reduced ? ", reduced first dose" : ""})`
+        ? `${input.agentName}: ${item.label} — ${item.doseGrams !== undefined ? `dissolve ${fmt(item.doseGrams)} g of dry salt in tank water and add it` : `add ${fmt(item.doseMl!)} mL`} (${fmt(item.concentration!)} ${input.unit}${item.reduced ? ", reduced first dose" : ""})`
         : `${input.agentName}: ${item.label}`;
     return {
       uid: `${input.uidPrefix}-${i + 1}@tanklore`,

@@ -6,8 +6,8 @@ import { AppError } from "@/features/shared/errors";
 import { isFitted, riskAt } from "../dose-response";
 import { getSummaries } from "./queries";
 
-/** A group's stored Summary for an agent (zero counts where the group has no reports), or null. */
-async function groupSummary(groupSlug: string, agentSlug: string) {
+/** A group's stored Summary for an agent (zero counts where the group has no reports), or null. The course log's guard rails read it too. */
+export async function groupSummary(groupSlug: string, agentSlug: string) {
   const { groups } = await getSummaries(agentSlug);
   return groups.find((g) => g.group.slug === groupSlug) ?? null;
 }

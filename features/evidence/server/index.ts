@@ -4,4 +4,4 @@ export { drainEvidenceOutbox, recomputeAfterChange, recomputeAll, startEvidenceW
 export { getSummaries, getSummaryDetail } from "./queries";
 export { doseResponses, doseTrialsSql } from "./dose-response";
 export { recomputeStale } from "./stale";
-export { planCalendarFromQuery, planDoseWithEvidence } from "./dose-advice";
+export { groupSummary, planCalendarFromQuery, planDoseWithEvidence } from "./dose-advice";

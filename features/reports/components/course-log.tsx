@@ -14,6 +14,13 @@ export interface CourseEntryView {
   struckAt?: string | null;
   /** The concentration a dose made, in the agent's unit; null where the stock or volume is unknown. */
   concentration?: number | null;
+  /** The shared guard rails this dose trips (lowest adverse dose, highest tolerated, plausible ceiling). */
+  warnings?: RailWarning[];
+}
+
+export interface RailWarning {
+  code: string;
+  message: string;
 }
 
 export interface CourseFiguresView {
@@ -23,6 +30,8 @@ export interface CourseFiguresView {
   watchFor: string[];
   watchUntil: string | null;
   intervalHours: number | null;
+  volumeL?: number | null;
+  nextDoseWarnings?: RailWarning[];
 }
 
 function localNow(): string {
@@ -45,11 +54,42 @@ function inWords(iso: string, now = Date.now()): string {
   return rtf.format(Math.round(diff / 86_400_000), "day");
 }
 
-/** An API error as one sentence, and whether the server asks the keeper to confirm an unusual value. */
-function explain(err: unknown): { message: string; needsConfirm: boolean } {
-  if (!(err instanceof ApiError)) return { message: "The entry could not be saved; try again.", needsConfirm: false };
-  const issues = err.body.issues ?? [];
-  return { message: [err.message, ...issues.map((i) => i.message)].join(" "), needsConfirm: err.status === 422 && issues.length > 0 && issues.every((i) => /confirm: true/.test(i.message)) };
+/** An API error as one sentence, whether the server asks the keeper to confirm an unusual value, and the guard rails it names. */
+function explain(err: unknown): { message: string; needsConfirm: boolean; rails: RailWarning[] } {
+  if (!(err instanceof ApiError)) return { message: "The entry could not be saved; try again.", needsConfirm: false, rails: [] };
+  const issues = (err.body.issues ?? []) as { path: string; message: string; code?: string }[];
+  // Guard-rail warnings are shown on their own, to be acknowledged; the other reasons stay in the sentence.
+  const rails = issues.filter((i) => i.code).map((i) => ({ code: i.code!, message: i.message.replace(/ If you have read this and it is right, send confirm: true if it is right\.$/, "") }));
+  const rest = issues.filter((i) => !i.code).map((i) => i.message.replace(/send confirm: true if it is right\./, "confirm below if it is right."));
+  return {
+    message: [err.message.replace("see issues", "see below"), ...rest].join(" "),
+    needsConfirm: err.status === 422 && issues.length > 0 && issues.every((i) => /confirm: true/.test(i.message)),
+    rails,
+  };
+}
+
+/** The keeper's "yes, it is right": where guard rails are named, only after ticking that they were read. */
+function ConfirmBox({ rails, busy, onConfirm }: { rails: RailWarning[]; busy: boolean; onConfirm: () => void }) {
+  const [read, setRead] = useState(false);
+  return (
+    <div className="grid min-w-0 gap-2" data-testid="entry-confirm">
+      {rails.length ? (
+        <div role="alert" className="grid min-w-0 gap-2 rounded-lg border-2 border-alarm-500 bg-alarm-100 p-3 text-alarm-700" data-testid="entry-rails">
+          <p className="font-bold">Stop and read before you log this dose</p>
+          <ul className="list-disc space-y-1 pl-5">
+            {rails.map((w) => <li key={w.code} data-code={w.code}>{w.message}</li>)}
+          </ul>
+          <label className="flex items-start gap-2 font-bold">
+            <input type="checkbox" className="mt-1" checked={read} onChange={(e) => setRead(e.target.checked)} />
+            I have read these warnings; this is what I gave.
+          </label>
+        </div>
+      ) : null}
+      <button type="button" disabled={busy || (rails.length > 0 && !read)} onClick={onConfirm} className="justify-self-start rounded-md border-2 border-alarm-700 px-4 py-2 font-bold text-alarm-700 disabled:opacity-50">
+        Yes, it is right: save it
+      </button>
+    </div>
+  );
 }
 
 export function CourseLog({ reportId, entries, open, figures }: { reportId: string; entries: CourseEntryView[]; open: boolean; figures?: CourseFiguresView | null }) {
@@ -62,6 +102,7 @@ export function CourseLog({ reportId, entries, open, figures }: { reportId: stri
   const [photo, setPhoto] = useState<File | null>(null);
   const [error, setError] = useState<string | null>(null);
   const [confirming, setConfirming] = useState(false);
+  const [rails, setRails] = useState<RailWarning[]>([]);
   const [busy, setBusy] = useState(false);
   const [editing, setEditing] = useState<number | null>(null);
 
@@ -92,11 +133,13 @@ export function CourseLog({ reportId, entries, open, figures }: { reportId: stri
       setPhoto(null);
       setAt(localNow());
       setConfirming(false);
+      setRails([]);
       router.refresh();
     } catch (err) {
       const e = explain(err);
       setError(e.message);
       setConfirming(e.needsConfirm);
+      setRails(e.rails);
     } finally {
       setBusy(false);
     }
@@ -121,6 +164,7 @@ export function CourseLog({ reportId, entries, open, figures }: { reportId: stri
                 <time dateTime={e.at} className="font-bold">{new Date(e.at).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}</time>{" "}
                 — {e.kind === "dose" ? `dose of ${e.amountMl} mL` : e.text}
                 {e.kind === "dose" && e.concentration != null ? <span data-testid="entry-concentration"> → {round(e.concentration, 2)} {figures?.unit ?? "mg/L"}</span> : null}
+                {e.kind === "dose" && e.concentration != null && figures?.unit === "g/L" && figures.volumeL ? <span> ({round(e.concentration * figures.volumeL, 1)} g of salt)</span> : null}
                 {e.kind === "dose" && e.text ? <span> ({e.text})</span> : null}
                 {e.photoId ? (
                   <a href={`/api/photos/${e.photoId}?size=full`} className="ml-2 inline-block align-middle">
@@ -128,6 +172,11 @@ export function CourseLog({ reportId, entries, open, figures }: { reportId: stri
                   </a>
                 ) : null}
               </div>
+              {e.warnings?.length ? (
+                <ul className="grid gap-1 text-sm font-bold text-alarm-700" data-testid="entry-warning">
+                  {e.warnings.map((w) => <li key={w.code} data-code={w.code}>Warning acknowledged: {w.message}</li>)}
+                </ul>
+              ) : null}
               {e.struckAt ? <span className="text-sm text-peat-700">Struck out {new Date(e.struckAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}; kept in the history.</span> : null}
               {open && !e.struckAt ? (
                 editing === e.id ? (
@@ -148,11 +197,11 @@ export function CourseLog({ reportId, entries, open, figures }: { reportId: stri
             <label className="flex items-center gap-2"><input type="radio" name="kind" checked={kind === "observation"} onChange={() => setKind("observation")} /> An observation</label>
           </fieldset>
           <label htmlFor={`${id}-at`} className="font-bold">When</label>
-          <input id={`${id}-at`} type="datetime-local" value={at} onChange={(e) => { setAt(e.target.value); setConfirming(false); }} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
+          <input id={`${id}-at`} type="datetime-local" value={at} onChange={(e) => { setAt(e.target.value); setConfirming(false); setRails([]); }} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
           {kind === "dose" ? (
             <>
               <label htmlFor={`${id}-ml`} className="font-bold">mL of stock added</label>
-              <input id={`${id}-ml`} inputMode="decimal" value={amount} onChange={(e) => { setAmount(e.target.value); setConfirming(false); }} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
+              <input id={`${id}-ml`} inputMode="decimal" value={amount} onChange={(e) => { setAmount(e.target.value); setConfirming(false); setRails([]); }} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
             </>
           ) : (
             <>
@@ -165,8 +214,8 @@ export function CourseLog({ reportId, entries, open, figures }: { reportId: stri
           {error ? <p role="alert" className="font-bold text-alarm-700">{error}</p> : null}
           <div className="flex flex-wrap gap-3">
             <button type="submit" disabled={busy} className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white">{busy ? "Saving…" : "Add to the log"}</button>
-            {confirming ? <button type="button" disabled={busy} onClick={() => void save(true)} className="rounded-md border-2 border-alarm-700 px-4 py-2 font-bold text-alarm-700">Yes, it is right: save it</button> : null}
           </div>
+          {confirming ? <ConfirmBox key={rails.map((r) => r.code).join()} rails={rails} busy={busy} onConfirm={() => void save(true)} /> : null}
         </form>
       ) : null}
     </section>
@@ -188,6 +237,11 @@ function NextDose({ figures }: { figures: CourseFiguresView }) {
       ) : (
         <p className="font-bold">No further dose is planned{figures.watchUntil ? <>; keep watching until <time dateTime={figures.watchUntil}>{fmtTime(figures.watchUntil)}</time></> : null}.</p>
       )}
+      {figures.nextDoseWarnings?.length ? (
+        <ul className="grid gap-1 rounded-md bg-alarm-100 p-2 font-bold text-alarm-700" data-testid="next-dose-warnings">
+          {figures.nextDoseWarnings.map((w) => <li key={w.code} data-code={w.code}>{w.message}</li>)}
+        </ul>
+      ) : null}
       <p className="font-bold">What to watch for</p>
       <ul className="ml-5 grid list-disc gap-1">
         {figures.watchFor.map((w) => <li key={w}>{w}</li>)}
@@ -204,6 +258,7 @@ function EntryEditor({ reportId, entry, onDone, onCancel }: { reportId: string; 
   const [note, setNote] = useState("");
   const [error, setError] = useState<string | null>(null);
   const [confirming, setConfirming] = useState(false);
+  const [rails, setRails] = useState<RailWarning[]>([]);
   const [busy, setBusy] = useState(false);
 
   async function send(body: Record<string, unknown>) {
@@ -216,6 +271,7 @@ function EntryEditor({ reportId, entry, onDone, onCancel }: { reportId: string; 
       const e = explain(err);
       setError(e.message);
       setConfirming(e.needsConfirm);
+      setRails(e.rails);
     } finally {
       setBusy(false);
     }
@@ -254,10 +310,10 @@ function EntryEditor({ reportId, entry, onDone, onCancel }: { reportId: string; 
       {error ? <p role="alert" className="font-bold text-alarm-700">{error}</p> : null}
       <div className="flex flex-wrap gap-3">
         <button type="submit" disabled={busy} className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white">Save the correction</button>
-        {confirming ? <button type="button" disabled={busy} onClick={() => void send(changes(true))} className="rounded-md border-2 border-alarm-700 px-4 py-2 font-bold text-alarm-700">Yes, it is right: save it</button> : null}
         <button type="button" disabled={busy} onClick={() => void send({ struck: true })} className="rounded-md border border-alarm-700 px-4 py-2 text-alarm-700">Strike out</button>
         <button type="button" disabled={busy} onClick={onCancel} className="rounded-md px-4 py-2 underline">Cancel</button>
       </div>
+      {confirming ? <ConfirmBox key={rails.map((r) => r.code).join()} rails={rails} busy={busy} onConfirm={() => void send(changes(true))} /> : null}
     </form>
   );
 }

@@ -6,7 +6,18 @@ import type { Actor } from "@/features/shared/roles";
 import { publicBaseUrl } from "@/features/shared/env";
 import { sendMail } from "@/features/mail/server";
 import type { z } from "zod";
-import { concentrationFromMl, doseMlForTarget, DosingInputError, readStrength, type ConcentrationUnit, type StockBasis } from "@/features/dosing";
+import {
+  concentrationFromMl,
+  doseMlForTarget,
+  doseWarnings,
+  DosingInputError,
+  readStrength,
+  type ConcentrationUnit,
+  type DoseWarning,
+  type DoseWarningCode,
+  type GuardEvidence,
+  type StockBasis,
+} from "@/features/dosing";
 import type { CourseEntryPatch, courseEntrySchema } from "../schemas";
 import { canSeeReport, getReportRowById } from "./queries";
 import type { ReportRow } from "./mapping";
@@ -57,6 +68,33 @@ function plannedDoseMl(row: ReportRow, mgPerMl: number | null, unit: Concentrati
 }
 
 const CONFIRM_HINT = "send confirm: true if it is right.";
+
+/** Reads a group's evidence for an agent; the evidence feature (above this one) supplies it through the route. */
+export type CourseEvidenceLoader = (groupSlug: string, agentSlug: string) => Promise<GuardEvidence | null>;
+export interface CourseOptions {
+  loadEvidence?: CourseEvidenceLoader;
+}
+
+/** The guard rails that judge one dose (the evidence-only notes such as sparse_evidence are the planner's to show). */
+const doseRailCodes: readonly DoseWarningCode[] = ["above_ceiling", "at_or_above_lowest_adverse", "above_highest_tolerated", "above_bmdl"];
+
+/**
+ * The shared guard rails for a logged dose: the concentration its mL make in the course's water, against the agent's
+ * plausible ceiling and the group's evidence, exactly as the planner judges a planned dose.
+ */
+async function courseRails(db: Awaited<ReturnType<typeof getDb>>, row: ReportRow, options: CourseOptions) {
+  const { agent, mgPerMl, unit } = await courseStock(db, row);
+  const evidence = agent && row.groupSlug && options.loadEvidence ? await options.loadEvidence(row.groupSlug, agent.slug) : undefined;
+  return (amountMl: number, label = "this dose"): DoseWarning[] => {
+    if (!agent || !row.volumeL || !mgPerMl) return [];
+    const concentration = concentrationFromMl(amountMl, row.volumeL, mgPerMl, unit);
+    return doseWarnings({ unit, ceiling: agent.plausibleCeiling, doses: [{ label, concentration }], evidence }).filter((w) => doseRailCodes.includes(w.code));
+  };
+}
+
+/** The 422 issues that ask the keeper to acknowledge each warning before the dose is logged. */
+const railIssues = (warnings: DoseWarning[]) => warnings.map((w) => ({ path: "amountMl", code: w.code, message: `${w.message} If you have read this and it is right, ${CONFIRM_HINT}` }));
+const acknowledgedNote = (warnings: DoseWarning[]) => (warnings.length ? `; warnings acknowledged: ${warnings.map((w) => w.code.replaceAll("_", " ")).join(", ")}` : "");
 function amountNeedsConfirm(amountMl: number, planned: number | null): string | null {
   if (planned == null || !(amountMl > 3 * planned)) return null;
   return `${fmt(amountMl)} mL is more than 3× the planned dose of ${fmt(planned)} mL: check for a typo, or ${CONFIRM_HINT}`;
@@ -84,7 +122,7 @@ const when = (d: Date) => d.toISOString().slice(0, 16).replace("T", " ") + " UTC
 const describe = (e: { kind: string; amountMl: number | null; text: string | null }) => (e.kind === "dose" ? `dose of ${e.amountMl} mL` : `"${e.text ?? ""}"`);
 
 /** The member logs a dose or an observation on an open course; due reminders are (re)scheduled. */
-export async function addCourseEntry(actor: Actor | null, reportId: string, entry: z.infer<typeof courseEntrySchema>) {
+export async function addCourseEntry(actor: Actor | null, reportId: string, entry: z.infer<typeof courseEntrySchema>, options: CourseOptions = {}) {
   const row = await ownOpenCourse(actor, reportId, "log");
   const db = await getDb();
   const at = new Date(entry.at);
@@ -92,11 +130,13 @@ export async function addCourseEntry(actor: Actor | null, reportId: string, entr
     const [photo] = await db.select({ reportId: schema.photos.reportId }).from(schema.photos).where(eq(schema.photos.id, entry.photoId));
     if (photo?.reportId !== reportId) throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "photoId", message: "That photo does not belong to this report; upload it to the report first." }]);
   }
+  const warnings = entry.kind === "dose" && entry.amountMl !== undefined ? (await courseRails(db, row, options))(entry.amountMl) : [];
   if (entry.kind === "dose" && entry.amountMl !== undefined && !entry.confirm) {
     const { mgPerMl, unit } = await courseStock(db, row);
     const existing = await db.select().from(courseEntries).where(eq(courseEntries.reportId, reportId));
     const problem = amountNeedsConfirm(entry.amountMl, plannedDoseMl(row, mgPerMl, unit, existing));
-    if (problem) throw new AppError("invalid", "Please confirm this entry; see issues.", [{ path: "amountMl", message: problem }]);
+    const issues = [...(problem ? [{ path: "amountMl", message: problem }] : []), ...railIssues(warnings)];
+    if (issues.length) throw new AppError("invalid", "Please confirm this entry; see issues.", issues);
   }
   return db.transaction(async (tx) => {
     const [saved] = await tx
@@ -105,7 +145,7 @@ export async function addCourseEntry(actor: Actor | null, reportId: string, entr
       .returning();
     if (entry.kind === "dose") {
       await syncFromLog(tx, row, actor!.id);
-      await recordEvent(tx, { reportId, actorId: actor!.id, action: "dose_logged", from: "draft", to: "draft", note: `${entry.amountMl} mL` });
+      await recordEvent(tx, { reportId, actorId: actor!.id, action: "dose_logged", from: "draft", to: "draft", note: `${entry.amountMl} mL${acknowledgedNote(warnings)}` });
     }
     return entryOut(saved!);
   });
@@ -115,7 +155,7 @@ export async function addCourseEntry(actor: Actor | null, reportId: string, entr
  * The keeper corrects an entry (amount, time, text) or strikes it out. Nothing is deleted: the old values go
  * into the report's history, and a struck entry stays in the log, crossed out. Unusual values need `confirm`.
  */
-export async function correctCourseEntry(actor: Actor | null, reportId: string, entryId: string, patch: CourseEntryPatch) {
+export async function correctCourseEntry(actor: Actor | null, reportId: string, entryId: string, patch: CourseEntryPatch, options: CourseOptions = {}) {
   const row = await ownOpenCourse(actor, reportId, "correct entries");
   const db = await getDb();
   const id = /^[1-9][0-9]{0,9}$/.test(entryId) ? Number(entryId) : NaN;
@@ -129,10 +169,12 @@ export async function correctCourseEntry(actor: Actor | null, reportId: string, 
   if (entry.kind === "observation" && patch.text !== undefined && !patch.text) {
     throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "text", message: "Describe what you saw, or strike the observation out." }]);
   }
+  const warnings = patch.amountMl !== undefined && !patch.struck ? (await courseRails(db, row, options))(patch.amountMl, "the corrected dose") : [];
   if (patch.amountMl !== undefined && !patch.confirm) {
     const { mgPerMl, unit } = await courseStock(db, row);
     const problem = amountNeedsConfirm(patch.amountMl, plannedDoseMl(row, mgPerMl, unit, all, entry.id));
-    if (problem) throw new AppError("invalid", "Please confirm this correction; see issues.", [{ path: "amountMl", message: problem }]);
+    const issues = [...(problem ? [{ path: "amountMl", message: problem }] : []), ...railIssues(warnings)];
+    if (issues.length) throw new AppError("invalid", "Please confirm this correction; see issues.", issues);
   }
   return db.transaction(async (tx) => {
     let note: string;
@@ -148,7 +190,7 @@ export async function correctCourseEntry(actor: Actor | null, reportId: string, 
         next.at.getTime() !== entry.at.getTime() ? `time ${when(entry.at)} → ${when(next.at)}` : null,
         next.text !== entry.text ? `text "${entry.text ?? ""}" → "${next.text ?? ""}"` : null,
       ].filter(Boolean);
-      note = `corrected the ${entry.kind} of ${when(entry.at)}: ${changes.join("; ") || "no change"}`;
+      note = `corrected the ${entry.kind} of ${when(entry.at)}: ${changes.join("; ") || "no change"}${acknowledgedNote(warnings)}`;
     }
     if (!saved) throw new AppError("conflict", "This entry was struck out meanwhile; reload the log.");
     if (entry.kind === "dose") await syncFromLog(tx, row, actor!.id);
@@ -161,13 +203,24 @@ export async function correctCourseEntry(actor: Actor | null, reportId: string, 
  * What the open course's page shows: each entry with the concentration a dose made, the next dose due (time, mL and
  * the concentration it makes, from the shared dosing functions) and what to watch for.
  */
-export async function getCourse(actor: Actor | null, reportId: string) {
+export async function getCourse(actor: Actor | null, reportId: string, options: CourseOptions = {}) {
   const row = await getReportRowById(reportId);
   if (!row || !canSeeReport(actor, row)) throw notFound("That report");
   const db = await getDb();
   const { agent, mgPerMl, unit } = await courseStock(db, row);
+  const rails = await courseRails(db, row, options);
   const all = await db.select().from(courseEntries).where(eq(courseEntries.reportId, reportId)).orderBy(asc(courseEntries.at), asc(courseEntries.id));
-  return { ...courseFigures(row, agent, mgPerMl, unit, all), entries: all.map((e) => ({ ...entryOut(e), concentration: concentrationOf(e, row.volumeL, mgPerMl, unit) })) };
+  const figures = courseFigures(row, agent, mgPerMl, unit, all);
+  return {
+    ...figures,
+    // The next dose is judged like any planned dose, so the keeper sees the warning before giving it.
+    nextDoseWarnings: figures.nextDose ? rails(figures.nextDose.doseMl, "the next dose") : [],
+    entries: all.map((e) => ({
+      ...entryOut(e),
+      concentration: concentrationOf(e, row.volumeL, mgPerMl, unit),
+      warnings: e.kind === "dose" && e.amountMl != null && !e.struckAt ? rails(e.amountMl) : [],
+    })),
+  };
 }
 
 /** The next dose of each of these open courses (for the member's home); one small read per course. */

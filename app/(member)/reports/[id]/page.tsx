@@ -7,6 +7,7 @@ import { ReportActions } from "@/features/reports/components/report-actions";
 import { Notice, PageTitle } from "@/features/shared/components/ui";
 import { pageData } from "@/features/shared/server/page";
 import { getCatalogue } from "@/features/catalogue/server";
+import { groupSummary } from "@/features/evidence/server";
 import { ReportDetails } from "@/app/_components/report-details";
 import type { ReportStatus } from "@/features/reports";
 
@@ -23,7 +24,7 @@ export default async function ReportPage({ params, searchParams }: { params: Pro
   const actor = await getPageActor();
   const report = await pageData(getReportById(actor, id));
   const [history, catalogue] = await Promise.all([pageData(getReportHistory(actor, id)), getCatalogue()]);
-  const course = report.courseOpen || report.courseEntries.length ? await pageData(getCourse(actor, id)) : null;
+  const course = report.courseOpen || report.courseEntries.length ? await pageData(getCourse(actor, id, { loadEvidence: groupSummary })) : null;
   const condition = catalogue.conditions.find((c) => c.slug === report.conditionSlug)?.name ?? report.conditionSlug;
   return (
     <div className="grid gap-8">
