@@ -30,16 +30,14 @@ function UploadItem({ item, onRetry, onDismiss }: { item: Item; onRetry: () => v
     <li className={`grid gap-2 rounded-md border-l-4 border p-3 ${itemTone[item.state]}`} data-testid="upload-item" data-state={item.state}>
       <div className="flex flex-wrap items-start gap-2">
         <Icon className={`mt-0.5 h-5 w-5 shrink-0 ${item.state === "uploading" ? "motion-safe:animate-spin" : ""}`} aria-hidden="true" />
-        <div className="min-w-0 flex-1">
-          <p className="break-all font-bold">{item.name}</p>
-          <p className="text-sm">
-            {item.state === "uploading"
-              ? `Uploading… ${Math.round(item.progress * 100)} %`
-              : item.state === "done"
-                ? "Added to the report."
-                : <><strong>Not added:</strong> {item.message}</>}
-          </p>
-        </div>
+        <p className="min-w-0 flex-1 break-words">
+          <strong className="break-all">{item.name}</strong>:{" "}
+          {item.state === "uploading"
+            ? `uploading… ${Math.round(item.progress * 100)} %`
+            : item.state === "done"
+              ? "added to the report."
+              : <><strong>not added.</strong> {item.message}</>}
+        </p>
         {item.state === "failed" ? (
           <div className="flex gap-2">
             <button type="button" onClick={onRetry} className="inline-flex items-center gap-1 rounded-md border border-alarm-700 bg-white px-3 py-1 text-sm font-bold text-alarm-700 hover:bg-alarm-100">
