@@ -88,7 +88,7 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
                 <figure className="grid gap-1">
                   <RiskChart unit={s.unit} level={s.confidenceLevel} curve={dr.curve} bmd={dr.bmd} bmdl={dr.bmdl} points={s.points} pointBins={s.pointBins} />
                   <figcaption className="text-sm text-peat-700">
-                    Anecdotal: a logistic curve fitted to these members&apos; reports, not a controlled study. Red line: the fitted chance that a course goes badly; shaded: its {s.confidenceLevel} % interval; {s.points.length ? "dots: each report, went badly along the top, went well along the bottom;" : "bars: the reports per narrow dose band, went badly hanging from the top, went well along the bottom;"} solid rule: BMD₁₀; dashed rule: BMDL₁₀.
+                    A logistic curve fitted to these members&apos; reports, not a controlled study. Red line: the fitted chance that a course goes badly; shaded: its {s.confidenceLevel} % interval; {s.points.length ? "dots: each report, went badly along the top, went well along the bottom;" : "bars: the reports per narrow dose band, went badly hanging from the top, went well along the bottom;"} solid rule: BMD₁₀; dashed rule: BMDL₁₀.
                   </figcaption>
                 </figure>
                 <p data-testid="risk-text">
@@ -141,7 +141,7 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
           <li>The intervals describe these reports only; they do not make a dose safe.</li>
         </ul>
       </section>
-      <Cautions compact />
+      <Cautions compact anecdotal={false} />
     </div>
   );
 }
