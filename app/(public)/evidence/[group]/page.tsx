@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { BackLink } from "@/features/shared/components/back-link";
 import { notFound } from "next/navigation";
 import { getCatalogue } from "@/features/catalogue/server";
 import { getSummaryDetail } from "@/features/evidence/server";
@@ -32,7 +33,7 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
   const back = new URLSearchParams({ agent: s.agent, ...(condition ? { condition } : {}) });
   return (
     <div className="grid gap-8">
-      <p><Link href={`/evidence?${back}`}>← All groups</Link></p>
+      <BackLink href={`/evidence?${back}`}>All groups</BackLink>
       <PageTitle lead={`${s.agentName}${s.condition ? `, against ${catalogue.conditions.find((c) => c.slug === s.condition)?.name}` : ""}. ${s.reports ? counts(s.reports, s.members, s.fish) : "No accepted reports yet"}.`}>
         {s.group.name}
       </PageTitle>
