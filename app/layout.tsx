@@ -3,7 +3,10 @@ import type { ReactNode } from "react";
 import { connection } from "next/server";
 import "./globals.css";
 import { bodyFont, displayFont } from "./fonts";
+import Link from "next/link";
+import { Info } from "lucide-react";
 import { SiteHeader } from "./_components/site-header";
+import { LogoMark } from "./_components/logo-mark";
 import { QueryProvider } from "@/features/shared/components/query-provider";
 import { ANECDOTAL_NOTICE } from "@/features/shared/components/ui";
 import { getPageActor } from "@/features/members/server";
@@ -34,10 +37,18 @@ export default async function RootLayout({ children }: { children: ReactNode }) 
           <main id="main" className="mx-auto max-w-6xl px-4 py-8">
             {children}
           </main>
-          <footer className="mx-auto max-w-6xl border-t border-peat-100 px-4 py-6 text-sm text-peat-700">
-            <p>{ANECDOTAL_NOTICE}</p>
-            <p className="mt-2">
-              Defer to an aquatic veterinarian and to local rules on animal medicines and on disposing of treated water.
+          <footer className="mx-auto grid max-w-6xl gap-2 border-t border-peat-100 px-4 py-6 text-sm text-peat-700">
+            <p className="flex items-center gap-2 font-bold text-peat-900">
+              <LogoMark className="h-5 w-5" />
+              {club.name}
+            </p>
+            <p className="flex gap-2">
+              <Info className="mt-0.5 h-4 w-4 shrink-0" aria-hidden="true" />
+              <span>{ANECDOTAL_NOTICE}</span>
+            </p>
+            <p>
+              Defer to an aquatic veterinarian and to local rules on animal medicines and on disposing of treated water.{" "}
+              <Link href="/cautions">Read the cautions</Link>.
             </p>
           </footer>
         </QueryProvider>

@@ -1,16 +1,19 @@
 import Link from "next/link";
 import type { MemberHome as Home } from "@/features/reports/server";
 import { DueTime } from "@/features/reports/components/course-log";
+import type { ReactNode } from "react";
+import { CalendarClock, FilePenLine, Gavel, Undo2 } from "lucide-react";
+import { EmptyState, emptyQuietActionClass } from "@/features/shared/components/empty-state";
 
 const decisionWords: Record<string, string> = { accept: "accepted", return: "returned for changes", decline: "declined", retract: "retracted" };
 const day = (iso: string) => new Date(iso).toLocaleDateString("en-GB", { dateStyle: "medium" });
 const round = (n: number, digits: number) => n.toLocaleString("en-GB", { maximumFractionDigits: digits });
 
-function Section({ title, testId, empty, children, count }: { title: string; testId: string; empty: string; children: React.ReactNode; count: number }) {
+function Section({ title, testId, empty, children, count }: { title: string; testId: string; empty: ReactNode; children: ReactNode; count: number }) {
   return (
     <section className="grid min-w-0 gap-2" data-testid={testId}>
       <h2 className="text-xl font-bold text-peat-900">{title}</h2>
-      {count === 0 ? <p className="text-peat-700">{empty}</p> : <ul className="grid gap-2">{children}</ul>}
+      {count === 0 ? <div className="rounded-lg border border-peat-100 bg-white">{empty}</div> : <ul className="grid gap-2">{children}</ul>}
     </section>
   );
 }
@@ -39,7 +42,11 @@ export function MemberHome({ name, home, queue }: { name: string; home: Home; qu
         </section>
       ) : null}
 
-      <Section title="Open treatment courses" testId="home-courses" count={home.openCourses.length} empty="No course is open. Start one from the planner when you treat.">
+      <Section title="Open treatment courses" testId="home-courses" count={home.openCourses.length} empty={
+        <EmptyState icon={<CalendarClock />} title="No course is open." action={<Link href="/planner" className={emptyQuietActionClass}>Plan a dose</Link>}>
+          A course log reminds you when each dose is due. Start one from the planner when you treat.
+        </EmptyState>
+      }>
         {home.openCourses.map((c) => (
           <li key={c.id} className="min-w-0 break-words">
             <Link href={`/reports/${c.id}`} className="font-bold">{c.title}</Link>
@@ -58,7 +65,11 @@ export function MemberHome({ name, home, queue }: { name: string; home: Home; qu
         ))}
       </Section>
 
-      <Section title="Returned for changes" testId="home-returned" count={home.returned.length} empty="Nothing is waiting for your changes.">
+      <Section title="Returned for changes" testId="home-returned" count={home.returned.length} empty={
+        <EmptyState icon={<Undo2 />} title="Nothing is waiting for your changes.">
+          When a moderator asks you to fix a report, it appears here with their note.
+        </EmptyState>
+      }>
         {home.returned.map((r) => (
           <li key={r.id} className="min-w-0 break-words">
             <Link href={`/reports/${r.id}/edit`} className="font-bold">{r.title}</Link>
@@ -67,7 +78,11 @@ export function MemberHome({ name, home, queue }: { name: string; home: Home; qu
         ))}
       </Section>
 
-      <Section title="Drafts" testId="home-drafts" count={home.drafts.length} empty="No drafts.">
+      <Section title="Drafts" testId="home-drafts" count={home.drafts.length} empty={
+        <EmptyState icon={<FilePenLine />} title="No drafts." action={<Link href="/reports/new" className={emptyQuietActionClass}>Report a treatment</Link>}>
+          A report you start and leave unfinished is kept here until you submit it.
+        </EmptyState>
+      }>
         {home.drafts.map((d) => (
           <li key={d.id} className="min-w-0 break-words">
             <Link href={`/reports/${d.id}/edit`} className="font-bold">{d.title}</Link> — last changed {day(d.updatedAt)}
@@ -75,7 +90,11 @@ export function MemberHome({ name, home, queue }: { name: string; home: Home; qu
         ))}
       </Section>
 
-      <Section title="Recent decisions on your reports" testId="home-decisions" count={home.recentDecisions.length} empty="No decisions yet.">
+      <Section title="Recent decisions on your reports" testId="home-decisions" count={home.recentDecisions.length} empty={
+        <EmptyState icon={<Gavel />} title="No decisions yet." action={<Link href="/reports" className={emptyQuietActionClass}>See my reports</Link>}>
+          Once a moderator accepts, returns or declines one of your submitted reports, it is listed here.
+        </EmptyState>
+      }>
         {home.recentDecisions.map((d, i) => (
           <li key={i} className="min-w-0 break-words">
             <Link href={`/reports/${d.reportId}`} className="font-bold">{d.title}</Link> — {decisionWords[d.action] ?? d.action} on {day(d.at)}

@@ -5,6 +5,8 @@ import { cards, counts, fmtDose, pct } from "@/features/evidence/components/form
 import { GroupsChart } from "@/features/evidence/components/groups-chart";
 import { Cautions } from "@/features/shared/components/cautions";
 import { Notice, PageTitle } from "@/features/shared/components/ui";
+import { ChartColumn } from "lucide-react";
+import { EmptyState, emptyActionClass } from "@/features/shared/components/empty-state";
 
 export const metadata = { title: "Evidence" };
 
@@ -48,10 +50,17 @@ export default async function EvidencePage({ searchParams }: { searchParams: Pro
           <figcaption className="text-sm text-peat-700">
             Groups compared on one dose axis (log scale). Green bar: the middle 80 % of tolerated doses (10th to 90th percentile); dark dot: the median
             tolerated dose; red tick: the BMDL₁₀, the lower limit of the dose at which the fitted chance of a bad outcome reaches 10 %, where a curve could be
-            fitted. Anecdotal. The table below gives the figures as text.
+            fitted. The table below gives the figures as text.
           </figcaption>
         </figure>
       ) : null}
+      {s.groups.length === 0 ? (
+        <div className="rounded-lg border border-peat-100 bg-white">
+          <EmptyState icon={<ChartColumn />} title={`No accepted reports for ${s.agentName.toLowerCase()} yet.`} action={<Link href="/reports/new" className={emptyActionClass}>Report a treatment</Link>}>
+            Figures appear here once a moderator accepts members&apos; reports{condition ? " for this condition; try “Any condition”" : ""}. If you treat, start very low and watch closely.
+          </EmptyState>
+        </div>
+      ) : (
       <div className="min-w-0 overflow-x-auto rounded-lg border border-peat-100 bg-white">
         <table className={cards.table} data-testid="evidence-table">
           <caption className="sr-only">Summaries per species group for {s.agentName}</caption>
@@ -89,11 +98,12 @@ export default async function EvidencePage({ searchParams }: { searchParams: Pro
           </tbody>
         </table>
       </div>
+      )}
       <p className="text-sm text-peat-700">
         A group with fewer than {s.minReports} reports is marked “too few to lean on”: its figures are shown but say little. Tolerated: no fish lost to the
         treatment or an unknown cause, and no severe distress. Method {s.methodVersion}; see the cautions before treating.
       </p>
-      <Cautions compact />
+      <Cautions compact anecdotal={false} />
     </div>
   );
 }

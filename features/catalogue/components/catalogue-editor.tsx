@@ -1,6 +1,8 @@
 "use client";
 
 import { Pager, TableView } from "@/features/shared/components/table-parts";
+import { Library, SearchX } from "lucide-react";
+import { EmptyState, emptyQuietActionClass } from "@/features/shared/components/empty-state";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import {
   createColumnHelper, createPaginatedRowModel, createSortedRowModel, rowPaginationFeature, rowSortingFeature, sortFn_alphanumeric, sortFn_basic,
@@ -135,10 +137,18 @@ export function CatalogueEditor({ kind, title, fields, columns: shown, mergeTarg
         <button type="button" className="rounded-md border border-peat-500 px-4 py-2 font-bold" onClick={() => { setEditing(null); setValues({}); setErrors({}); setMessage(null); }}>Add new</button>
         <p aria-live="polite" className="text-sm text-peat-700">{list.isFetching ? "Loading…" : `${data.length} entries`}</p>
       </div>
-      <TableView table={table} caption={title} empty={list.isPending ? "Loading…" : "Nothing here yet."} columnCount={columns.length} small />
+      <TableView table={table} caption={title} columnCount={columns.length} small empty={list.isPending ? <p className="py-8">Loading…</p> : all.length ? (
+        <EmptyState icon={<SearchX />} title={`No entry matches “${search.trim()}”.`} action={<button type="button" className={emptyQuietActionClass} onClick={() => setSearch("")}>Clear the search</button>}>
+          The search looks through every field of the {all.length} entries in this list.
+        </EmptyState>
+      ) : (
+        <EmptyState icon={<Library />} title="This list is empty." action={<a href={`#${id}-form`} className={emptyQuietActionClass}>Add the first entry</a>}>
+          Members cannot choose from it when they report until it has entries; add one with the form below.
+        </EmptyState>
+      )} />
       <Pager table={table} label={`${title} pages`} page={pagination.pageIndex + 1} pages={table.getPageCount()} />
 
-      <form onSubmit={onSubmit} className="grid max-w-2xl gap-3 rounded-lg border border-peat-100 bg-white p-4" aria-label={editing ? `Edit ${editing.key}` : `Add to ${title}`}>
+      <form id={`${id}-form`} onSubmit={onSubmit} className="grid max-w-2xl gap-3 rounded-lg border border-peat-100 bg-white p-4" aria-label={editing ? `Edit ${editing.key}` : `Add to ${title}`}>
         <h3 className="text-lg font-bold">{editing ? `Edit “${editing.key}”` : "Add a new entry"}</h3>
         {fields.map((f) => {
           const fid = `${id}-${f.name}`;

@@ -590,7 +590,6 @@ function EvidencePanel({ evidence, failed, unit, agentName, suggested, onUse }: 
   return (
     <section className="grid min-w-0 gap-2 rounded-lg border border-peat-300 bg-white p-4" aria-label="The club's evidence for these fish" data-testid="planner-evidence">
       <h3 className="text-lg font-bold text-peat-900">What members reported: {evidence.group.name}, {agentName.toLowerCase()}</h3>
-      <p className="text-sm">Anecdotal: members&apos; own reports, checked for plausibility only. Not veterinary advice.</p>
       {evidence.reports === 0 ? (
         <p className="font-bold">No accepted reports for these fish yet. Use your own target, start well below the usual dose, try a few fish first and ask an aquatic vet.</p>
       ) : (

@@ -16,6 +16,8 @@ import { Select, TextInput } from "@/features/shared/components/ui";
 import { roles, type Role } from "@/features/shared/roles";
 import { memberKeys, membersQuery } from "../api/queries";
 import type { Member } from "../schemas";
+import { SearchX } from "lucide-react";
+import { EmptyState, emptyQuietActionClass } from "@/features/shared/components/empty-state";
 
 const features = tableFeatures({ rowSortingFeature, rowPaginationFeature });
 const helper = createColumnHelper<typeof features, Member>();
@@ -158,7 +160,11 @@ export function MembersTable() {
           {query.error instanceof ApiError ? query.error.message : "The member list could not be loaded."}
         </p>
       ) : null}
-      <TableView table={table} caption="Club members, sortable by column" empty={query.isPending ? "Loading members…" : "No member matches."} columnCount={columns.length} />
+      <TableView table={table} caption="Club members, sortable by column" empty={query.isPending ? <p className="py-8">Loading members…</p> : (
+        <EmptyState icon={<SearchX />} title="No member matches." action={<button type="button" className={emptyQuietActionClass} onClick={() => { setQ(""); setRole(""); server.firstPage(); }}>Clear the search</button>}>
+          {q || role ? "No name or e-mail address fits the search and role chosen above." : "Nobody has joined the club yet."}
+        </EmptyState>
+      )} columnCount={columns.length} />
       <Pager table={table} label="Member list pages" page={pagination.pageIndex + 1} pages={pages} />
     </div>
   );

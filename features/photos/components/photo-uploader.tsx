@@ -3,13 +3,61 @@
 import { useRouter } from "next/navigation";
 import { useCallback, useState } from "react";
 import { useDropzone } from "react-dropzone";
+import { CircleCheck, CircleX, ImageUp, LoaderCircle, RotateCw, Trash2, X } from "lucide-react";
 
 interface Item {
   key: string;
   name: string;
+  /** Kept so a failed upload can be tried again without choosing the file anew. */
+  file: File;
+  stage: string;
   progress: number;
   state: "uploading" | "done" | "failed";
   message?: string;
+}
+
+// Each state has its own icon and words as well as its colour, so none relies on colour alone.
+const itemTone: Record<Item["state"], string> = {
+  uploading: "border-peat-300 bg-white text-ink",
+  done: "border-peat-500 bg-peat-50 text-peat-900",
+  failed: "border-alarm-500 bg-alarm-100 text-alarm-700",
+};
+const barTone: Record<Item["state"], string> = { uploading: "bg-peat-500", done: "bg-peat-500", failed: "bg-alarm-500" };
+
+function UploadItem({ item, onRetry, onDismiss }: { item: Item; onRetry: () => void; onDismiss: () => void }) {
+  const Icon = item.state === "done" ? CircleCheck : item.state === "failed" ? CircleX : LoaderCircle;
+  return (
+    <li className={`grid gap-2 rounded-md border-l-4 border p-3 ${itemTone[item.state]}`} data-testid="upload-item" data-state={item.state}>
+      <div className="flex flex-wrap items-start gap-2">
+        <Icon className={`mt-0.5 h-5 w-5 shrink-0 ${item.state === "uploading" ? "motion-safe:animate-spin" : ""}`} aria-hidden="true" />
+        <p className="min-w-0 flex-1 break-words">
+          <strong className="break-all">{item.name}</strong>:{" "}
+          {item.state === "uploading"
+            ? `uploading… ${Math.round(item.progress * 100)} %`
+            : item.state === "done"
+              ? "added to the report."
+              : <><strong>not added.</strong> {item.message}</>}
+        </p>
+        {item.state === "failed" ? (
+          <div className="flex gap-2">
+            <button type="button" onClick={onRetry} className="inline-flex items-center gap-1 rounded-md border border-alarm-700 bg-white px-3 py-1 text-sm font-bold text-alarm-700 hover:bg-alarm-100">
+              <RotateCw className="h-4 w-4" aria-hidden="true" />
+              Retry<span className="sr-only"> {item.name}</span>
+            </button>
+            <button type="button" onClick={onDismiss} className="inline-flex items-center gap-1 rounded-md px-2 py-1 text-sm text-alarm-700 underline">
+              <X className="h-4 w-4" aria-hidden="true" />
+              Dismiss<span className="sr-only"> {item.name}</span>
+            </button>
+          </div>
+        ) : null}
+      </div>
+      {item.state === "uploading" ? (
+        <progress max={1} value={item.progress} className="h-2 w-full accent-peat-500" aria-label={`Upload of ${item.name}`} />
+      ) : (
+        <div className={`h-2 w-full rounded ${barTone[item.state]}`} aria-hidden="true" />
+      )}
+    </li>
+  );
 }
 
 export interface ExistingPhoto {
@@ -52,20 +100,30 @@ export function PhotoUploader({ reportId, existing }: { reportId: string; existi
   const [removing, setRemoving] = useState<string | null>(null);
   const update = (key: string, patch: Partial<Item>) => setItems((xs) => xs.map((x) => (x.key === key ? { ...x, ...patch } : x)));
 
-  const onDrop = useCallback(
-    async (files: File[]) => {
-      const batch = files.map((f, i) => ({ key: `${Date.now()}-${i}-${f.name}`, name: f.name, progress: 0, state: "uploading" as const }));
-      setItems((xs) => [...xs, ...batch]);
+  const upload = useCallback(
+    async (batch: Item[]) => {
       // One at a time: the server re-encodes two at a time anyway, and progress stays readable.
-      for (const [i, file] of files.entries()) {
-        const key = batch[i]!.key;
-        const r = await send(reportId, file, stage, (p) => update(key, { progress: p }));
-        update(key, r.ok ? { state: "done", progress: 1 } : { state: "failed", message: r.message });
+      for (const item of batch) {
+        const r = await send(reportId, item.file, item.stage, (p) => update(item.key, { progress: p }));
+        update(item.key, r.ok ? { state: "done", progress: 1, message: undefined } : { state: "failed", message: r.message });
       }
       router.refresh();
     },
-    [reportId, stage, router],
+    [reportId, router],
   );
+  const onDrop = useCallback(
+    (files: File[]) => {
+      const batch: Item[] = files.map((f, i) => ({ key: `${Date.now()}-${i}-${f.name}`, name: f.name, file: f, stage, progress: 0, state: "uploading" }));
+      setItems((xs) => [...xs, ...batch]);
+      void upload(batch);
+    },
+    [stage, upload],
+  );
+  const retry = (item: Item) => {
+    const again: Item = { ...item, state: "uploading", progress: 0, message: undefined };
+    update(item.key, again);
+    void upload([again]);
+  };
   const { getRootProps, getInputProps, isDragActive, open } = useDropzone({ onDrop, noClick: true, multiple: true });
 
   return (
@@ -80,18 +138,16 @@ export function PhotoUploader({ reportId, existing }: { reportId: string; existi
           <option value="after">after treatment</option>
         </select>
       </div>
-      <div {...getRootProps()} className={`rounded-lg border-2 border-dashed p-6 text-center ${isDragActive ? "border-peat-700 bg-peat-50" : "border-peat-300 bg-white"}`}>
+      <div {...getRootProps()} className={`grid justify-items-center gap-2 rounded-lg border-2 border-dashed p-6 text-center ${isDragActive ? "border-peat-700 bg-peat-50" : "border-peat-300 bg-white"}`}>
         <input {...getInputProps()} aria-label="Choose photos" data-testid="photo-input" />
+        <ImageUp className="h-8 w-8 text-peat-700" aria-hidden="true" />
         <p>{isDragActive ? "Drop the photos here." : "Drag photos here, or"}</p>
-        <button type="button" onClick={open} className="mt-2 rounded-md border border-peat-500 px-4 py-2 font-bold">Choose photos…</button>
+        <button type="button" onClick={open} className="inline-flex items-center gap-1.5 rounded-md border border-peat-500 bg-white px-4 py-2 font-bold">Choose photos…</button>
       </div>
       {items.length ? (
-        <ul className="grid gap-2" aria-live="polite">
+        <ul className="grid gap-2" aria-live="polite" data-testid="upload-list">
           {items.map((it) => (
-            <li key={it.key} className="grid gap-1">
-              <span>{it.name}: {it.state === "uploading" ? `uploading ${Math.round(it.progress * 100)} %` : it.state === "done" ? "added" : `not added — ${it.message}`}</span>
-              <progress max={1} value={it.progress} className="w-full" aria-label={`Upload of ${it.name}`} />
-            </li>
+            <UploadItem key={it.key} item={it} onRetry={() => retry(it)} onDismiss={() => setItems((xs) => xs.filter((x) => x.key !== it.key))} />
           ))}
         </ul>
       ) : null}
@@ -103,7 +159,7 @@ export function PhotoUploader({ reportId, existing }: { reportId: string; existi
               <button
                 type="button"
                 disabled={removing === p.id}
-                className="text-alarm-700 underline"
+                className="inline-flex items-center gap-1 text-alarm-700 underline"
                 onClick={async () => {
                   setRemoving(p.id);
                   await fetch(`/api/photos/${p.id}`, { method: "DELETE" });
@@ -111,6 +167,7 @@ export function PhotoUploader({ reportId, existing }: { reportId: string; existi
                   router.refresh();
                 }}
               >
+                <Trash2 className="h-4 w-4" aria-hidden="true" />
                 Remove
               </button>
             </li>

@@ -10,6 +10,8 @@ import { ApiError } from "@/features/shared/fetch-json";
 import { myReportsQuery, type MyReportRow } from "../api/queries";
 import { reportStatuses, statusLabels } from "../schemas";
 import { StatusBadge } from "./status-badge";
+import { FilterX, NotebookPen } from "lucide-react";
+import { EmptyState, emptyActionClass, emptyQuietActionClass } from "@/features/shared/components/empty-state";
 
 const features = tableFeatures({ rowSortingFeature, rowPaginationFeature });
 const helper = createColumnHelper<typeof features, MyReportRow>();
@@ -66,8 +68,18 @@ export function MyReportsTable() {
         <p aria-live="polite" className="text-sm text-peat-700">{query.isFetching ? "Loading…" : `${total} report${total === 1 ? "" : "s"}`}</p>
       </div>
       {query.isError ? <p role="alert" className="font-bold text-alarm-700">{query.error instanceof ApiError ? query.error.message : "Your reports could not be loaded."}</p> : null}
-      <TableView table={table} caption="Your treatment reports" empty={query.isPending ? "Loading your reports…" : status ? "No report has this status." : (
-            <>You have not reported a treatment yet. <Link href="/reports/new">Report one</Link> or <Link href="/reports/new?course=1">start a course log</Link>.</>
+      <TableView table={table} caption="Your treatment reports" empty={query.isPending ? <p className="py-8">Loading your reports…</p> : status ? (
+            <EmptyState icon={<FilterX />} title={`None of your reports is “${statusLabels[status as keyof typeof statusLabels] ?? status}”.`} action={<button type="button" className={emptyQuietActionClass} onClick={() => { setStatus(""); server.firstPage(); }}>Show every status</button>}>
+              The status chosen above hides the rest of your reports.
+            </EmptyState>
+          ) : (
+            <EmptyState
+              icon={<NotebookPen />}
+              title="You have not reported a treatment yet."
+              action={<><Link href="/reports/new" className={emptyActionClass}>Report a finished treatment</Link><Link href="/reports/new?course=1" className={emptyQuietActionClass}>Start a course log</Link></>}
+            >
+              Your reports and drafts will be listed here, with where each stands in review. Each one adds to what the club knows.
+            </EmptyState>
           )} columnCount={columns.length} />
       <Pager table={table} label="Report list pages" page={pagination.pageIndex + 1} pages={Math.ceil(total / pagination.pageSize)} />
     </div>

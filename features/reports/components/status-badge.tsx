@@ -1,4 +1,15 @@
+import { Ban, CircleCheck, CircleX, FilePenLine, Hourglass, Undo2, type LucideIcon } from "lucide-react";
 import { statusLabels, type ReportStatus } from "../schemas";
+
+// An icon per status as well as a colour, so the badge never relies on colour alone.
+const icons: Record<ReportStatus, LucideIcon> = {
+  draft: FilePenLine,
+  awaiting_review: Hourglass,
+  accepted: CircleCheck,
+  returned: Undo2,
+  declined: CircleX,
+  retracted: Ban,
+};
 
 const tone: Record<ReportStatus, string> = {
   draft: "bg-peat-50 text-peat-900 border-peat-300",
@@ -10,5 +21,11 @@ const tone: Record<ReportStatus, string> = {
 };
 
 export function StatusBadge({ status }: { status: ReportStatus }) {
-  return <span className={`inline-block rounded border px-2 py-0.5 text-sm font-bold ${tone[status]}`}>{statusLabels[status]}</span>;
+  const Icon = icons[status];
+  return (
+    <span className={`inline-flex items-center gap-1 whitespace-nowrap rounded border px-2 py-0.5 text-sm font-bold ${tone[status]}`}>
+      {Icon ? <Icon className="h-3.5 w-3.5 shrink-0" aria-hidden="true" /> : null}
+      {statusLabels[status]}
+    </span>
+  );
 }

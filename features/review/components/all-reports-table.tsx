@@ -12,6 +12,8 @@ import { StatusBadge } from "@/features/reports/components/status-badge";
 import { statusLabels } from "@/features/reports";
 import { allReportsQuery, type AllReportsFilters } from "../api/queries";
 import { listedStatuses, type AllReportsRow } from "../schemas";
+import { FilterX } from "lucide-react";
+import { EmptyState, emptyQuietActionClass } from "@/features/shared/components/empty-state";
 
 const features = tableFeatures({ rowSortingFeature, rowPaginationFeature });
 const helper = createColumnHelper<typeof features, AllReportsRow>();
@@ -92,6 +94,18 @@ export function AllReportsTable({ groups, agents, initial }: { groups: { slug: s
   const pages = Math.max(1, Math.ceil(total / pagination.pageSize));
   const rows = query.data?.reports ?? emptyRows;
   const field = "grid min-w-0 gap-1";
+  const clear = () => {
+    setFilters(noFilters);
+    server.firstPage();
+  };
+  const filtered = Object.entries(filters).some(([k, v]) => v !== noFilters[k as keyof AllReportsFilters]);
+  const emptyState = query.isPending ? (
+    <p className="py-6 text-center text-peat-700">Loading reports…</p>
+  ) : (
+    <EmptyState icon={<FilterX />} title={filtered ? "No report matches these filters." : "No report has been submitted yet."} action={filtered ? <button type="button" className={emptyQuietActionClass} onClick={clear}>Clear filters</button> : undefined}>
+      {filtered ? "Widen the dates or choose “Any” in a filter above." : "Reports appear here once members submit them for review."}
+    </EmptyState>
+  );
   return (
     <div className="grid gap-4">
       <div className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-4" role="search" aria-label="Filter reports">
@@ -158,10 +172,10 @@ export function AllReportsTable({ groups, agents, initial }: { groups: { slug: s
         </p>
       ) : null}
       <div className="sm:hidden">
-        {rows.length ? <Cards rows={rows} /> : <p className="py-6 text-center text-peat-700">{query.isPending ? "Loading reports…" : "No report matches."}</p>}
+        {rows.length ? <Cards rows={rows} /> : <div className="rounded-lg border border-peat-100 bg-white">{emptyState}</div>}
       </div>
       <div className="hidden sm:block">
-        <TableView table={table} caption="Every submitted report, sortable by column" empty={query.isPending ? "Loading reports…" : "No report matches."} columnCount={columns.length} />
+        <TableView table={table} caption="Every submitted report, sortable by column" empty={emptyState} columnCount={columns.length} />
       </div>
       <Pager table={table} label="Report list pages" page={pagination.pageIndex + 1} pages={pages} />
     </div>

@@ -8,7 +8,11 @@ import {
   createColumnHelper, createPaginatedRowModel, createSortedRowModel, rowPaginationFeature, rowSortingFeature, sortFn_alphanumeric, sortFn_basic,
   tableFeatures, useTable, type PaginationState, type SortingState,
 } from "@tanstack/react-table";
-import { useId, useMemo, useState } from "react";
+import { useId, useMemo, useRef, useState } from "react";
+import { ClipboardCheck, FilterX } from "lucide-react";
+import { EmptyState, emptyQuietActionClass } from "@/features/shared/components/empty-state";
+import { useShortcuts } from "@/features/shared/components/use-shortcuts";
+import { ShortcutHelp, type Shortcut } from "./queue-shortcuts";
 import { ApiError, fetchJson } from "@/features/shared/fetch-json";
 
 export interface QueueRow {
@@ -37,7 +41,7 @@ const empty: QueueRow[] = [];
 export { flagLabels };
 
 const columns = helper.columns([
-  helper.accessor("species", { header: "Fish", sortFn: "alphanumeric", cell: (c) => <Link href={`/review/${c.row.original.id}`} className="font-bold">{c.getValue()}</Link> }),
+  helper.accessor("species", { header: "Fish", sortFn: "alphanumeric", cell: (c) => <Link href={`/review/${c.row.original.id}`} className="font-bold" data-row-link="">{c.getValue()}</Link> }),
   helper.accessor((r) => r.groupName ?? "—", { id: "group", header: "Group", sortFn: "alphanumeric" }),
   helper.accessor((r) => r.agentName ?? "—", { id: "agent", header: "Treatment", sortFn: "alphanumeric" }),
   helper.accessor((r) => r.concentration ?? -1, { id: "dose", header: "Dose", sortFn: "basic", cell: (c) => (c.row.original.concentration == null ? "—" : `${c.row.original.concentration.toFixed(c.row.original.concentration >= 10 ? 1 : 2)} ${c.row.original.unit}`) }),
@@ -54,8 +58,32 @@ const columns = helper.columns([
   helper.accessor((r) => r.completeness ?? 0, { id: "completeness", header: "Complete", sortFn: "basic", cell: (c) => `${Math.round(c.getValue() * 100)} %` }),
 ]);
 
+const queueShortcuts: Shortcut[] = [
+  { keys: ["j", "n"], does: "move to the next report in the list" },
+  { keys: ["k", "p"], does: "move to the previous report" },
+  { keys: ["Enter"], does: "open the report you are on" },
+  { keys: ["?"], does: "show or hide this list" },
+];
+
 export function QueueTable() {
   const id = useId();
+  const listRef = useRef<HTMLDivElement>(null);
+  const [help, setHelp] = useState(false);
+  // j/k move focus between the rows' report links, so Enter opens the one reached (a link's own behaviour).
+  const move = (step: number) => {
+    const links = [...(listRef.current?.querySelectorAll<HTMLAnchorElement>("a[data-row-link]") ?? [])];
+    if (!links.length) return;
+    const at = links.findIndex((a) => a === document.activeElement);
+    const next = at < 0 ? (step > 0 ? 0 : links.length - 1) : Math.min(links.length - 1, Math.max(0, at + step));
+    links[next]!.focus();
+    links[next]!.scrollIntoView({ block: "nearest" });
+  };
+  useShortcuts({
+    j: () => move(1), n: () => move(1),
+    k: () => move(-1), p: () => move(-1),
+    "?": () => setHelp((h) => !h),
+    Escape: () => setHelp(false),
+  });
   const query = useQuery({ queryKey: ["review", "queue"], queryFn: () => fetchJson<{ reports: QueueRow[] }>("/api/review/queue"), refetchInterval: 60_000 });
   const [flag, setFlag] = useState("");
   const [agent, setAgent] = useState("");
@@ -87,7 +115,31 @@ export function QueueTable() {
         <p aria-live="polite" className="text-sm text-peat-700">{query.isFetching ? "Loading…" : `${data.length} of ${all.length} awaiting review`}</p>
       </div>
       {query.isError ? <p role="alert" className="font-bold text-alarm-700">{query.error instanceof ApiError ? query.error.message : "The queue could not be loaded."}</p> : null}
-      <TableView table={table} caption="Reports awaiting review" empty={query.isPending ? "Loading the queue…" : "Nothing awaits review. Well done."} columnCount={columns.length} />
+      <ShortcutHelp shortcuts={queueShortcuts} open={help} onToggle={() => setHelp((h) => !h)} />
+      <div ref={listRef}>
+        <TableView
+          table={table}
+          caption="Reports awaiting review"
+          columnCount={columns.length}
+          empty={
+            query.isPending ? (
+              <p className="py-8">Loading the queue…</p>
+            ) : all.length ? (
+              <EmptyState
+                icon={<FilterX />}
+                title="No waiting report matches these filters."
+                action={<button type="button" className={emptyQuietActionClass} onClick={() => { setFlag(""); setAgent(""); }}>Clear the filters</button>}
+              >
+                {all.length} report{all.length === 1 ? " waits" : "s wait"} in all; the flag or treatment chosen above leaves none of them.
+              </EmptyState>
+            ) : (
+              <EmptyState icon={<ClipboardCheck />} title="Nothing awaits review." action={<Link href="/review/reports" className={emptyQuietActionClass}>Browse all reports</Link>}>
+                Every submitted report has a decision. New ones appear here as members submit them; this list refreshes every minute.
+              </EmptyState>
+            )
+          }
+        />
+      </div>
       <Pager table={table} label="Queue pages" page={pagination.pageIndex + 1} pages={table.getPageCount()} />
     </div>
   );

@@ -11,11 +11,16 @@ export const cautionPoints = [
   "The figures here are members' anecdotal reports, not veterinary advice: an aquatic veterinarian knows your case, and local rules on animal medicines and on disposing of treated water apply.",
 ];
 
-export function Cautions({ compact = false }: { compact?: boolean }) {
+/** The last point without its "anecdotal" half, for pages that already carry the anecdotal notice once. */
+const vetPoint = "An aquatic veterinarian knows your case, and local rules on animal medicines and on disposing of treated water apply.";
+
+/** `anecdotal={false}` on pages that show the anecdotal notice elsewhere, so it is read once, not skimmed past. */
+export function Cautions({ compact = false, anecdotal = true }: { compact?: boolean; anecdotal?: boolean }) {
+  const points = anecdotal ? cautionPoints : [...cautionPoints.slice(0, -1), vetPoint];
   return (
     <Notice tone="caution" title="Before you treat">
       <ul className={compact ? "list-disc space-y-1 pl-5" : "list-disc space-y-2 pl-5"}>
-        {cautionPoints.map((p) => (
+        {points.map((p) => (
           <li key={p}>{p}</li>
         ))}
       </ul>

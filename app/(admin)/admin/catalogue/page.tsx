@@ -3,6 +3,8 @@ import { getCatalogue, getCatalogueChanges } from "@/features/catalogue/server";
 import { CatalogueEditor, type FieldDef } from "@/features/catalogue/components/catalogue-editor";
 import { catalogueKinds, type CatalogueKind } from "@/features/catalogue";
 import { PageTitle } from "@/features/shared/components/ui";
+import { History } from "lucide-react";
+import { EmptyState } from "@/features/shared/components/empty-state";
 import { getPageActor } from "@/features/members/server";
 import { pageData } from "@/features/shared/server/page";
 
@@ -64,7 +66,11 @@ export default async function CataloguePage({ searchParams }: { searchParams: Pr
       <CatalogueEditor key={kind} kind={kind} title={labels[kind]} fields={defs[kind].fields} columns={defs[kind].columns} mergeTargets={kind === "species" ? catalogue.species.map((s) => ({ value: s.id, label: `${s.commonName} (${s.scientificName})` })) : undefined} />
       <section className="grid gap-1">
         <h2 className="text-xl font-bold text-peat-900">Recent changes</h2>
-        {changes.length === 0 ? <p className="text-peat-700">No change yet.</p> : (
+        {changes.length === 0 ? (
+          <div className="rounded-lg border border-peat-100 bg-white">
+            <EmptyState icon={<History />} title="No change yet.">Every addition, edit, hiding or merge in the lists above is recorded here, newest first.</EmptyState>
+          </div>
+        ) : (
           <ul>{changes.map((c) => <li key={c.id}>{new Date(c.at).toLocaleString("en-GB")}: {c.actorName ?? "someone"} — {c.action} {c.entity} “{c.entityKey}”</li>)}</ul>
         )}
       </section>

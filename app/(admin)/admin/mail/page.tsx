@@ -1,6 +1,9 @@
 import Link from "next/link";
 import { listCaughtMail } from "@/features/mail/server";
+import { Inbox } from "lucide-react";
 import { Notice, PageTitle } from "@/features/shared/components/ui";
+import { EmptyState, emptyQuietActionClass } from "@/features/shared/components/empty-state";
+import { cardTable } from "@/features/shared/components/card-table";
 import { getEnv } from "@/features/shared/env";
 import { getPageActor } from "@/features/members/server";
 import { pageData } from "@/features/shared/server/page";
@@ -19,28 +22,35 @@ export default async function MailPage() {
       {usingSmtp ? (
         <Notice>Mail goes out through the configured SMTP server (SMTP_URL), so nothing is kept here.</Notice>
       ) : mail.length === 0 ? (
-        <p className="text-peat-700">No message has been sent yet.</p>
+        <div className="rounded-lg border border-peat-100 bg-white">
+          <EmptyState icon={<Inbox />} title="No message has been sent yet." action={<Link href="/admin/members" className={emptyQuietActionClass}>See the members</Link>}>
+            Messages land here when someone joins, asks to reset a password, or when moderators are sent their digest of waiting reports.
+          </EmptyState>
+        </div>
       ) : (
-        <table className="w-full bg-white text-left">
-          <thead className="bg-peat-50">
-            <tr>
-              <th scope="col" className="px-3 py-2">Sent</th>
-              <th scope="col" className="px-3 py-2">To</th>
-              <th scope="col" className="px-3 py-2">Subject</th>
-            </tr>
-          </thead>
-          <tbody>
-            {mail.map((m) => (
-              <tr key={m.id} className="border-t border-peat-100">
-                <td className="px-3 py-2">{new Date(m.receivedAt).toLocaleString("en-GB")}</td>
-                <td className="px-3 py-2">{m.to}</td>
-                <td className="px-3 py-2">
-                  <Link href={`/admin/mail/${encodeURIComponent(m.id)}`}>{m.subject}</Link>
-                </td>
+        <div className={cardTable.wrap}>
+          <table className={cardTable.table}>
+            <caption className="sr-only">Messages kept instead of sent, newest first</caption>
+            <thead className={cardTable.thead}>
+              <tr>
+                <th scope="col" className={cardTable.th}>Sent</th>
+                <th scope="col" className={cardTable.th}>To</th>
+                <th scope="col" className={cardTable.th}>Subject</th>
               </tr>
-            ))}
-          </tbody>
-        </table>
+            </thead>
+            <tbody className={cardTable.tbody}>
+              {mail.map((m) => (
+                <tr key={m.id} className={cardTable.tr}>
+                  <td data-label="Sent" className={cardTable.cell}><span>{new Date(m.receivedAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}</span></td>
+                  <td data-label="To" className={cardTable.cell}><span className="break-all">{m.to}</span></td>
+                  <td data-label="Subject" className={cardTable.cell}>
+                    <span className="min-w-0"><Link href={`/admin/mail/${encodeURIComponent(m.id)}`}>{m.subject}</Link></span>
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
       )}
     </div>
   );

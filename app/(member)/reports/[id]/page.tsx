@@ -1,4 +1,4 @@
-import Link from "next/link";
+import { BackLink } from "@/features/shared/components/back-link";
 import { getPageActor } from "@/features/members/server";
 import { getCourse, getReportById, getReportHistory } from "@/features/reports/server";
 import { StatusBadge } from "@/features/reports/components/status-badge";
@@ -29,7 +29,7 @@ export default async function ReportPage({ params, searchParams }: { params: Pro
   return (
     <div className="grid gap-8">
       <div className="grid gap-2">
-        <p><Link href="/reports">← My reports</Link></p>
+        <BackLink href="/reports">My reports</BackLink>
         <PageTitle>
           {report.species ? `${report.species.commonName}` : report.speciesOther ? `${report.speciesOther} (not listed)` : "Draft report"}
           {report.treatment.agentName ? ` · ${report.treatment.agentName}` : ""}

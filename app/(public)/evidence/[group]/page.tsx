@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { BackLink } from "@/features/shared/components/back-link";
 import { notFound } from "next/navigation";
 import { getCatalogue } from "@/features/catalogue/server";
 import { getSummaryDetail } from "@/features/evidence/server";
@@ -32,7 +33,7 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
   const back = new URLSearchParams({ agent: s.agent, ...(condition ? { condition } : {}) });
   return (
     <div className="grid gap-8">
-      <p><Link href={`/evidence?${back}`}>← All groups</Link></p>
+      <BackLink href={`/evidence?${back}`}>All groups</BackLink>
       <PageTitle lead={`${s.agentName}${s.condition ? `, against ${catalogue.conditions.find((c) => c.slug === s.condition)?.name}` : ""}. ${s.reports ? counts(s.reports, s.members, s.fish) : "No accepted reports yet"}.`}>
         {s.group.name}
       </PageTitle>
@@ -88,7 +89,7 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
                 <figure className="grid gap-1">
                   <RiskChart unit={s.unit} level={s.confidenceLevel} curve={dr.curve} bmd={dr.bmd} bmdl={dr.bmdl} points={s.points} pointBins={s.pointBins} />
                   <figcaption className="text-sm text-peat-700">
-                    Anecdotal: a logistic curve fitted to these members&apos; reports, not a controlled study. Red line: the fitted chance that a course goes badly; shaded: its {s.confidenceLevel} % interval; {s.points.length ? "dots: each report, went badly along the top, went well along the bottom;" : "bars: the reports per narrow dose band, went badly hanging from the top, went well along the bottom;"} solid rule: BMD₁₀; dashed rule: BMDL₁₀.
+                    A logistic curve fitted to these members&apos; reports, not a controlled study. Red line: the fitted chance that a course goes badly; shaded: its {s.confidenceLevel} % interval; {s.points.length ? "dots: each report, went badly along the top, went well along the bottom;" : "bars: the reports per narrow dose band, went badly hanging from the top, went well along the bottom;"} solid rule: BMD₁₀; dashed rule: BMDL₁₀.
                   </figcaption>
                 </figure>
                 <p data-testid="risk-text">
@@ -141,7 +142,7 @@ export default async function GroupEvidencePage({ params, searchParams }: { para
           <li>The intervals describe these reports only; they do not make a dose safe.</li>
         </ul>
       </section>
-      <Cautions compact />
+      <Cautions compact anecdotal={false} />
     </div>
   );
 }

@@ -1,6 +1,6 @@
-import Link from "next/link";
 import { getPageActor } from "@/features/members/server";
-import { getReviewPage } from "@/features/review/server";
+import { getReviewPage, getReviewQueue } from "@/features/review/server";
+import { ReviewQueueNav } from "@/features/review/components/queue-shortcuts";
 import { DecisionForm } from "@/features/review/components/decision-form";
 import { flagLabels } from "@/features/review";
 import { StatusBadge } from "@/features/reports/components/status-badge";
@@ -32,6 +32,11 @@ export default async function ReviewReportPage({ params }: { params: Promise<{ i
   const actor = await getPageActor();
   const { report, history, context } = await pageData(getReviewPage({ actor }, id));
   const catalogue = await getCatalogue();
+  // Neighbours in the queue's own order (oldest first), for the previous/next links and the j/k keys.
+  const queue = (await pageData(getReviewQueue(actor))).reports.map((r) => r.id);
+  const at = queue.indexOf(id);
+  const prevId = at > 0 ? queue[at - 1]! : null;
+  const nextId = at >= 0 ? (queue[at + 1] ?? null) : (queue[0] ?? null);
   const condition = catalogue.conditions.find((c) => c.slug === report.conditionSlug)?.name ?? report.conditionSlug;
   const group = catalogue.speciesGroups.find((g) => g.slug === report.groupSlug);
   // Accept proposals count only in the current review round (after the latest submission).
@@ -45,7 +50,7 @@ export default async function ReviewReportPage({ params }: { params: Promise<{ i
   };
   return (
     <div className="grid gap-8">
-      <p><Link href="/review">← Review queue</Link></p>
+      <ReviewQueueNav prevId={prevId} nextId={nextId} position={at >= 0 ? at + 1 : null} total={queue.length} />
       <div className="grid gap-2">
         <PageTitle>Review: {report.species?.commonName ?? `${report.speciesOther} (not listed)`} · {report.treatment.agentName ?? "?"}</PageTitle>
         <div className="flex flex-wrap items-center gap-3">

@@ -1,4 +1,4 @@
-import Link from "next/link";
+import { BackLink } from "@/features/shared/components/back-link";
 import { notFound } from "next/navigation";
 import { readCaughtMail } from "@/features/mail/server";
 import { getPageActor } from "@/features/members/server";
@@ -14,7 +14,7 @@ export default async function MailMessagePage({ params }: { params: Promise<{ id
   if (!mail) notFound();
   return (
     <div className="grid gap-4">
-      <p><Link href="/admin/mail">← All messages</Link></p>
+      <BackLink href="/admin/mail">All messages</BackLink>
       <PageTitle>{mail.subject}</PageTitle>
       <dl className="grid grid-cols-[max-content_1fr] gap-x-4">
         <dt className="font-bold">From</dt><dd>{mail.from}</dd>
