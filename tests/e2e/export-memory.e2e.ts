@@ -31,7 +31,7 @@ describe("the reports export", () => {
     const client = new pg.Client({ connectionString: fs.readFileSync(path.join(dataDir, "pgdata.address"), "utf8").trim() });
     await client.connect();
     try {
-      const [{ n }] = (await client.query<{ n: number }>("select count(*)::int as n from reports")).rows;
+      const n = (await client.query<{ n: number }>("select count(*)::int as n from reports")).rows[0]!.n;
       const author = (await client.query<{ id: string }>("select id from users where role = 'admin' limit 1")).rows[0]!.id;
       await client.query(
         `insert into reports (id, author_id, status, source, species_id, group_slug, fish_count, size_class, condition_slug, started_on,
