@@ -45,6 +45,15 @@ describe("the embedded database in its own process", () => {
   it("keeps liveness under 0.5 s and the summaries answering during a 10,000-row import", { timeout: 600_000 }, async () => {
     const admin = await signIn("admin@example.org");
     const csv = [header, ...Array.from({ length: 10_000 }, (_, k) => line(k))].join("\n");
+    // Warm-up: the first request to a route loads its compiled module (seconds on a loaded machine), which is not
+    // what this measures. A dry run of one row writes nothing.
+    const warm = await fetch(`${base()}/api/import/reports?dryRun=1`, {
+      method: "POST",
+      headers: { cookie: admin, origin: base(), "content-type": "text/csv" },
+      body: [header, line(99_999)].join("\n"),
+    });
+    expect(warm.status).toBe(200);
+    for (const url of ["/api/health/live", "/api/summaries"]) await (await fetch(`${base()}${url}`)).arrayBuffer();
     let finished = false;
     const importing = fetch(`${base()}/api/import/reports`, {
       method: "POST",
@@ -60,7 +69,8 @@ describe("the embedded database in its own process", () => {
     expect(res.status).toBe(200);
     expect(body.imported).toBe(10_000);
     const longest = Math.max(...live.map((p) => p.ms));
-    console.log(`import: ${live.length} liveness probes, longest ${longest.toFixed(0)} ms; ${summaries.length} summaries answers, longest ${Math.max(...summaries.map((p) => p.ms)).toFixed(0)} ms`);
+    const top = (xs: { ms: number }[]) => xs.map((p) => Math.round(p.ms)).sort((a, b) => b - a).slice(0, 5).join(", ");
+    console.log(`import: ${live.length} liveness probes, longest ${top(live)} ms; ${summaries.length} summaries answers, longest ${top(summaries)} ms`);
     expect(live.every((p) => p.status === 200)).toBe(true);
     expect(longest).toBeLessThan(500);
     expect(summaries.length).toBeGreaterThan(1);

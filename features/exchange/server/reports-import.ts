@@ -22,6 +22,7 @@ export const MAX_IMPORT_ROWS = 20_000;
 /** Rows per write transaction: small enough that other requests wait at most a moment for the database. */
 export const IMPORT_BATCH = 250;
 const CHECK_CHUNK = 500;
+const CHECK_YIELD_EVERY = 25;
 
 type Pair = { groupSlug: string | null; agentSlug: string | null };
 
@@ -294,6 +295,8 @@ export async function runReportsImport(p: PreparedImport, opts: ImportOptions = 
         result.skipped += 1; // already here: changes nothing, whatever else the row says
         continue;
       }
+      // Checking is JS work (schema, derived fields): hand the event loop back every few rows, not just per chunk.
+      if (k % CHECK_YIELD_EVERY === CHECK_YIELD_EVERY - 1) await breathe();
       const c = await checkRow(db, raw, row, known, p.ragged.get(row), cache);
       if ("issues" in c) result.rejected.push({ row, issues: c.issues });
       else {
