@@ -175,8 +175,11 @@ describe("the OpenAPI document", () => {
     expect(props.warnings.items.properties.code.enum).toEqual(expect.arrayContaining(["above_ceiling", "at_or_above_lowest_adverse", "above_highest_tolerated", "sparse_evidence", "no_evidence"]));
     expect(props.evidence.properties.lowestAdverseDose).toBeDefined();
     expect(Object.keys(props.suggestedFirstDose.anyOf?.[0]?.properties ?? props.suggestedFirstDose.properties)).toEqual(expect.arrayContaining(["fraction", "concentration", "doseMl"]));
-    expect(props.stock.properties.of.enum).toEqual(["compound", "agent"]);
-    expect(dose.parameters.map((p: { name: string }) => p.name)).toEqual(expect.arrayContaining(["speciesId", "group"]));
+    // stock is null for salt weighed dry (form=dry), so the document gives it as anyOf [object, null].
+    expect((props.stock.anyOf?.[0] ?? props.stock).properties.of.enum).toEqual(["compound", "agent"]);
+    expect(props.form.enum).toEqual(["stock", "dry"]);
+    expect(props.doseGrams).toBeDefined();
+    expect(dose.parameters.map((p: { name: string }) => p.name)).toEqual(expect.arrayContaining(["speciesId", "group", "form", "addedGrams"]));
     const ics = r.body.paths["/api/dose/plan.ics"].get;
     expect(Object.keys(ics.responses["200"].content)).toEqual(["text/calendar"]);
     expect(ics.parameters.map((p: { name: string }) => p.name)).toEqual(expect.arrayContaining(["start", "doses", "intervalHours"]));
