@@ -91,7 +91,7 @@ export function SiteHeader({ actor, clubName, awaiting }: { actor: Actor | null;
                 <span data-testid="signed-in-as" className="flex min-w-0 items-center gap-1.5">
                   <UserRound className={icon} aria-hidden="true" />
                   <span className="sr-only">Signed in as </span>
-                  <strong className="max-w-[7rem] truncate sm:max-md:max-w-[5rem] lg:max-w-[12rem]">{actor.name}</strong>
+                  <strong className="max-w-[7rem] truncate sm:max-lg:sr-only lg:max-w-[12rem]">{actor.name}</strong>
                   <span className="sr-only"> ({roleLabel[actor.role]})</span>
                   <ChevronDown className={icon} aria-hidden="true" />
                 </span>
