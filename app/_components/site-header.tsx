@@ -54,7 +54,7 @@ export function SiteHeader({ actor, clubName, awaiting }: { actor: Actor | null;
           {/* Between 640 and 768 px the mark alone stands for the name, to keep the bar on one row. */}
           <span className="font-display text-xl font-bold tracking-tight sm:max-md:sr-only lg:text-2xl">Tanklore</span>
         </Link>
-        <span className="hidden text-sm text-peat-300 xl:inline">{clubName}</span>
+        {/* The club's name is the logo's tooltip and heads the footer: the bar keeps its width for the links. */}
 
         <nav aria-label="Main" className="hidden min-w-0 flex-1 items-center gap-1 text-sm sm:flex lg:gap-3 lg:text-base" data-testid="nav-bar">
           {main.map((l) => (
@@ -91,7 +91,7 @@ export function SiteHeader({ actor, clubName, awaiting }: { actor: Actor | null;
                 <span data-testid="signed-in-as" className="flex min-w-0 items-center gap-1.5">
                   <UserRound className={icon} aria-hidden="true" />
                   <span className="sr-only">Signed in as </span>
-                  <strong className="max-w-[7rem] truncate sm:max-md:max-w-[5rem] lg:max-w-[12rem]">{actor.name}</strong>
+                  <strong className="max-w-[7rem] truncate sm:max-xl:sr-only xl:max-w-[12rem]">{actor.name}</strong>
                   <span className="sr-only"> ({roleLabel[actor.role]})</span>
                   <ChevronDown className={icon} aria-hidden="true" />
                 </span>

@@ -166,7 +166,7 @@ describe("at 390 px", () => {
     };
     for (const path of ["/", "/evidence", "/cautions", "/sign-in"]) await check(visitor, path);
     for (const path of ["/", "/reports"]) await check(member, path);
-    for (const path of ["/review", "/review/reports", "/admin/members", "/admin/catalogue", "/admin/mail", "/admin/exchange", "/admin/settings"]) await check(admin, path);
+    for (const path of ["/review", "/review/reports", "/admin/members", "/admin/catalogue", "/admin/mail", "/admin/settings"]) await check(admin, path);
     await admin.goto(`${baseUrl()}/review`);
     await admin.locator("a[data-row-link]").first().click();
     await admin.getByTestId("review-queue-nav").waitFor();
