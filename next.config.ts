@@ -13,6 +13,11 @@ const nextConfig: NextConfig = {
     proxyClientMaxBodySize: "21mb",
     // forbidden() and unauthorized() from next/navigation: data functions refuse a caller, pages answer 403/401.
     authInterrupts: true,
+    // The `'use cache'` directive for the public evidence reads (features/evidence/server/queries.ts), without
+    // cacheComponents: that would make every page's uncached data and session reads sit under <Suspense> and
+    // forbid route segment options such as `dynamic`, app-wide. Deprecated in favour of cacheComponents, still
+    // honoured by Next.js 16 (see docs/architecture.md, "Evidence caching").
+    useCache: true,
   },
   // The app is served from this checkout; keep the build inside it.
   turbopack: { root: import.meta.dirname },

@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import type { ReactNode } from "react";
+import { Suspense, type ReactNode } from "react";
 import { connection } from "next/server";
 import "./globals.css";
 import { bodyFont, displayFont } from "./fonts";
@@ -22,13 +22,16 @@ export const metadata: Metadata = {
 export default async function RootLayout({ children }: { children: ReactNode }) {
   // Every page reads the session and the club's name: render per request, never at build time.
   await connection();
-  const [actor, club, demo] = await Promise.all([getPageActor(), getClubSettings(), hasDemoData()]);
-  const awaiting = canReview(actor) ? await countAwaitingReview({ actor }) : null;
+  const [club, demo] = await Promise.all([getClubSettings(), hasDemoData()]);
   return (
     <html lang="en" className={`${bodyFont.variable} ${displayFont.variable}`}>
       <body className="min-h-screen bg-paper font-sans text-ink antialiased">
         <QueryProvider>
-          <SiteHeader actor={actor} clubName={club.name} awaiting={awaiting} />
+          {/* The session is read apart: the page streams without waiting for it (the public evidence pages come from
+              the cache), the header as a visitor sees it standing in until the signed-in one arrives. */}
+          <Suspense fallback={<SiteHeader actor={null} clubName={club.name} awaiting={null} />}>
+            <SignedInHeader clubName={club.name} />
+          </Suspense>
           {demo ? (
             <p className="bg-reed-100 px-4 py-1 text-center text-sm text-reed-700 no-print" data-testid="demo-banner">
               Demo club: every member, report and figure here is invented for trying Tanklore out.
@@ -55,4 +58,10 @@ export default async function RootLayout({ children }: { children: ReactNode }) 
       </body>
     </html>
   );
+}
+
+async function SignedInHeader({ clubName }: { clubName: string }) {
+  const actor = await getPageActor();
+  const awaiting = canReview(actor) ? await countAwaitingReview({ actor }) : null;
+  return <SiteHeader actor={actor} clubName={clubName} awaiting={awaiting} />;
 }

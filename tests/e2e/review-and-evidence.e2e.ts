@@ -73,9 +73,9 @@ describe("evidence", () => {
     await page.getByTestId("evidence-table").waitFor();
     expect(await page.getByText("Anecdotal evidence").first().isVisible()).toBe(true);
     await page.getByRole("link", { name: "Livebearers" }).click();
-    await page.getByTestId("dose-chart").locator("svg").first().waitFor();
+    await page.getByTestId("dose-chart").locator("svg").filter({ visible: true }).waitFor();
     expect(await page.getByTestId("dose-chart").locator("circle").count()).toBeGreaterThan(3);
-    await page.getByTestId("band-chart").locator("svg").first().waitFor();
+    await page.getByTestId("band-chart").locator("svg").filter({ visible: true }).waitFor();
     expect(await page.getByTestId("chart-text").textContent()).toMatch(/tolerated doses from/);
     const median = (await page.getByTestId("median").textContent())!;
     await page.screenshot({ path: "tests/e2e/.artifacts/evidence-group.png", fullPage: true });

@@ -128,10 +128,10 @@ describe("pages under the policy in Chromium", () => {
     const violations = await watch(page);
 
     await page.goto(`${baseUrl()}/evidence/livebearers?agent=hydrogen-peroxide`);
-    // Observable Plot's charts are drawn by client code, with their own styles.
-    await page.getByTestId("dose-chart").locator("svg").first().waitFor();
+    // Observable Plot's charts come drawn by the server (three widths, one shown), with their own styles.
+    await page.getByTestId("dose-chart").locator("svg").filter({ visible: true }).waitFor();
     expect(await page.getByTestId("dose-chart").locator("circle").count()).toBeGreaterThan(3);
-    const chartStyle = await page.getByTestId("dose-chart").locator("svg").first().evaluate((svg) => getComputedStyle(svg).fontFamily);
+    const chartStyle = await page.getByTestId("dose-chart").locator("svg").filter({ visible: true }).evaluate((svg) => getComputedStyle(svg).fontFamily);
     expect(chartStyle).not.toBe("");
 
     // The planner answers as one types: hydrated React under the nonce policy.

@@ -3,7 +3,7 @@ import { and, eq, sql } from "drizzle-orm";
 import { getDb, schema, type Db } from "@/db/client";
 import { getClubSettings } from "@/features/catalogue/server";
 import { medianRank, wilson } from "../stats";
-import { invalidateSummaryCache } from "./cache";
+import { announceEvidenceChange, invalidateSummaryCache } from "./cache";
 import { doseResponseOf, doseTrials } from "./dose-response";
 import { METHOD_VERSION, type Band, type Summary, type SummaryDetail } from "../summary";
 
@@ -236,6 +236,8 @@ export async function replacePairFigures(tx: Runner, groupSlug: string, agentSlu
   });
   await tx.delete(evidenceSummaries).where(and(eq(evidenceSummaries.groupSlug, groupSlug), eq(evidenceSummaries.agentSlug, agentSlug)));
   if (values.length) await tx.insert(evidenceSummaries).values(values);
+  // Other processes' cached evidence goes stale when this commits (never if it rolls back).
+  await announceEvidenceChange(tx, groupSlug, agentSlug);
   return values.length;
 }
 

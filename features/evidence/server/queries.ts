@@ -1,8 +1,9 @@
 import "server-only";
 import { asc, eq } from "drizzle-orm";
+import { cache } from "react";
 import { getDb, schema } from "@/db/client";
-import { getClubSettings } from "@/features/catalogue/server";
-import { AppError, notFound } from "@/features/shared/errors";
+import { getCatalogue, getClubSettings } from "@/features/catalogue/server";
+import { AppError, notFound, type ErrorCode, type FieldIssue } from "@/features/shared/errors";
 import { wilson } from "../stats";
 import { fitDoseResponse } from "../dose-response";
 import { ANECDOTAL_TEXT, METHOD_VERSION, type Summary, type SummaryDetail } from "../summary";
@@ -38,12 +39,66 @@ async function conditionOrError(slug: string | undefined) {
 
 const strip = ({ bands: _b, points: _p, pointBins: _pb, species: _s, ...summary }: SummaryDetail): Summary => summary;
 
-import { summaryCache } from "./cache";
+import { evidenceCacheVersion, tagEvidence } from "./cache";
+
+/** The version read once per request (React's per-render memo; a route handler reads it once per call anyway). */
+const versionForRequest = cache(evidenceCacheVersion);
+
+/**
+ * A cached read's outcome. An AppError (unknown agent, condition or group) is kept as data, so it is cached with the
+ * version like an answer and thrown again, as the same AppError, outside the cache.
+ */
+type Outcome<T> = { ok: true; value: T } | { ok: false; error: { code: ErrorCode; message: string; issues: FieldIssue[] | null } };
+
+async function capture<T>(load: () => Promise<T>): Promise<Outcome<T>> {
+  try {
+    return { ok: true, value: await load() };
+  } catch (err) {
+    if (err instanceof AppError) return { ok: false, error: { code: err.code, message: err.message, issues: err.issues ?? null } };
+    throw err;
+  }
+}
+
+function unwrap<T>(o: Outcome<T>): T {
+  if (o.ok) return o.value;
+  throw new AppError(o.error.code, o.error.message, o.error.issues ?? undefined);
+}
+
+// The cached reads: `_version` is not used inside, it is part of the cache key (see cache.ts).
+
+async function cachedSummaries(_version: string, agentSlug: string, conditionSlug: string) {
+  "use cache";
+  tagEvidence({ agent: agentSlug });
+  return capture(() => loadSummaries(agentSlug, conditionSlug || undefined));
+}
+
+async function cachedSummaryDetail(_version: string, groupSlug: string, agentSlug: string, conditionSlug: string) {
+  "use cache";
+  tagEvidence({ agent: agentSlug, group: groupSlug });
+  return capture(() => loadSummaryDetail(groupSlug, agentSlug, conditionSlug || undefined));
+}
+
+async function cachedCatalogue(_version: string) {
+  "use cache";
+  tagEvidence({});
+  return getCatalogue();
+}
 
 type SummaryList = Awaited<ReturnType<typeof loadSummaries>>;
 
+/** Every visible group's summary for an agent (and condition): from the framework's cache while nothing changed. */
 export async function getSummaries(agentSlug: string, conditionSlug?: string): Promise<SummaryList> {
-  return summaryCache(`${agentSlug}|${conditionSlug ?? ""}`, () => loadSummaries(agentSlug, conditionSlug));
+  return unwrap(await cachedSummaries(await versionForRequest(), agentSlug, conditionSlug ?? ""));
+}
+
+/** One group's summary with its bands, points and species: from the framework's cache while nothing changed. */
+export async function getSummaryDetail(groupSlug: string, agentSlug: string, conditionSlug?: string): Promise<Awaited<ReturnType<typeof loadSummaryDetail>>> {
+  return unwrap(await cachedSummaryDetail(await versionForRequest(), groupSlug, agentSlug, conditionSlug ?? ""));
+}
+
+/** The visible catalogue, for the public evidence pages' choices: cached with the evidence. */
+export async function getEvidenceCatalogue() {
+  return cachedCatalogue(await versionForRequest());
 }
 
 /** Stored summaries for every visible group (groups without reports appear with zero counts). */
@@ -63,7 +118,7 @@ async function loadSummaries(agentSlug: string, conditionSlug?: string) {
   };
 }
 
-export async function getSummaryDetail(groupSlug: string, agentSlug: string, conditionSlug?: string) {
+async function loadSummaryDetail(groupSlug: string, agentSlug: string, conditionSlug?: string) {
   const [agent, cond, settings] = await Promise.all([agentOrError(agentSlug), conditionOrError(conditionSlug), getClubSettings()]);
   const db = await getDb();
   const [group] = await db.select({ slug: speciesGroups.slug, name: speciesGroups.name }).from(speciesGroups).where(eq(speciesGroups.slug, groupSlug));

@@ -4,7 +4,7 @@ import { getClubSettings } from "@/features/catalogue/server";
 import {
   enqueueEvidenceRecompute, enqueueEvidenceRecomputeWhere, setEvidenceWorkerWake, type EvidencePair,
 } from "@/features/shared/server/evidence-outbox";
-import { invalidateSummaryCache } from "./cache";
+import { invalidateSummaryCache, startEvidenceCacheListener, stopEvidenceCacheListener } from "./cache";
 import { lockPair, replacePairFigures } from "./compute";
 
 const { evidenceOutbox } = schema;
@@ -128,6 +128,8 @@ function wake(): void {
 export function startEvidenceWorker(everyMs = 1_000): void {
   const s = state();
   if (s.timer) return;
+  // Recomputes committed by other processes on the same PostgreSQL server invalidate this one's cached evidence.
+  startEvidenceCacheListener();
   setEvidenceWorkerWake(wake);
   s.timer = setInterval(wake, everyMs);
   s.timer.unref();
@@ -139,6 +141,7 @@ export function stopEvidenceWorker(): void {
   if (s.timer) clearInterval(s.timer);
   s.timer = undefined;
   setEvidenceWorkerWake(undefined);
+  void stopEvidenceCacheListener();
 }
 
 /**

@@ -1,6 +1,5 @@
 import Link from "next/link";
-import { getCatalogue } from "@/features/catalogue/server";
-import { getSummaries } from "@/features/evidence/server";
+import { getEvidenceCatalogue, getSummaries } from "@/features/evidence/server";
 import { cards, counts, fmtDose, pct } from "@/features/evidence/components/format";
 import { GroupsChart } from "@/features/evidence/components/groups-chart";
 import { Cautions } from "@/features/shared/components/cautions";
@@ -12,7 +11,7 @@ export const metadata = { title: "Evidence" };
 
 export default async function EvidencePage({ searchParams }: { searchParams: Promise<{ agent?: string; condition?: string }> }) {
   const sp = await searchParams;
-  const catalogue = await getCatalogue();
+  const catalogue = await getEvidenceCatalogue();
   const agentSlug = catalogue.agents.some((a) => a.slug === sp.agent) ? sp.agent! : "hydrogen-peroxide";
   const condition = catalogue.conditions.some((c) => c.slug === sp.condition) ? sp.condition : undefined;
   const s = await getSummaries(agentSlug, condition);

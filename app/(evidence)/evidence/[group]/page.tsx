@@ -1,8 +1,7 @@
 import Link from "next/link";
 import { BackLink } from "@/features/shared/components/back-link";
 import { notFound } from "next/navigation";
-import { getCatalogue } from "@/features/catalogue/server";
-import { getSummaryDetail } from "@/features/evidence/server";
+import { getEvidenceCatalogue, getSummaryDetail } from "@/features/evidence/server";
 import { DoseChart } from "@/features/evidence/components/dose-chart";
 import { RiskChart } from "@/features/evidence/components/risk-chart";
 import { isFitted, riskAt } from "@/features/evidence";
@@ -15,7 +14,7 @@ export const metadata = { title: "Evidence for a group" };
 
 export default async function GroupEvidencePage({ params, searchParams }: { params: Promise<{ group: string }>; searchParams: Promise<{ agent?: string; condition?: string }> }) {
   const [{ group }, sp] = await Promise.all([params, searchParams]);
-  const catalogue = await getCatalogue();
+  const catalogue = await getEvidenceCatalogue();
   const agentSlug = catalogue.agents.some((a) => a.slug === sp.agent) ? sp.agent! : "hydrogen-peroxide";
   const condition = catalogue.conditions.some((c) => c.slug === sp.condition) ? sp.condition : undefined;
   const s = await getSummaryDetail(group, agentSlug, condition).catch((err) => {
