@@ -16,6 +16,7 @@ import { AppError } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { dataDir, getEnv } from "@/features/shared/env";
 import { authorize, canTakeBackups } from "@/features/shared/policies";
+import { objectStorage, type ObjectStorage } from "@/features/shared/server/object-storage";
 
 const run = promisify(execFile);
 
@@ -96,6 +97,14 @@ async function linkOrCopy(from: string, to: string): Promise<boolean> {
   }
 }
 
+/** A photo from the bucket into the staging folder (objects are written whole, never changed in place). */
+async function fetchObject(storage: ObjectStorage, key: string, to: string): Promise<void> {
+  const data = await storage.get(key);
+  if (!data) return;
+  await fsp.mkdir(path.dirname(to), { recursive: true });
+  await fsp.writeFile(to, data, { mode: 0o600 });
+}
+
 interface Staged {
   dir: string;
   manifest: BackupManifest;
@@ -113,6 +122,7 @@ async function stage(): Promise<Staged> {
   const dir = path.join(backupsDir(), `.staging-${Date.now()}-${crypto.randomBytes(4).toString("hex")}`);
   await fsp.mkdir(dir, { recursive: true });
   try {
+    const storage = objectStorage();
     const uploadsRoot = path.join(dataDir(), "uploads");
     const dbFile = kind === "pglite" ? archivePaths.pglite : archivePaths.postgres;
     let takenAt = new Date();
@@ -125,7 +135,8 @@ async function stage(): Promise<Staged> {
         for (const p of photos) {
           for (const key of [p.full, p.thumb]) {
             // A row whose file is already gone (removed by hand) cannot be helped; restore reports the count.
-            await linkOrCopy(path.join(uploadsRoot, key), path.join(dir, archivePaths.uploads, key));
+            if (storage.kind === "disk") await linkOrCopy(path.join(uploadsRoot, key), path.join(dir, archivePaths.uploads, key));
+            else await fetchObject(storage, `${archivePaths.uploads}${key}`, path.join(dir, archivePaths.uploads, key));
           }
         }
         await fsp.mkdir(path.join(dir, "database"), { recursive: true });
