@@ -3,6 +3,7 @@ import crypto from "node:crypto";
 import os from "node:os";
 import { and, desc, eq, isNotNull, or, sql, type SQL } from "drizzle-orm";
 import { getDb, schema, type Db } from "@/db/client";
+import { AppError } from "@/features/shared/errors";
 import { authorize, canReadJobs, type Caller } from "@/features/shared/policies";
 
 /**
@@ -118,9 +119,12 @@ const rowsOf = <T>(r: unknown): T[] => (r as { rows: T[] }).rows;
 /** Claims up to `limit` due jobs of the given kinds for this process. */
 async function claim(db: Db, kinds: string[], now: Date, limit: number): Promise<ClaimedRow[]> {
   if (!kinds.length) return [];
-  const lease = Math.max(...kinds.map((k) => registry().handlers.get(k)?.leaseMs ?? 5 * 60_000));
-  const until = new Date(now.getTime() + lease);
   const kindList = sql.join(kinds.map((k) => sql`${k}`), sql`, `);
+  // Each kind's own lease: a silent backup is given an hour, a silent mail five minutes.
+  const until = sql`case kind ${sql.join(
+    kinds.map((k) => sql`when ${k} then ${new Date(now.getTime() + (registry().handlers.get(k)?.leaseMs ?? 5 * 60_000))}::timestamptz`),
+    sql` `,
+  )} end`;
   const r = await db.execute(sql`
     update jobs set status = 'running', attempts = attempts + 1, locked_by = ${workerId}, locked_until = ${until}, updated_at = ${now}
      where id in (
@@ -333,4 +337,31 @@ export async function listJobs({ actor }: Caller, opts: { limit?: number } = {})
     running: rows.filter((j) => j.status === "running").map(view),
     rounds: rows.filter((j) => j.dedupeKey?.startsWith("round:")).map(view),
   };
+}
+
+/**
+ * POST /api/admin/jobs: run a round now in this process ({ run: kind }) — its own claims still keep each
+ * digest, reminder and backup to once — or queue a failed job again ({ retry: id }).
+ */
+export async function adminJobAction({ actor }: Caller, action: { run: string } | { retry: string }): Promise<{ ran?: string; retried?: string }> {
+  authorize(actor, canReadJobs, "run background jobs");
+  if ("run" in action) {
+    const h = registry().handlers.get(action.run);
+    if (!h?.everyMs) throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "run", message: `run names a round: ${roundKinds().join(", ")}.` }]);
+    await h.run({}, { now: new Date(), attempt: 1 });
+    return { ran: action.run };
+  }
+  const db = await getDb();
+  const [row] = await db
+    .update(jobs)
+    .set({ status: "queued", runAt: new Date(), attempts: 0, updatedAt: new Date() })
+    .where(and(eq(jobs.id, action.retry), eq(jobs.status, "failed")))
+    .returning({ id: jobs.id });
+  if (!row) throw new AppError("not_found", "No failed job has that id; only failed jobs can be queued again.");
+  void kickJobs();
+  return { retried: row.id };
+}
+
+export function roundKinds(): string[] {
+  return [...registry().handlers].filter(([, h]) => h.everyMs).map(([k]) => k).sort();
 }

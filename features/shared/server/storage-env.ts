@@ -17,7 +17,7 @@ export type S3Env = z.infer<typeof s3Schema>;
 const names = ["S3_ENDPOINT", "S3_BUCKET", "S3_REGION", "S3_ACCESS_KEY_ID", "S3_SECRET_ACCESS_KEY"] as const;
 
 /** The bucket's settings, or null when none of S3_* is set; a partial or invalid set stops with what to fix. */
-export function getS3Env(env: NodeJS.ProcessEnv = process.env): S3Env | null {
+export function getS3Env(env: Record<string, string | undefined> = process.env): S3Env | null {
   const set = names.filter((n) => env[n]);
   if (set.length === 0) return null;
   const raw = Object.fromEntries(Object.entries(env).filter(([k, v]) => k.startsWith("S3_") && v !== undefined && v !== ""));
