@@ -143,15 +143,11 @@ export async function waitHealthy(app: AppProcess, timeoutMs = 180_000): Promise
   throw new Error(`${app.name} did not answer /api/health within ${timeoutMs / 1000} s (last: ${last}):\n${app.log.slice(-40).join("\n")}`);
 }
 
-/** Builds the app for production when there is no build yet (the cluster runs what `next build` made). */
-export function ensureBuild(force = false): void {
-  if (!force && fs.existsSync(path.join(root, ".next", "BUILD_ID"))) return;
-  const r = spawnSync(process.execPath, [path.join(root, "node_modules", "next", "dist", "bin", "next"), "build"], {
-    cwd: root,
-    stdio: "inherit",
-    env: { ...process.env, NODE_ENV: "production", NEXT_TELEMETRY_DISABLED: "1" },
-  });
-  if (r.status !== 0) throw new Error("next build failed; see above.");
+/** Builds the app for production when there is no build yet or a source changed since (as `npm start` does). */
+export async function ensureBuild(): Promise<void> {
+  process.env.NEXT_TELEMETRY_DISABLED = "1";
+  const { buildIfNeeded } = await import("./serve");
+  buildIfNeeded();
 }
 
 export interface Cluster {
@@ -201,7 +197,7 @@ const isMain = process.argv[1] && path.resolve(process.argv[1]) === path.resolve
 if (isMain) {
   const base = Number(process.env.PORT ?? 3000);
   console.log("Starting a throwaway PostgreSQL server, the local S3 fake and two Tanklore processes…");
-  ensureBuild();
+  await ensureBuild();
   let cluster: Cluster;
   try {
     cluster = await startCluster({ ports: [base, base + 1], echo: true });

@@ -1,6 +1,6 @@
 import { ensureBuild } from "@/db/cluster";
 
-// One production build for the suite: rebuilt unless TANKLORE_REUSE_BUILD=1 says the existing .next is current.
-export default function setup(): void {
-  ensureBuild(process.env.TANKLORE_REUSE_BUILD !== "1");
+// One production build for the suite, made only when missing or older than a source file (as `npm start` decides).
+export default async function setup(): Promise<void> {
+  await ensureBuild();
 }
