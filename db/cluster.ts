@@ -211,6 +211,7 @@ Tanklore cluster is running — two app processes sharing one database and one b
   process B   ${cluster.apps[1]!.url}
   PostgreSQL  ${cluster.pg.url}   (data in ${cluster.pg.dir})
   S3 fake     ${cluster.s3.endpoint}  bucket ${cluster.s3.env.S3_BUCKET}
+The database starts empty: for the invented demo club, run  DATABASE_URL=${cluster.pg.url} npm run db:seed
 Put a reverse proxy in front of both ports to serve them as one site (docs/operations.md).
 Everything here is temporary: Ctrl+C stops it all and deletes the data.
 `);
