@@ -1,16 +1,18 @@
-// Runs once when the Next.js server starts (never during `next build`): start the reminder, moderator-digest and
-// nightly-backup schedulers and the evidence worker that drains the recompute outbox, and bring stored evidence
-// summaries up to the current method.
+// Runs once when the Next.js server starts (never during `next build`): start the job runner (notice mails and
+// the reminder, moderator-digest and nightly-backup rounds, claimed in the database so each runs once across
+// processes) and the evidence worker that drains the recompute outbox, and bring stored evidence summaries up
+// to the current method.
 export async function register() {
   if (process.env.NEXT_RUNTIME !== "nodejs" || process.env.NEXT_PHASE === "phase-production-build") return;
-  const { startReminderScheduler } = await import("@/features/reports/server");
-  const { startDigestScheduler } = await import("@/features/review/server");
+  // Importing each feature's server entry registers its jobs with the runner.
+  await import("@/features/mail/server");
+  await import("@/features/reports/server");
+  await import("@/features/review/server");
+  await import("@/features/exchange/server");
+  const { startJobRunner } = await import("@/features/shared/server/jobs");
   const { startEvidenceWorker } = await import("@/features/evidence/server");
-  const { startBackupScheduler } = await import("@/features/exchange/server");
-  startReminderScheduler();
-  startDigestScheduler();
+  startJobRunner();
   startEvidenceWorker();
-  startBackupScheduler();
   // Summaries stored by an older method (or at another confidence level) are recomputed before serving.
   const { recomputeStale } = await import("@/features/evidence/server");
   try {

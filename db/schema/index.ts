@@ -3,3 +3,4 @@ export * from "./club";
 export * from "./catalogue";
 export * from "./reports";
 export * from "./idempotency";
+export * from "./jobs";

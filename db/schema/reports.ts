@@ -182,6 +182,8 @@ export const moderatorDigests = pgTable("moderator_digests", {
   lastSentAt: timestamp({ withTimezone: true }).notNull(),
   /** Submissions up to this time have been included in a digest. */
   coveredUntil: timestamp({ withTimezone: true }).notNull(),
+  /** A process sending this moderator's digest holds it until then (a crashed send frees it when it passes). */
+  claimedUntil: timestamp({ withTimezone: true }),
 });
 
 /**

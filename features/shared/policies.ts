@@ -44,6 +44,8 @@ export const canManageMembers = isAdmin;
 export const canManageCatalogue = isAdmin;
 export const canEditClubSettings = isAdmin;
 export const canReadOutbox = isAdmin;
+/** Background jobs' errors name members' addresses. */
+export const canReadJobs = isAdmin;
 export const canImportReports = isAdmin;
 /** A backup holds every account and the session secret. */
 export const canTakeBackups = isAdmin;

@@ -4,6 +4,7 @@ import { getClubSettings } from "@/features/catalogue/server";
 import {
   enqueueEvidenceRecompute, enqueueEvidenceRecomputeWhere, setEvidenceWorkerWake, type EvidencePair,
 } from "@/features/shared/server/evidence-outbox";
+import { failuresWaiting, recordFailure } from "@/features/shared/server/jobs";
 import { invalidateSummaryCache, startEvidenceCacheListener, stopEvidenceCacheListener } from "./cache";
 import { lockPair, replacePairFigures } from "./compute";
 
@@ -24,13 +25,18 @@ interface WorkerState {
   /** A wake-up drain is already waiting to start; it will see whatever was enqueued meanwhile. */
   queued: boolean;
   timer?: ReturnType<typeof setInterval>;
-  /** Pairs that failed, and when the poll may try them again (growing delays, so a broken pair does not flood the log). */
-  retry: Map<string, { at: number; delayMs: number }>;
 }
 
 const store = globalThis as unknown as { __tankloreEvidenceWorker?: WorkerState };
-const state = (): WorkerState => (store.__tankloreEvidenceWorker ??= { tail: Promise.resolve(), queued: false, retry: new Map() });
+const state = (): WorkerState => (store.__tankloreEvidenceWorker ??= { tail: Promise.resolve(), queued: false });
 const keyOf = (g: string, a: string) => `${g}\u0000${a}`;
+/**
+ * A failed pair's record in the jobs table (features/shared/server/jobs.ts): its error for the admins and when
+ * to try again (growing delays, shared by every process, so a broken pair neither floods the log nor waits forever).
+ * The outbox rows themselves stay until a recompute succeeds.
+ */
+const FAILURE_KIND = "evidence-recompute";
+const failureKey = (g: string, a: string) => `${g}/${a}`;
 
 /**
  * One pair, one transaction: take the pair's lock, see which outbox rows are there, recompute from the
@@ -54,7 +60,6 @@ async function drainPair(db: Db, groupSlug: string, agentSlug: string): Promise<
 }
 
 async function drainOnce(db: Db, force: boolean): Promise<DrainResult> {
-  const s = state();
   const result: DrainResult = { recomputed: 0, failed: 0, rows: 0 };
   // Pairs that failed in this drain: not tried again until the next one.
   const tried = new Set<string>();
@@ -63,10 +68,11 @@ async function drainOnce(db: Db, force: boolean): Promise<DrainResult> {
     const pending = (
       await db.execute(sql`select group_slug, agent_slug from evidence_outbox group by group_slug, agent_slug order by min(id)`)
     ) as unknown as { rows: { group_slug: string; agent_slug: string }[] };
-    const now = Date.now();
+    // Pairs whose last recompute failed wait out their delay, whichever process tried them (recorded in jobs).
+    const waiting = force ? new Set<string>() : await failuresWaiting(FAILURE_KIND);
     const todo = pending.rows.filter((p) => {
       const k = keyOf(p.group_slug, p.agent_slug);
-      return !tried.has(k) && (force || (s.retry.get(k)?.at ?? 0) <= now);
+      return !tried.has(k) && !waiting.has(failureKey(p.group_slug, p.agent_slug));
     });
     if (todo.length === 0) break;
     for (const p of todo) {
@@ -75,7 +81,8 @@ async function drainOnce(db: Db, force: boolean): Promise<DrainResult> {
         const rows = await drainPair(db, p.group_slug, p.agent_slug);
         // After the commit: this process's cached responses may now be stale.
         invalidateSummaryCache();
-        s.retry.delete(k);
+        // Clears a failure recorded by any process (a no-op delete when there was none).
+        await recordFailure(FAILURE_KIND, failureKey(p.group_slug, p.agent_slug), null).catch(() => undefined);
         if (rows !== null) {
           result.recomputed += 1;
           result.rows += rows;
@@ -83,8 +90,9 @@ async function drainOnce(db: Db, force: boolean): Promise<DrainResult> {
       } catch (err) {
         tried.add(k);
         result.failed += 1;
-        const delayMs = Math.min(60_000, (s.retry.get(k)?.delayMs ?? 500) * 2);
-        s.retry.set(k, { at: Date.now() + delayMs, delayMs });
+        await recordFailure(FAILURE_KIND, failureKey(p.group_slug, p.agent_slug), err, new Date(), { groupSlug: p.group_slug, agentSlug: p.agent_slug }).catch(
+          (e) => console.error("Could not record the failed recompute:", e),
+        );
         console.error(`Recomputing the evidence of ${p.group_slug} × ${p.agent_slug} failed; the change stands and the recompute will be retried:`, err);
       }
     }

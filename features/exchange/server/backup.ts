@@ -15,6 +15,8 @@ import { AppError } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { dataDir, getEnv } from "@/features/shared/env";
 import { authorize, canTakeBackups } from "@/features/shared/policies";
+import { objectStorage, type ObjectStorage } from "@/features/shared/server/object-storage";
+import { registerJob } from "@/features/shared/server/jobs";
 
 const run = promisify(execFile);
 
@@ -95,6 +97,14 @@ async function linkOrCopy(from: string, to: string): Promise<boolean> {
   }
 }
 
+/** A photo from the bucket into the staging folder (objects are written whole, never changed in place). */
+async function fetchObject(storage: ObjectStorage, key: string, to: string): Promise<void> {
+  const data = await storage.get(key);
+  if (!data) return;
+  await fsp.mkdir(path.dirname(to), { recursive: true });
+  await fsp.writeFile(to, data, { mode: 0o600 });
+}
+
 interface Staged {
   dir: string;
   manifest: BackupManifest;
@@ -112,6 +122,7 @@ async function stage(): Promise<Staged> {
   const dir = path.join(backupsDir(), `.staging-${Date.now()}-${crypto.randomBytes(4).toString("hex")}`);
   await fsp.mkdir(dir, { recursive: true });
   try {
+    const storage = objectStorage();
     const uploadsRoot = path.join(dataDir(), "uploads");
     const dbFile = kind === "pglite" ? archivePaths.pglite : archivePaths.postgres;
     let takenAt = new Date();
@@ -124,7 +135,8 @@ async function stage(): Promise<Staged> {
         for (const p of photos) {
           for (const key of [p.full, p.thumb]) {
             // A row whose file is already gone (removed by hand) cannot be helped; restore reports the count.
-            await linkOrCopy(path.join(uploadsRoot, key), path.join(dir, archivePaths.uploads, key));
+            if (storage.kind === "disk") await linkOrCopy(path.join(uploadsRoot, key), path.join(dir, archivePaths.uploads, key));
+            else await fetchObject(storage, `${archivePaths.uploads}${key}`, path.join(dir, archivePaths.uploads, key));
           }
         }
         await fsp.mkdir(path.join(dir, "database"), { recursive: true });
@@ -301,18 +313,58 @@ export async function runNightlyBackupIfDue(now = new Date()): Promise<{ file: s
     )
     .returning({ id: schema.clubSettings.id });
   if (!claimed.length) return null;
-  const { file } = await writeBackupFile();
-  await pruneBackups(backupsDir(), NIGHTLY_KEEP, now);
-  return { file };
+  try {
+    const { file } = await storeBackupFile();
+    await pruneStoredBackups(NIGHTLY_KEEP, now);
+    return { file };
+  } catch (err) {
+    // Not taken after all: free tonight's slot, so the job's retry (or the next round) takes it.
+    await db
+      .update(schema.clubSettings)
+      .set({ lastNightlyBackupAt: null })
+      .where(and(eq(schema.clubSettings.id, 1), eq(schema.clubSettings.lastNightlyBackupAt, now)));
+    throw err;
+  }
 }
 
-const store = globalThis as unknown as { __tankloreBackups?: NodeJS.Timeout };
-
-/** Checks every ten minutes whether the nightly backup is due (cheap: one conditional update). */
-export function startBackupScheduler(everyMs = 10 * 60_000): void {
-  if (store.__tankloreBackups) return;
-  store.__tankloreBackups = setInterval(() => {
-    runNightlyBackupIfDue().catch((err) => console.error("Nightly backup failed:", err));
-  }, everyMs);
-  store.__tankloreBackups.unref();
+/**
+ * Writes a backup where the club keeps its files: DATA_DIR/backups, or backups/ in the bucket when S3_* is set
+ * (written locally first, then uploaded and the local copy removed). Returns the file or object it wrote.
+ */
+export async function storeBackupFile(): Promise<{ file: string; manifest: BackupManifest }> {
+  const storage = objectStorage();
+  const written = await writeBackupFile();
+  if (storage.kind === "disk") return written;
+  const key = `backups/${path.basename(written.file)}`;
+  try {
+    await storage.putFile(key, written.file, "application/gzip");
+  } finally {
+    await fsp.rm(written.file, { force: true });
+  }
+  return { file: `${storage.describe()}: ${key}`, manifest: written.manifest };
 }
+
+/** pruneBackups for the club's own storage: the data directory, or backups/ in the bucket. */
+export async function pruneStoredBackups(keep = NIGHTLY_KEEP, now = new Date()): Promise<string[]> {
+  const storage = objectStorage();
+  if (storage.kind === "disk") return pruneBackups(backupsDir(), keep, now);
+  const archives = (await storage.list("backups/")).map((o) => o.key).filter((k) => /^backups\/tanklore-backup-[\dTZ-]+\.tar\.gz$/.test(k)).sort();
+  const removed = archives.slice(0, Math.max(0, archives.length - keep));
+  for (const k of removed) await storage.remove(k);
+  // Leftovers of a killed local write before upload.
+  await pruneBackups(backupsDir(), Number.MAX_SAFE_INTEGER, now);
+  return removed;
+}
+
+/** The nightly-backup check runs every ten minutes in whichever process claims it (features/shared/server/jobs.ts). */
+registerJob("nightly-backup", {
+  everyMs: 10 * 60_000,
+  // A large club's archive takes a while: others wait this long before taking a silent run over.
+  leaseMs: 60 * 60_000,
+  run: async (_payload, { now }) => {
+    await runNightlyBackupIfDue(now);
+  },
+});
+
+/** Kept for callers of the old per-process timer: the job runner now runs the check. */
+export function startBackupScheduler(): void {}

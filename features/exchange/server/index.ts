@@ -8,6 +8,6 @@ export { FORMULA_START, unneutralise, controlCharacterIn } from "./csv-cells";
 export { getExchangeOverview } from "./overview";
 export {
   archivePaths, BACKUP_FORMAT, BACKUP_FORMAT_VERSION, backupsDir, countClub, createBackup, pruneBackups, runNightlyBackupIfDue, secretFingerprint,
-  startBackupScheduler, writeBackupFile, type BackupCounts, type BackupManifest,
+  startBackupScheduler, writeBackupFile, storeBackupFile, pruneStoredBackups, type BackupCounts, type BackupManifest,
 } from "./backup";
 export { restoreBackup, RestoreRefusedError, type RestoreResult, type RestoreTarget } from "./restore";

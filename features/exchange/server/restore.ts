@@ -16,6 +16,7 @@ import tar from "tar-stream";
 import { schema, type Db } from "@/db/client";
 import { acquireLock, releaseLock } from "@/db/lock";
 import { archivePaths, BACKUP_FORMAT, BACKUP_FORMAT_VERSION, countClub, pgToolConnection, secretFingerprint, type BackupCounts, type BackupManifest } from "./backup";
+import { objectStorage } from "@/features/shared/server/object-storage";
 
 const run = promisify(execFile);
 
@@ -206,9 +207,16 @@ export async function restoreBackup(file: string, target: RestoreTarget): Promis
     const uploads = path.join(work, "uploads");
     let photoFiles = 0;
     if (fs.existsSync(uploads)) {
-      written.push(path.join(dataDir, "uploads"));
-      await fsp.cp(uploads, path.join(dataDir, "uploads"), { recursive: true });
-      photoFiles = manifest.files.filter((f) => f.path.startsWith(archivePaths.uploads)).length;
+      const storage = objectStorage();
+      const photoPaths = manifest.files.filter((f) => f.path.startsWith(archivePaths.uploads)).map((f) => f.path);
+      if (storage.kind === "s3") {
+        // Several processes share the bucket: the photos go there (same keys), not into this machine's data directory.
+        for (const rel of photoPaths) await storage.putFile(rel, path.join(work, rel), "image/jpeg");
+      } else {
+        written.push(path.join(dataDir, "uploads"));
+        await fsp.cp(uploads, path.join(dataDir, "uploads"), { recursive: true });
+      }
+      photoFiles = photoPaths.length;
     }
     const warnings: string[] = [];
     if (manifest.authSecret.source === "file") {

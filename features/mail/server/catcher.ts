@@ -1,15 +1,14 @@
 import "server-only";
-import fs from "node:fs";
-import path from "node:path";
 import type { AddressInfo } from "node:net";
 import { SMTPServer } from "smtp-server";
+import { objectStorage } from "@/features/shared/server/object-storage";
 
 /**
- * The local mail catcher used when no SMTP_URL is set: a loopback SMTP server that stores each
- * message as an .eml file. Written to a temporary name and renamed, so a listed file is complete.
+ * The local mail catcher used when no SMTP_URL is set: a loopback SMTP server that keeps each message as an
+ * .eml object under mail/ in the club's storage (the data directory, or the bucket that several processes
+ * share, so the admin outbox shows every process's mail). Stored whole, so a listed message is complete.
  */
-export async function startCatcher(mailDir: string, port: number): Promise<{ port: number; close: () => Promise<void> }> {
-  fs.mkdirSync(mailDir, { recursive: true });
+export async function startCatcher(port: number): Promise<{ port: number; close: () => Promise<void> }> {
   let seq = 0;
   const server = new SMTPServer({
     authOptional: true,
@@ -18,19 +17,17 @@ export async function startCatcher(mailDir: string, port: number): Promise<{ por
     size: 10 * 1024 * 1024,
     onData(stream, _session, callback) {
       const name = `${new Date().toISOString().replace(/[:.]/g, "-")}-${process.pid}-${++seq}.eml`;
-      const tmp = path.join(mailDir, `.${name}.part`);
-      const out = fs.createWriteStream(tmp);
-      stream.pipe(out);
+      const chunks: Buffer[] = [];
+      stream.on("data", (c: Buffer) => chunks.push(c));
       stream.on("error", (err) => callback(err));
-      out.on("error", (err) => callback(err));
-      out.on("finish", () => {
+      stream.on("end", () => {
         if (stream.sizeExceeded) {
-          fs.rmSync(tmp, { force: true });
           callback(Object.assign(new Error("Message too large for the mail catcher"), { responseCode: 552 }));
           return;
         }
-        fs.renameSync(tmp, path.join(mailDir, name));
-        callback();
+        objectStorage()
+          .put(`mail/${name}`, Buffer.concat(chunks), "message/rfc822")
+          .then(() => callback(), (err: Error) => callback(err));
       });
     },
   });

@@ -1,10 +1,10 @@
 import "server-only";
-import fs from "node:fs";
 import path from "node:path";
 import nodemailer, { type Transporter } from "nodemailer";
 import { simpleParser } from "mailparser";
 import { dataDir, getEnv } from "@/features/shared/env";
 import { authorize, canReadOutbox, type Caller } from "@/features/shared/policies";
+import { objectStorage } from "@/features/shared/server/object-storage";
 import { startCatcher } from "./catcher";
 
 export interface OutgoingMail {
@@ -23,7 +23,7 @@ export function mailDir(): string {
 async function createTransport(): Promise<Transporter> {
   const env = getEnv();
   if (env.SMTP_URL) return nodemailer.createTransport(env.SMTP_URL);
-  const catcher = await startCatcher(mailDir(), env.MAIL_CATCHER_PORT);
+  const catcher = await startCatcher(env.MAIL_CATCHER_PORT);
   return nodemailer.createTransport({ host: "127.0.0.1", port: catcher.port, secure: false, ignoreTLS: true });
 }
 
@@ -57,15 +57,8 @@ export interface StoredMail {
 /** Messages kept by the local mail catcher, newest first, for admins; links are masked. */
 export async function listCaughtMail({ actor }: Caller, limit = 100): Promise<StoredMail[]> {
   authorize(actor, canReadOutbox, "read the mail outbox");
-  const dir = mailDir();
-  if (!fs.existsSync(dir)) return [];
-  const names = fs
-    .readdirSync(dir)
-    .filter((n) => n.endsWith(".eml"))
-    .sort()
-    .reverse()
-    .slice(0, limit);
-  return (await Promise.all(names.map((name) => readStored(name)))).filter((m): m is StoredMail => m !== null);
+  const objects = (await objectStorage().list("mail/")).filter((o) => o.key.endsWith(".eml")).reverse().slice(0, limit);
+  return (await Promise.all(objects.map((o) => readStored(o.key.slice("mail/".length), o.modifiedAt)))).filter((m): m is StoredMail => m !== null);
 }
 
 /** One kept message for an admin, links masked; null when there is no such message. */
@@ -74,15 +67,21 @@ export async function readCaughtMail({ actor }: Caller, id: string): Promise<Sto
   return readStored(id);
 }
 
-async function readStored(id: string): Promise<StoredMail | null> {
+/** The time in a catcher name (2026-12-02T12-41-14-123Z-…), for a store that keeps no file times of its own. */
+function timeInName(id: string): Date | null {
+  const m = id.match(/^(\d{4}-\d{2}-\d{2})T(\d{2})-(\d{2})-(\d{2})-(\d{3})Z/);
+  return m ? new Date(`${m[1]}T${m[2]}:${m[3]}:${m[4]}.${m[5]}Z`) : null;
+}
+
+async function readStored(id: string, modifiedAt?: Date): Promise<StoredMail | null> {
   if (!/^[\w.-]+\.eml$/.test(id) || id.startsWith(".")) return null;
-  const file = path.join(mailDir(), id);
-  if (!fs.existsSync(file)) return null;
-  const parsed = await simpleParser(fs.readFileSync(file));
+  const raw = await objectStorage().get(`mail/${id}`);
+  if (!raw) return null;
+  const parsed = await simpleParser(raw);
   const addr = (a: typeof parsed.to) => (Array.isArray(a) ? a.map((x) => x.text).join(", ") : (a?.text ?? ""));
   return {
     id,
-    receivedAt: fs.statSync(file).mtime.toISOString(),
+    receivedAt: (timeInName(id) ?? modifiedAt ?? new Date()).toISOString(),
     from: parsed.from?.text ?? "",
     to: addr(parsed.to),
     subject: parsed.subject ?? "(no subject)",

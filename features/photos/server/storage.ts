@@ -1,9 +1,9 @@
 import "server-only";
 import fs from "node:fs/promises";
 import path from "node:path";
-import { dataDir } from "@/features/shared/env";
+import { objectStorage, type ObjectStorage } from "@/features/shared/server/object-storage";
 
-/** Where photo renditions live; the disk today, an object store later behind the same three calls. */
+/** Where photo renditions live: under uploads/ in the club's object storage (the data directory or a bucket). */
 export interface PhotoStorage {
   put(key: string, data: Buffer): Promise<void>;
   get(key: string): Promise<Buffer | null>;
@@ -36,6 +36,20 @@ export class DiskStorage implements PhotoStorage {
   }
 }
 
+/** Photo keys ("<report>/<id>-full.jpg") under uploads/ of the shared storage. */
+class PrefixedStorage implements PhotoStorage {
+  constructor(private readonly inner: ObjectStorage, private readonly prefix: string) {}
+  put(key: string, data: Buffer): Promise<void> {
+    return this.inner.put(this.prefix + key, data, "image/jpeg");
+  }
+  get(key: string): Promise<Buffer | null> {
+    return this.inner.get(this.prefix + key);
+  }
+  remove(key: string): Promise<void> {
+    return this.inner.remove(this.prefix + key);
+  }
+}
+
 export function photoStorage(): PhotoStorage {
-  return new DiskStorage(path.join(dataDir(), "uploads"));
+  return new PrefixedStorage(objectStorage(), "uploads/");
 }

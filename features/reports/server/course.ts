@@ -4,7 +4,8 @@ import { getDb, schema } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { publicBaseUrl } from "@/features/shared/env";
-import { sendMail } from "@/features/mail/server";
+import { queueMail } from "@/features/mail/server";
+import { kickJobs, registerJob } from "@/features/shared/server/jobs";
 import type { z } from "zod";
 import {
   concentrationFromMl,
@@ -266,9 +267,9 @@ const reminderText = {
 } as const;
 
 /**
- * Sends reminders that have fallen due. Each is claimed (sent_at set) before mailing, so two ticks
- * never send one twice; a failed send is released for the next tick. Due times live in the database,
- * so a restart loses none.
+ * Queues the mails of reminders that have fallen due. Each reminder is claimed (sent_at set) and its mail
+ * queued in one transaction, so two processes never queue one twice and a crash loses none; the mail job
+ * then retries until the mail server takes it. Returns how many were queued (and sends them before returning).
  */
 export async function runDueReminders(now = new Date()): Promise<number> {
   const db = await getDb();
@@ -279,33 +280,35 @@ export async function runDueReminders(now = new Date()): Promise<number> {
     .innerJoin(reports, eq(reports.id, reminders.reportId))
     .where(and(isNull(reminders.sentAt), lte(reminders.dueAt, now)))
     .limit(50);
-  let sent = 0;
+  let queued = 0;
   for (const r of due) {
-    const [claimed] = await db.update(reminders).set({ sentAt: now }).where(and(eq(reminders.id, r.id), isNull(reminders.sentAt))).returning({ id: reminders.id });
-    if (!claimed || r.status !== "draft") continue;
     const t = reminderText[r.kind as keyof typeof reminderText] ?? reminderText.outcome;
-    try {
-      await sendMail({
-        to: r.email,
-        subject: `Tanklore: ${t.subject}`,
-        text: `Hello ${r.name},\n\n${t.lead}\n\nOpen your course log: ${publicBaseUrl()}/reports/${r.reportId}\n\nWatch the fish closely after every dose, and be ready for a large, temperature-matched water change.\n\n— Tanklore`,
-      });
-      sent += 1;
-    } catch (err) {
-      console.error("A reminder could not be sent; it will be tried again.", err);
-      await db.update(reminders).set({ sentAt: null }).where(eq(reminders.id, r.id));
-    }
+    const took = await db.transaction(async (tx) => {
+      const [claimed] = await tx.update(reminders).set({ sentAt: now }).where(and(eq(reminders.id, r.id), isNull(reminders.sentAt))).returning({ id: reminders.id });
+      if (!claimed || r.status !== "draft") return false;
+      await queueMail(
+        {
+          to: r.email,
+          subject: `Tanklore: ${t.subject}`,
+          text: `Hello ${r.name},\n\n${t.lead}\n\nOpen your course log: ${publicBaseUrl()}/reports/${r.reportId}\n\nWatch the fish closely after every dose, and be ready for a large, temperature-matched water change.\n\n— Tanklore`,
+        },
+        tx,
+      );
+      return true;
+    });
+    if (took) queued += 1;
   }
-  return sent;
+  if (queued) await kickJobs(["mail"]);
+  return queued;
 }
 
-const store = globalThis as unknown as { __tankloreReminders?: NodeJS.Timeout };
+/** The reminder round runs every minute in whichever process claims it (features/shared/server/jobs.ts). */
+registerJob("reminders", {
+  everyMs: 60_000,
+  run: async (_payload, { now }) => {
+    await runDueReminders(now);
+  },
+});
 
-/** The in-process scheduler: checks for due reminders every minute. */
-export function startReminderScheduler(everyMs = 60_000): void {
-  if (store.__tankloreReminders) return;
-  store.__tankloreReminders = setInterval(() => {
-    runDueReminders().catch((err) => console.error("Reminder check failed:", err));
-  }, everyMs);
-  store.__tankloreReminders.unref();
-}
+/** Kept for callers of the old per-process timer: the job runner now runs the round. */
+export function startReminderScheduler(): void {}

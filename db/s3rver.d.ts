@@ -1,0 +1,16 @@
+// s3rver ships no types; the part db/s3-local.ts uses.
+declare module "s3rver" {
+  interface S3rverOptions {
+    port?: number;
+    address?: string;
+    directory: string;
+    silent?: boolean;
+    resetOnClose?: boolean;
+    configureBuckets?: { name: string; configs: (string | Buffer)[] }[];
+  }
+  export default class S3rver {
+    constructor(options: S3rverOptions);
+    run(): Promise<{ address: string; port: number }>;
+    close(): Promise<void>;
+  }
+}
