@@ -146,16 +146,29 @@ async function startServer(dir: string): Promise<Server> {
 async function stopServer(s: Server): Promise<void> {
   const pids = treeOf(s.pid).map((p) => p.pid);
   s.child.kill("SIGTERM");
-  for (let i = 0; i < 100 && pids.some(alive); i++) await sleep(100);
+  for (let i = 0; i < 300 && pids.some(alive); i++) await sleep(100);
   for (const pid of pids.filter(alive)) process.kill(pid, "SIGKILL"); // only the processes this bench started
+  for (let i = 0; i < 300 && pids.some(alive); i++) await sleep(100);
 }
+/** Alive and not a zombie waiting to be reaped (which holds no lock any more). */
 function alive(pid: number) {
   try {
-    process.kill(pid, 0);
-    return true;
+    return !/\) Z /.test(fs.readFileSync(`/proc/${pid}/stat`, "utf8"));
   } catch {
     return false;
   }
+}
+
+/** Waits until /api/health/live answers ten times in a row within 250 ms (a start-up recompute may hold it). */
+async function settle(s: Server): Promise<number> {
+  const t0 = performance.now();
+  let streak = 0;
+  while (streak < 10 && performance.now() - t0 < 600_000) {
+    const r = await get(`${s.base}/api/health/live`).catch(() => ({ ms: Infinity }));
+    streak = r.ms < 250 ? streak + 1 : 0;
+    await sleep(100);
+  }
+  return Math.round(performance.now() - t0);
 }
 
 /** One GET read to the end: status, bytes of body (as sent, with or without gzip), ms. */
@@ -275,7 +288,7 @@ async function measureWrites(s: Server, member: string, moderator: string) {
     water: { volume: 40, volumeUnit: "L", temperature: 25, temperatureUnit: "C", ph: 7.0, setting: "bare" },
     treatment: { agentSlug: AGENT, stockPercent: 3, stockBasis: "w/v", amountMl: 20 + (i % 20), doses: 3, intervalHours: 48 },
     outcome: { fishLost: 0, lossCause: null, distress: "mild", condition: "cleared", observedDaysAfter: 7, notes: `Bench report ${i}.` },
-    showName: false,
+    showName: false, submit: true,
   });
   const N = 20;
   const ids: string[] = [];
@@ -369,6 +382,13 @@ async function runOne(reports: number) {
     const rc = res.recompute;
     log(`  recompute of ${group} (${rc.reportsInGroup} reports, ${rc.fittedSets} fitted condition sets): ${rc.recomputeMs.median} ms (min ${rc.recomputeMs.min}); bare SQL aggregate ${rc.bareMs.median} ms (min ${rc.bareMs.min}); ` +
       `ratio median ${rc.ratio.median} (min ${rc.ratio.min}); dose–response aggregate + fits ${rc.doseResponseMs.median} ms, its SQL alone ${rc.doseSqlMs.median} ms`);
+    const diskOf = async () => {
+      const [{ size }] = rowsOf(await db.execute(sql`select pg_database_size(current_database())::bigint as size`)) as [{ size: number }];
+      const disk = dirBytes(dir, "pg_wal");
+      return { dataDirMb: r1(disk.total / 1024 ** 2), walMb: r1(disk.sub / 1024 ** 2), databaseMb: r1(Number(size) / 1024 ** 2), ratio: r3(disk.total / Number(size)) };
+    };
+    res.diskAfterSeed = await diskOf();
+    log(`  after seeding: data directory ${res.diskAfterSeed.dataDirMb} MB (write-ahead log ${res.diskAfterSeed.walMb} MB) for ${res.diskAfterSeed.databaseMb} MB of database`);
     await closeDb();
     if (RECOMPUTE_ONLY) return res;
 
@@ -376,6 +396,8 @@ async function runOne(reports: number) {
     res.startupMs = Math.round(server.startupMs);
     res.liveAfterMs = Math.round(server.liveMs);
     log(`  start-up (npm start → /api/health 200): ${res.startupMs} ms (first /api/health/live after ${res.liveAfterMs} ms)`);
+    res.settleMs = await settle(server);
+    log(`  then ${res.settleMs} ms until /api/health/live answered ten times in a row within 250 ms`);
     try {
       const [admin, moderator, member] = await Promise.all(benchPeople.map((p) => signIn(server.base, p.email)));
       const routes = {
@@ -385,15 +407,22 @@ async function runOne(reports: number) {
         groupPage: `/evidence/${group}?agent=${AGENT}`,
         evidenceIndex: `/evidence?agent=${AGENT}`,
       };
-      res.routes = await measureRoutes(server, routes);
-      res.writes = await measureWrites(server, member!, moderator!);
-      log(`  submit ${res.writes.submitMs.median} ms, accept ${res.writes.acceptMs.median} ms, return ${res.writes.returnMs.median} ms (medians)`);
+      // Each phase on its own: one that fails is reported with its error, and the others still run.
+      const phase = async (name: string, fn: () => Promise<unknown>, say: (r: any) => string) => {
+        try {
+          res[name] = await fn();
+          log(say(res[name]));
+        } catch (err) {
+          res[name] = { error: err instanceof Error ? err.message.slice(0, 300) : String(err) };
+          log(`  ${name} FAILED: ${res[name].error}`);
+        }
+      };
+      await phase("routes", () => measureRoutes(server, routes), () => "  routes measured");
+      await phase("writes", () => measureWrites(server, member!, moderator!), (w) => `  submit ${w.submitMs.median} ms, accept ${w.acceptMs.median} ms, return ${w.returnMs.median} ms (medians)`);
       await sleep(2000); // let the evidence worker finish the accepts' recomputes
-      res.import = await measureImport(server, admin!);
-      log(`  import of ${res.import.rows} rows: ${(res.import.ms / 1000).toFixed(1)} s; longest /api/health/live wait ${res.import.longestLiveMs} ms (${res.import.liveFailures} failed), /api/summaries ${res.import.longestSummariesMs} ms`);
+      await phase("import", () => measureImport(server, admin!), (i) => `  import of ${i.rows} rows: ${(i.ms / 1000).toFixed(1)} s; longest /api/health/live wait ${i.longestLiveMs} ms (${i.liveFailures} failed), /api/summaries ${i.longestSummariesMs} ms`);
       await sleep(2000);
-      res.export = await measureExport(server, moderator!);
-      log(`  export of ${res.export.rows} reports (${res.export.mb} MB): ${(res.export.ms / 1000).toFixed(1)} s; server tree RSS peak ${res.export.peakTreeRssMb} MB; longest liveness wait ${res.export.longestLiveMs} ms`);
+      await phase("export", () => measureExport(server, moderator!), (e) => `  export of ${e.rows} reports (${e.mb} MB): ${(e.ms / 1000).toFixed(1)} s; server tree RSS peak ${e.peakTreeRssMb} MB; longest liveness wait ${e.longestLiveMs} ms`);
     } catch (err) {
       console.error(`  the server's last output:\n${server.log()}`);
       throw err;
@@ -439,7 +468,7 @@ const table = [
   row("seed; every summary recomputed (s)", (r) => `${r.seedS}; ${r.recomputeAllS}`),
   row("recompute vs bare aggregate, ms (median)", (r) => `${r.recompute.recomputeMs.median} vs ${r.recompute.bareMs.median}`),
   row("recompute ratio (median, min)", (r) => `${r.recompute.ratio.median}, ${r.recompute.ratio.min}`),
-  row("start-up ms", (r) => `${r.startupMs}`),
+  row("start-up ms; then until liveness is prompt", (r) => `${r.startupMs}; ${r.settleMs}`),
   row("trivial: req/s (min–median); CPU ms/req", (r) => `${r.routes.trivial.rps.min}–${r.routes.trivial.rps.median}; ${r.routes.trivial.cpuMsPerReq}`),
   ...route("summaries", "summaries list"),
   ...route("groupApi", "group API"),
@@ -448,8 +477,9 @@ const table = [
   row("group API / page bytes (gzip)", (r) => `${r.routes.groupApi.bytes} (${r.routes.groupApi.gzipBytes}) / ${r.routes.groupPage.bytes} (${r.routes.groupPage.gzipBytes})`),
   row("submit / accept / return ms (median)", (r) => `${r.writes.submitMs.median} / ${r.writes.acceptMs.median} / ${r.writes.returnMs.median}`),
   row("import 10k: s; longest live wait ms", (r) => `${r1(r.import.ms / 1000)}; ${r.import.longestLiveMs} (${r.import.liveFailures} failed)`),
-  row("export: s; peak server RSS MB", (r) => `${r1(r.export.ms / 1000)}; ${r.export.peakTreeRssMb}`),
-  row("data dir / database MB (ratio)", (r) => `${r.disk.dataDirMb} / ${r.disk.databaseMb} (${r.disk.ratio})`),
+  row("export: s; peak server RSS MB; longest live wait ms", (r) => `${r1(r.export.ms / 1000)}; ${r.export.peakTreeRssMb}; ${r.export.longestLiveMs}`),
+  row("data dir / database MB (ratio), after seeding", (r) => `${r.diskAfterSeed.dataDirMb} / ${r.diskAfterSeed.databaseMb} (${r.diskAfterSeed.ratio})`),
+  row("data dir / database MB (ratio), at the end", (r) => `${r.disk.dataDirMb} / ${r.disk.databaseMb} (${r.disk.ratio}); WAL ${r.disk.walMb}`),
 ];
 log(`\nMachine: ${before.cpu}, ${before.memoryGb} GB, Node ${before.node}; load average ${before.loadAverage.join(" ")} at the start, ${after.loadAverage.join(" ")} at the end.`);
 log(table.join("\n"));

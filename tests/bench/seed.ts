@@ -40,7 +40,8 @@ export async function seedBench(db: Db, reports: number, log: (s: string) => voi
 }
 
 function insertChunk(lo: number, hi: number) {
-  // u1, u2: two independent uniforms in [0, 1) per row. dose: 851 distinct values 5.0–90.0 mg/L.
+  // u1, u2: two independent uniforms in [0, 1) per row. dose: 851 distinct values 5.0–90.0 mg/L. All float8:
+  // numeric exp/log cost milliseconds a row.
   // Risk: logit = 6·log10(dose / d50) with d50 = 40 + 4·(k − 1) mg/L for the k-th group.
   return sql`
     with g as (select slug, row_number() over (order by slug) as k from species_groups),
@@ -48,10 +49,10 @@ function insertChunk(lo: number, hi: number) {
          x as (select i,
                       (hashint8(i)::float8 + 2147483648) / 4294967296 as u1,
                       (hashint8(i + 1000000007)::float8 + 2147483648) / 4294967296 as u2,
-                      5 + ((i * 7919) % 851) / 10.0 as dose
+                      5 + ((i * 7919) % 851)::float8 / 10 as dose
                  from generate_series(${lo}::bigint, ${hi}::bigint) i),
          y as (select x.*, g.slug as group_slug, s.id as species_id,
-                      x.u1 < 1 / (1 + exp(-6 * log(x.dose / (40 + 4 * (g.k - 1))))) as adverse
+                      x.u1 < 1 / (1 + exp(-6 * log(x.dose / (40 + 4 * (g.k - 1))::float8))) as adverse
                  from x
                  join g on g.k = 1 + x.i % 15
                  join s on s.group_slug = g.slug and s.k = 1 + (x.i / 15) % s.n)
