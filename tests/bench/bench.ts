@@ -71,7 +71,11 @@ const stats = (xs: number[]) => ({ min: r1(minOf(xs)), median: r1(median(xs)), m
 // ---------------------------------------------------------------- recompute vs its bare SQL aggregate (in process)
 async function measureRecompute(group: string) {
   const { getDb } = await import("@/db/client");
-  const { recomputeGroupAgent, summarySql, toleratedCountsSql, doseResponses, doseTrialsSql } = await import("@/features/evidence/server");
+  const evidence = await import("@/features/evidence/server");
+  const { recomputeGroupAgent, summarySql, toleratedCountsSql, doseTrialsSql } = evidence;
+  // pairFiguresSql: the one statement the recompute is fed by (where this tree has it; older trees fed the
+  // recompute with two statements, the summary statement and the dose aggregate).
+  const pairFiguresSql = (evidence as Record<string, unknown>).pairFiguresSql as ((g: string, a: string, e: number[]) => ReturnType<typeof summarySql>) | undefined;
   const { medianRank } = await import("@/features/evidence");
   const db = await getDb();
   const [{ band_edges: edges }] = rowsOf(await db.execute(sql`select band_edges from agents where slug = ${AGENT}`)) as [{ band_edges: number[] }];
@@ -82,13 +86,14 @@ async function measureRecompute(group: string) {
   }
   const tolerated = sql.raw("(not (coalesce(r.fish_lost, 0) > 0 and coalesce(r.loss_cause, 'unknown') in ('treatment', 'unknown')) and coalesce(r.distress, 'none') <> 'severe')");
   const acceptedHere = sql`r.status = 'accepted' and r.group_slug = ${group} and r.agent_slug = ${AGENT} and r.concentration is not null`;
-  // The bare SQL aggregate: the one statement that computes every published figure of the group (all conditions and
-  // each), run alone. The recompute: everything an accept sets off for the pair — settings, the reports by distinct
-  // dose, the dose–response fits of every condition set, assembling, and replacing the stored rows in a transaction.
+  // bare: the SQL aggregate the recompute is fed by, run alone. recompute: everything an accept sets off for the
+  // pair — settings, that aggregate, the dose–response fits of every condition set, assembling, and replacing the
+  // stored rows in a transaction under the pair's lock. Also timed alone, for comparison: the summary statement
+  // (every figure but the fit's input) and the dose aggregate (the fit's input) as separate scans.
   const steps = {
-    bare: () => db.execute(summarySql(group, AGENT, edges, ranks)),
+    bare: () => (pairFiguresSql ? db.execute(pairFiguresSql(group, AGENT, edges)) : Promise.all([db.execute(summarySql(group, AGENT, edges, ranks)), db.execute(doseTrialsSql(acceptedHere, tolerated))])),
     recompute: () => recomputeGroupAgent(db, group, AGENT),
-    doseResponse: () => doseResponses(db, acceptedHere, tolerated, 95),
+    summaryOnly: () => db.execute(summarySql(group, AGENT, edges, ranks)),
     doseSql: () => db.execute(doseTrialsSql(acceptedHere, tolerated)),
   };
   const names = Object.keys(steps) as (keyof typeof steps)[];
@@ -97,7 +102,7 @@ async function measureRecompute(group: string) {
   const PAIRS = 9;
   const ratios: number[] = [];
   for (let i = 0; i < PAIRS; i++) {
-    // Rotate the order so neither side always runs on a warmer cache.
+    // Rotate the order so no step always runs on a warmer cache.
     const order = names.map((_, k) => names[(k + i) % names.length]!);
     const t: Record<string, number> = {};
     for (const n of order) {
@@ -111,8 +116,8 @@ async function measureRecompute(group: string) {
   const [{ n }] = rowsOf(await db.execute(sql`select count(*)::int as n from reports where group_slug = ${group} and status = 'accepted'`)) as [{ n: number }];
   const [{ fitted }] = rowsOf(await db.execute(sql`select count(*) filter (where summary->'doseResponse'->>'bmd' is not null)::int as fitted from evidence_summaries where group_slug = ${group} and agent_slug = ${AGENT}`)) as [{ fitted: number }];
   return {
-    group, reportsInGroup: n, fittedSets: fitted,
-    bareMs: stats(times.bare), recomputeMs: stats(times.recompute), doseResponseMs: stats(times.doseResponse), doseSqlMs: stats(times.doseSql),
+    group, reportsInGroup: n, fittedSets: fitted, fedBy: pairFiguresSql ? "one statement (pairFiguresSql)" : "two statements (summarySql + doseTrialsSql)",
+    bareMs: stats(times.bare), recomputeMs: stats(times.recompute), summaryOnlyMs: stats(times.summaryOnly), doseSqlMs: stats(times.doseSql),
     ratio: { min: r3(minOf(ratios)), median: r3(median(ratios)) },
   };
 }
@@ -381,7 +386,7 @@ async function runOne(reports: number) {
     res.recompute = await measureRecompute(group);
     const rc = res.recompute;
     log(`  recompute of ${group} (${rc.reportsInGroup} reports, ${rc.fittedSets} fitted condition sets): ${rc.recomputeMs.median} ms (min ${rc.recomputeMs.min}); bare SQL aggregate ${rc.bareMs.median} ms (min ${rc.bareMs.min}); ` +
-      `ratio median ${rc.ratio.median} (min ${rc.ratio.min}); dose–response aggregate + fits ${rc.doseResponseMs.median} ms, its SQL alone ${rc.doseSqlMs.median} ms`);
+      `ratio median ${rc.ratio.median} (min ${rc.ratio.min}); fed by ${rc.fedBy}; alone: the summary statement ${rc.summaryOnlyMs.median} ms, the dose aggregate ${rc.doseSqlMs.median} ms`);
     const diskOf = async () => {
       const [{ size }] = rowsOf(await db.execute(sql`select pg_database_size(current_database())::bigint as size`)) as [{ size: number }];
       const disk = dirBytes(dir, "pg_wal");
