@@ -46,7 +46,7 @@ if (flag("cluster")) {
   await new Promise(() => {});
 }
 
-const REPORTS = (opt("reports") ?? process.env.BENCH_REPORTS ?? "10000,100000").split(/[,\s]+/).filter(Boolean).map(num);
+const REPORTS = opt("reuse") ? [0] : (opt("reports") ?? process.env.BENCH_REPORTS ?? "10000,100000").split(/[,\s]+/).filter(Boolean).map(num);
 const SECONDS = Number(opt("seconds") ?? 5);
 const ROUNDS = Number(opt("rounds") ?? 3);
 const CONNECTIONS = Number(opt("connections") ?? 10);
@@ -363,7 +363,9 @@ async function measureExport(s: Server, moderator: string) {
 
 // ---------------------------------------------------------------- one N
 async function runOne(reports: number) {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), "tanklore-bench-"));
+  // --reuse DIR: a data directory an earlier run seeded (and left behind); nothing is seeded and it is kept.
+  const reuse = opt("reuse");
+  const dir = reuse ? path.resolve(reuse) : fs.mkdtempSync(path.join(os.tmpdir(), "tanklore-bench-"));
   process.env.DATA_DIR = dir;
   const { getDb, closeDb } = await import("@/db/client");
   const { recomputeAll } = await import("@/features/evidence/server");
@@ -372,10 +374,12 @@ async function runOne(reports: number) {
     log(`\n== ${reports.toLocaleString("en")} accepted reports (data in ${dir})`);
     const db = await getDb();
     let t = performance.now();
-    await seedBench(db, reports, log);
+    if (!reuse) await seedBench(db, reports, log);
+    else res.reports = Number((rowsOf(await db.execute(sql`select count(*)::int as n from reports where status = 'accepted'`))[0] as { n: number }).n);
     res.seedS = r1((performance.now() - t) / 1000);
     // The statistics a bulk load leaves stale are refreshed, as the app's own import does after its batches.
     t = performance.now();
+    if (reuse) log(`  reusing ${dir}: ${res.reports} accepted reports`);
     await db.execute(sql`analyze`);
     res.analyzeS = r1((performance.now() - t) / 1000);
     t = performance.now();
@@ -447,7 +451,7 @@ async function runOne(reports: number) {
     return res;
   } finally {
     await closeDb().catch(() => {});
-    fs.rmSync(dir, { recursive: true, force: true });
+    if (!reuse) fs.rmSync(dir, { recursive: true, force: true });
   }
 }
 
