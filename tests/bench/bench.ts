@@ -265,7 +265,7 @@ async function measureRoutes(s: Server, routes: Record<string, string>) {
     result[n] = {
       path: o.path, bytes: o.bytes, gzipBytes: o.gzipBytes,
       serialMs: stats(o.serialMs), cpuMsPerReqSerial: r1(median(o.cpuMsSerial)),
-      rps: { min: Math.round(minOf(o.rps)), median: Math.round(median(o.rps)) },
+      rps: { min: r1(minOf(o.rps)), median: r1(median(o.rps)) },
       ratioToTrivial: { min: r3(minOf(ratios)), median: r3(median(ratios)) },
       p50Ms: median(o.p50), p99Ms: median(o.p99), cpuMsPerReq: r3(median(o.cpuMsPerReq)), errors: o.errors,
     };
