@@ -4,7 +4,7 @@ import { getDb, schema, type Db } from "@/db/client";
 import { getClubSettings } from "@/features/catalogue/server";
 import { medianRank, wilson } from "../stats";
 import { announceEvidenceChange, invalidateSummaryCache } from "./cache";
-import { doseResponseOf, doseTrials } from "./dose-response";
+import { doseResponseOf, trialSetsFrom, type DoseTrials } from "./dose-response";
 import { METHOD_VERSION, type Band, type Summary, type SummaryDetail } from "../summary";
 
 const { evidenceSummaries, agents, speciesGroups } = schema;
@@ -80,6 +80,61 @@ export function summarySql(groupSlug: string, agentSlug: string, edges: number[]
            ${counts("")} as bn, ${counts(" and tol")} as bt, ${counts(" and clr")} as bc
       from base
      group by grouping sets ((), (cond))`;
+}
+
+/**
+ * Everything one group × agent's recompute reads, in one statement and one scan of its reports: the figures of
+ * summarySql for all conditions and each (but the median interval, which is read off the trials), and, on the
+ * all-conditions row, the reports by condition and distinct dose with their adverse and tolerated counts — the
+ * dose–response fit's input, from the same scan (a materialised CTE) instead of a second pass over the reports.
+ */
+export function pairFiguresSql(groupSlug: string, agentSlug: string, edges: number[]) {
+  const edgeArray = sql.raw(`array[${edges.map(Number).join(",")}]::float8[]`);
+  const buckets = Array.from({ length: edges.length + 1 }, (_, i) => i);
+  const counts = (extra: string) => sql.raw(`array[${buckets.map((b) => `count(*) filter (where bucket = ${b}${extra})::int`).join(", ")}]`);
+  return sql`
+    with base as materialized (
+      select coalesce(r.external_reporter, r.author_id) as author_id, r.fish_count, r.concentration as dose, coalesce(r.condition_slug, '') as cond,
+             ${TOLERATED} as tol, r.condition_outcome = 'cleared' as clr, width_bucket(r.concentration, ${edgeArray}) as bucket
+        from reports r
+       where ${accepted(groupSlug, agentSlug)}
+    ), trials as (
+      select cond, dose, count(*) filter (where not tol)::int as na, count(*) filter (where tol)::int as nt from base group by cond, dose
+    ), packed as (
+      select array_agg(cond) as tc, array_agg(dose) as td, array_agg(na) as tna, array_agg(nt) as tnt from trials
+    )
+    select grouping(cond) = 1 as whole, cond as c,
+           count(*)::int as reports,
+           count(distinct author_id)::int as members,
+           coalesce(sum(fish_count), 0)::int as fish,
+           count(*) filter (where tol)::int as tolerated,
+           percentile_cont(array[0, 0.1, 0.25, 0.5, 0.75, 0.9, 1]::float8[]) within group (order by dose) filter (where tol) as q,
+           min(dose) filter (where not tol) as lowest_adverse,
+           ${counts("")} as bn, ${counts(" and tol")} as bt, ${counts(" and clr")} as bc,
+           case when grouping(cond) = 1 then (select tc from packed) end as tc,
+           case when grouping(cond) = 1 then (select td from packed) end as td,
+           case when grouping(cond) = 1 then (select tna from packed) end as tna,
+           case when grouping(cond) = 1 then (select tnt from packed) end as tnt
+      from base
+     group by grouping sets ((), (cond))`;
+}
+
+/** x₍r₎ and x₍n−r+1₎ of a set's tolerated doses (n = its tolerated count), or null without a median interval. */
+function medianIntervalOf(set: DoseTrials | undefined, level: number): number[] | null {
+  if (!set) return null;
+  const rank = medianRank(set.tolerated, level);
+  if (!rank) return null;
+  const byDose = set.trials.filter((t) => t.n - t.adverse > 0).sort((p, q) => p.dose - q.dose);
+  const nth = (k: number) => {
+    let seen = 0;
+    for (const t of byDose) {
+      seen += t.n - t.adverse;
+      if (seen >= k) return t.dose;
+    }
+    return null;
+  };
+  const low = nth(rank.r), high = nth(set.tolerated - rank.r + 1);
+  return low === null || high === null ? null : [low, high];
 }
 
 function bandsFrom(edges: number[], row: Row, level: number): Band[] {
@@ -214,19 +269,21 @@ export async function lockPair(tx: Runner, groupSlug: string, agentSlug: string)
  * replacement are one snapshot-consistent step. Returns how many summary rows it stored.
  */
 export async function replacePairFigures(tx: Runner, groupSlug: string, agentSlug: string, s: Settings): Promise<number> {
-  const [agent] = await tx.select({ bandEdges: agents.bandEdges }).from(agents).where(eq(agents.slug, agentSlug));
-  const [group] = await tx.select({ slug: speciesGroups.slug, name: speciesGroups.name }).from(speciesGroups).where(eq(speciesGroups.slug, groupSlug));
-  if (!agent || !group) return 0;
-  const edges = [...agent.bandEdges].sort((a, b) => a - b);
-  // First the reports by distinct dose per condition set (the dose–response fit's trials), whose tolerated counts
-  // are the n the median ranks need; then every other figure in one statement.
-  const sets = await doseTrials(tx, accepted(groupSlug, agentSlug), TOLERATED);
-  const ranks = new Map<string, { r: number; n: number }>();
-  for (const [key, { tolerated }] of sets) {
-    const rank = medianRank(tolerated, s.confidenceLevel);
-    if (rank) ranks.set(key, { r: rank.r, n: tolerated });
-  }
-  const rows = rowsOf<Row>(await tx.execute(summarySql(groupSlug, agentSlug, edges, ranks)));
+  // The agent's band edges and the group's name in one round trip: no row when either is missing.
+  const [pair] = await tx
+    .select({ bandEdges: agents.bandEdges, slug: speciesGroups.slug, name: speciesGroups.name })
+    .from(agents)
+    .innerJoin(speciesGroups, eq(speciesGroups.slug, groupSlug))
+    .where(eq(agents.slug, agentSlug));
+  if (!pair) return 0;
+  const group = { slug: pair.slug, name: pair.name };
+  const edges = [...pair.bandEdges].sort((a, b) => a - b);
+  // One statement: every figure, and the reports by condition and distinct dose (the fit's trials, whose tolerated
+  // doses also give the median interval's order statistics).
+  const rows = rowsOf<Row & { tc: unknown[] | null; td: unknown[] | null; tna: unknown[] | null; tnt: unknown[] | null }>(await tx.execute(pairFiguresSql(groupSlug, agentSlug, edges)));
+  const whole = rows.find((r) => r.whole);
+  const sets = trialSetsFrom(whole?.tc ?? [], whole?.td ?? [], whole?.tna ?? [], whole?.tnt ?? []);
+  for (const row of rows) row.mi = medianIntervalOf(sets.get(row.whole ? "*all*" : (row.c ?? "")), s.confidenceLevel);
   const values = rows.map((row) => {
     const { bands, ...summary } = summaryFromRow(row, group, edges, s.confidenceLevel, s.minReports);
     return {

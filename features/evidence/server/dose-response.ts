@@ -40,6 +40,33 @@ export async function doseTrials(db: Pick<Db, "execute">, accepted: SQL, tolerat
   return sets;
 }
 
+/**
+ * The same trials as doseTrials, built from the rows of one aggregate by condition and distinct dose (parallel
+ * arrays: condition, dose, adverse count, tolerated count, in any order): each condition's own set, and the
+ * all-conditions set "*all*" as their sum per distinct dose. Counts are integers, so the sums are exact and the
+ * sets equal doseTrials' for the same reports (the fit sorts and merges by dose itself).
+ */
+export function trialSetsFrom(conds: unknown[], doses: unknown[], na: unknown[], nt: unknown[]): Map<string, DoseTrials> {
+  const sets = new Map<string, DoseTrials>();
+  const all = new Map<number, Trial>();
+  let allTolerated = 0;
+  for (let i = 0; i < conds.length; i++) {
+    const key = String(conds[i] ?? ""), dose = Number(doses[i]), adverse = Number(na[i]), tolerated = Number(nt[i]);
+    let set = sets.get(key);
+    if (!set) sets.set(key, (set = { trials: [], tolerated: 0 }));
+    set.trials.push({ dose, adverse, n: adverse + tolerated });
+    set.tolerated += tolerated;
+    const t = all.get(dose);
+    if (t) {
+      t.adverse += adverse;
+      t.n += adverse + tolerated;
+    } else all.set(dose, { dose, adverse, n: adverse + tolerated });
+    allTolerated += tolerated;
+  }
+  if (conds.length) sets.set("*all*", { trials: [...all.values()], tolerated: allTolerated });
+  return sets;
+}
+
 /** The fit for one condition set (`fit: null` with a reason when it has too few reports, or none). */
 export function doseResponseOf(sets: Map<string, DoseTrials>, key: string, level: number): DoseResponse {
   return fitDoseResponse(sets.get(key)?.trials ?? [], level);

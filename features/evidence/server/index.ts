@@ -1,5 +1,5 @@
 import "server-only";
-export { lockPair, recomputeGroupAgent, replacePairFigures, summarySql, toleratedCountsSql } from "./compute";
+export { lockPair, pairFiguresSql, recomputeGroupAgent, replacePairFigures, summarySql, toleratedCountsSql } from "./compute";
 export { drainEvidenceOutbox, recomputeAfterChange, recomputeAll, startEvidenceWorker, stopEvidenceWorker, type DrainResult } from "./worker";
 export { getEvidenceCatalogue, getSummaries, getSummaryDetail } from "./queries";
 export { evidenceCacheListening, evidenceCacheVersion, evidenceTags, startEvidenceCacheListener, stopEvidenceCacheListener } from "./cache";
