@@ -50,3 +50,55 @@ export const roleChangeSchema = z.object({
 export type Member = z.infer<typeof memberSchema>;
 export type MemberList = z.infer<typeof memberListSchema>;
 export type ListMembersQuery = z.infer<typeof listMembersQuerySchema>;
+
+// ---- Signing in and joining: the sign-in library's own limits, written once for its settings and the forms. ----
+
+/** better-auth's emailAndPassword.minPasswordLength / maxPasswordLength (features/members/server/auth.ts). */
+export const PASSWORD_MIN_LENGTH = 10;
+export const PASSWORD_MAX_LENGTH = 128;
+/** The auth gateway's field limits (features/members/server/auth-gateway.ts). */
+export const NAME_MAX_LENGTH = 100;
+export const EMAIL_MAX_LENGTH = 254;
+
+const emailField = z
+  .string({ error: "Give your e-mail address." })
+  .trim()
+  .min(1, "Give your e-mail address.")
+  .max(EMAIL_MAX_LENGTH, `An e-mail address is at most ${EMAIL_MAX_LENGTH} characters.`)
+  .pipe(z.email("That is not an e-mail address: check it for typos (it looks like name@example.org)."));
+const newPassword = z
+  .string({ error: `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.` })
+  .min(PASSWORD_MIN_LENGTH, `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.`)
+  .max(PASSWORD_MAX_LENGTH, `A password is at most ${PASSWORD_MAX_LENGTH} characters.`);
+const samePasswordTwice = (d: { password: string; confirm: string }) => d.password === d.confirm;
+const differ = { path: ["confirm"], message: "The two passwords differ. Type the same password twice." };
+
+export const signInSchema = z.object({
+  email: emailField,
+  // Any length: a password chosen under older limits still signs in.
+  password: z.string({ error: "Give your password." }).min(1, "Give your password."),
+});
+
+export const signUpSchema = z
+  .object({
+    name: z
+      .string({ error: "Give a display name." })
+      .trim()
+      .min(1, "Give a display name.")
+      .max(NAME_MAX_LENGTH, `A display name is at most ${NAME_MAX_LENGTH} characters.`),
+    email: emailField,
+    password: newPassword,
+    confirm: z.string(),
+  })
+  .refine(samePasswordTwice, differ);
+
+export const forgotPasswordSchema = z.object({ email: emailField });
+
+export const resetPasswordSchema = z
+  .object({ password: newPassword, confirm: z.string() })
+  .refine(samePasswordTwice, differ);
+
+export type SignInInput = z.infer<typeof signInSchema>;
+export type SignUpInput = z.infer<typeof signUpSchema>;
+export type ForgotPasswordInput = z.infer<typeof forgotPasswordSchema>;
+export type ResetPasswordInput = z.infer<typeof resetPasswordSchema>;

@@ -18,66 +18,71 @@ export const statusLabels: Record<ReportStatus, string> = {
   retracted: "Retracted",
 };
 
-const enumOf = <T extends readonly [string, ...string[]]>(values: T, field: string) =>
-  z.enum(values, { error: `${field} must be one of: ${values.join(", ")}.` });
-const int = (field: string, min: number, max: number) =>
+// Messages are shown to people as they are (the form uses these schemas too): plain words, no field names or codes;
+// the issue's path says which field. `missing` is the sentence for an answer not given at all.
+const n = (x: number) => x.toLocaleString("en-GB");
+const enumOf = <T extends readonly [string, ...string[]]>(values: T, what: string) => z.enum(values, { error: `Choose ${what}.` });
+const int = (field: string, min: number, max: number, missing?: string) =>
   z
-    .number({ error: `${field} must be a whole number.` })
+    .number({ error: (iss) => (iss.input === undefined && missing) || `${field} must be a whole number.` })
     .int(`${field} must be a whole number.`)
-    .min(min, `${field} must be at least ${min}.`)
-    .max(max, `${field} must be at most ${max}.`);
-const positive = (field: string, max: number) =>
-  z.number({ error: `${field} must be a number.` }).positive(`${field} must be above 0.`).max(max, `${field} must be at most ${max}.`);
+    .min(min, `${field} must be at least ${n(min)}.`)
+    .max(max, `${field} must be at most ${n(max)}.`);
+const positive = (field: string, max: number, missing?: string) =>
+  z
+    .number({ error: (iss) => (iss.input === undefined && missing) || `${field} must be a number.` })
+    .positive(`${field} must be above 0.`)
+    .max(max, `${field} must be at most ${n(max)}.`);
 const text = (field: string, max: number) => z.string({ error: `${field} must be text.` }).trim().max(max, `${field} is at most ${max} characters.`);
 
 /** A calendar date that is not in the future (a day's grace for time zones ahead of UTC). */
 export const pastDate = z
-  .string({ error: "startedOn must be a date, YYYY-MM-DD." })
-  .regex(/^\d{4}-\d{2}-\d{2}$/, "startedOn must be a date, YYYY-MM-DD.")
-  .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), "startedOn is not a real date.")
-  .refine((s) => Date.parse(`${s}T00:00:00Z`) <= Date.now() + 86_400_000, "startedOn cannot be in the future.")
-  .refine((s) => s >= "1990-01-01", "startedOn must be in 1990 or later.");
+  .string({ error: (iss) => (iss.input === undefined ? "Give the date the course started." : "Give the date as year-month-day (YYYY-MM-DD).") })
+  .regex(/^\d{4}-\d{2}-\d{2}$/, "Give the date as year-month-day (YYYY-MM-DD).")
+  .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), "That date is not on the calendar.")
+  .refine((s) => Date.parse(`${s}T00:00:00Z`) <= Date.now() + 86_400_000, "The course cannot start in the future.")
+  .refine((s) => s >= "1990-01-01", "Give a date in 1990 or later.");
 
 export const waterSchema = z.strictObject({
-  volume: positive("Water volume", 1_000_000),
-  volumeUnit: enumOf(volumeUnits, "volumeUnit"),
-  temperature: z.number({ error: "Temperature must be a number." }),
-  temperatureUnit: enumOf(temperatureUnits, "temperatureUnit"),
+  volume: positive("Water volume", 1_000_000, "Give the water volume."),
+  volumeUnit: enumOf(volumeUnits, "the unit of the volume"),
+  temperature: z.number({ error: (iss) => (iss.input === undefined ? "Give the water temperature." : "Temperature must be a number.") }),
+  temperatureUnit: enumOf(temperatureUnits, "°C or °F"),
   ph: z.number({ error: "pH must be a number." }).min(0, "pH is between 0 and 14.").max(14, "pH is between 0 and 14.").optional(),
-  setting: enumOf(settings, "setting"),
+  setting: enumOf(settings, "the kind of tank"),
 });
 
 export const treatmentSchema = z.strictObject({
   agentSlug: z.string({ error: "Choose the treatment agent." }).min(1, "Choose the treatment agent."),
   /** A catalogue stock form: only a named form's reading (e.g. a compound's active fraction) applies to the percentage. */
-  stockFormId: z.string().min(1, "stockFormId names one of the agent's stock forms from /api/catalogue.").nullable().optional(),
+  stockFormId: z.string().min(1, "Choose one of the listed bottles, or type the strength.").nullable().optional(),
   stockPercent: positive("Stock strength", 100).optional(),
-  stockBasis: z.enum(["w/v", "w/w"], { error: "stockBasis must be w/v or w/w." }).optional(),
-  stockDensityGPerMl: z.number().min(0.5, "Density is between 0.5 and 3 g/mL.").max(3, "Density is between 0.5 and 3 g/mL.").optional(),
+  stockBasis: z.enum(["w/v", "w/w"], { error: "Choose what the strength is of (w/v or w/w)." }).optional(),
+  stockDensityGPerMl: z.number({ error: "Density must be a number." }).min(0.5, "Density is between 0.5 and 3 g/mL.").max(3, "Density is between 0.5 and 3 g/mL.").optional(),
   amountMl: positive("Amount per dose", 100_000).optional(),
   statedConcentration: positive("Stated concentration", 100_000).optional(),
-  doses: int("Number of doses", 1, 100),
+  doses: int("Number of doses", 1, 100, "Give the number of doses."),
   intervalHours: positive("Hours between doses", 24 * 60).optional(),
   otherTreatments: text("Other treatments", 500).optional(),
 });
 
 export const outcomeSchema = z.strictObject({
-  fishLost: int("Fish lost", 0, 100_000),
-  lossCause: enumOf(lossCauses, "lossCause").nullable(),
-  distress: enumOf(distressLevels, "distress"),
-  condition: enumOf(conditionOutcomes, "condition"),
-  observedDaysAfter: int("Days watched", 0, 365),
+  fishLost: int("Fish lost", 0, 100_000, "Give the number of fish lost (0 if none)."),
+  lossCause: enumOf(lossCauses, "the likely cause of the losses").nullable(),
+  distress: enumOf(distressLevels, "the distress seen"),
+  condition: enumOf(conditionOutcomes, "how the condition ended"),
+  observedDaysAfter: int("Days watched", 0, 365, "Give the days watched after the last dose."),
   notes: text("Notes", 4000).optional(),
 });
 
 const base = {
-  speciesId: z.string({ error: "speciesId must be a catalogue id or null." }).min(1, "speciesId must be a catalogue id or null.").nullable(),
+  speciesId: z.string({ error: "Choose the species, or “not listed”." }).min(1, "Choose the species, or “not listed”.").nullable(),
   speciesOther: text("Species (not listed)", 200).optional(),
-  fishCount: int("Fish treated", 1, 100_000),
-  sizeClass: enumOf(sizeClasses, "sizeClass"),
+  fishCount: int("Fish treated", 1, 100_000, "Give the number of fish treated."),
+  sizeClass: enumOf(sizeClasses, "the size of the fish"),
   conditionSlug: z.string({ error: "Choose the condition treated." }).min(1, "Choose the condition treated."),
   startedOn: pastDate,
-  showName: z.boolean({ error: "showName must be true or false." }),
+  showName: z.boolean({ error: "Say whether to show your name (yes or no)." }),
 };
 
 type Ctx = z.RefinementCtx;
@@ -156,6 +161,29 @@ export const reportDraftSchema = z
   })
   .strict()
   .superRefine((r, ctx) => crossRules(r, ctx, false));
+
+/**
+ * The report form's five steps (the last, photos, has no fields): each step's fields of reportInputSchema, complete,
+ * with the cross rules that concern them, so the form checks a step by the server's own rules and messages.
+ * The outcome step also reads the fish treated (from the first step) for "fish lost cannot be more than treated".
+ */
+export const reportStepSchemas = [
+  z
+    .object({
+      speciesId: base.speciesId,
+      speciesOther: base.speciesOther,
+      fishCount: base.fishCount,
+      sizeClass: base.sizeClass,
+      conditionSlug: base.conditionSlug,
+      startedOn: base.startedOn,
+    })
+    .superRefine((r, ctx) => crossRules(r, ctx, true)),
+  z.object({ water: waterSchema }).superRefine((r, ctx) => crossRules(r, ctx, true)),
+  z.object({ treatment: treatmentSchema }).superRefine((r, ctx) => crossRules(r, ctx, true)),
+  z
+    .object({ outcome: outcomeSchema, showName: base.showName, fishCount: base.fishCount.optional() })
+    .superRefine((r, ctx) => crossRules(r, ctx, true)),
+] as const;
 
 export type ReportInput = z.infer<typeof reportInputSchema>;
 export type ReportDraft = z.infer<typeof reportDraftSchema>;

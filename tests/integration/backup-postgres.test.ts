@@ -2,9 +2,10 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { Readable } from "node:stream";
+import type { ReadableStream as NodeReadableStream } from "node:stream/web";
 import { pipeline } from "node:stream/promises";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { sql } from "drizzle-orm";
+import { sql, type SQL } from "drizzle-orm";
 import { drizzle } from "drizzle-orm/node-postgres";
 import pg from "pg";
 import * as backupRoute from "@/app/api/admin/backup/route";
@@ -45,7 +46,7 @@ describe("backup and restore on a PostgreSQL server", () => {
     "select * from evidence_summaries order by group_slug, agent_slug, condition_slug",
     "select * from club_settings",
   ];
-  const rowsOf = async (db: { execute: (q: any) => Promise<unknown> }, q: string) => ((await db.execute(sql.raw(q))) as { rows: unknown[] }).rows;
+  const rowsOf = async (db: { execute: (q: SQL) => Promise<unknown> }, q: string) => ((await db.execute(sql.raw(q))) as { rows: unknown[] }).rows;
 
   it("dumps a consistent snapshot while reports are filed, and restores it into an empty database", async () => {
     const admin = await signIn("admin@example.org", "pg-backup-password");
@@ -59,7 +60,7 @@ describe("backup and restore on a PostgreSQL server", () => {
     const res = await backupRoute.GET(new Request(`${BASE}/api/admin/backup`, { headers: { cookie: admin } }), { params: Promise.resolve({}) });
     expect(res.status).toBe(200);
     const file = path.join(scratch, "pg.tar.gz");
-    await pipeline(Readable.fromWeb(res.body as any), fs.createWriteStream(file));
+    await pipeline(Readable.fromWeb(res.body as NodeReadableStream), fs.createWriteStream(file));
     expect((await Promise.all(writes)).map((r) => r.status)).toEqual(Array(6).fill(201));
 
     const admin2 = new pg.Client({ connectionString: url });

@@ -3,6 +3,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { Readable } from "node:stream";
+import type { ReadableStream as NodeReadableStream } from "node:stream/web";
 import { pipeline } from "node:stream/promises";
 import { promisify } from "node:util";
 import zlib from "node:zlib";
@@ -63,7 +64,7 @@ async function downloadBackup(cookie: string, name: string): Promise<string> {
   expect(res.headers.get("content-type")).toBe("application/gzip");
   expect(res.headers.get("content-disposition")).toMatch(/^attachment; filename="tanklore-backup-.+\.tar\.gz"$/);
   const file = path.join(scratch, name);
-  await pipeline(Readable.fromWeb(res.body as any), fs.createWriteStream(file));
+  await pipeline(Readable.fromWeb(res.body as NodeReadableStream), fs.createWriteStream(file));
   return file;
 }
 
@@ -190,7 +191,7 @@ describe("GET /api/admin/backup", () => {
       const rows = (await read("select r.id, r.status, (select count(*)::int from report_events e where e.report_id = r.id) as events from reports r order by r.id")) as { id: string }[];
       expect(rows).toHaveLength(manifest.counts.reports);
       // Each report in the archive is whole: the rows of one change are all there or not at all.
-      const live = new Map((await liveRows("select r.id, r.status, (select count(*)::int from report_events e where e.report_id = r.id) as events from reports r")).map((r: any) => [r.id, r]));
+      const live = new Map((await liveRows("select r.id, r.status, (select count(*)::int from report_events e where e.report_id = r.id) as events from reports r")).map((r) => [(r as { id: string }).id, r]));
       for (const r of rows) expect(r).toEqual(live.get(r.id));
     });
   }, 300_000);
@@ -263,7 +264,7 @@ describe("PATCH /api/admin/settings", () => {
     expect(bad.body.error.issues).toEqual([{ path: "nightlyBackup", message: "nightlyBackup must be true or false." }]);
     const unknown = await patch(admin, { nightlyBakup: true });
     expect(unknown.status).toBe(422);
-    expect(unknown.body.error.issues.map((i: any) => i.message).join(" ")).toMatch(/nightlyBakup/);
+    expect(unknown.body.error.issues.map((i: { message: string }) => i.message).join(" ")).toMatch(/nightlyBakup/);
     expect((await patch(admin, {})).body.error.issues).toEqual([{ path: "(body)", message: "Send at least one setting to change." }]);
     expect((await patch(admin, { confidenceLevel: 97 })).body.error.issues[0]).toMatchObject({ path: "confidenceLevel" });
     expect((await patch(admin, "{not json")).status).toBe(400);

@@ -9,6 +9,7 @@ import * as catalogueKeyRoute from "@/app/api/admin/catalogue/[kind]/[key]/route
 import { getDb } from "@/db/client";
 import { seedCatalogue, updateClubSettings } from "@/features/catalogue/server";
 import { drainEvidenceOutbox, startEvidenceWorker, stopEvidenceWorker } from "@/features/evidence/server";
+import type { SummaryDetail } from "@/features/evidence/summary";
 import { call } from "../support/http";
 import { reportBody, signedInUser } from "../support/factories";
 
@@ -109,7 +110,7 @@ async function acceptedRows(): Promise<Row[]> {
   }));
 }
 
-function expectEqualToReference(s: any, ref: ReturnType<typeof reference>) {
+function expectEqualToReference(s: SummaryDetail, ref: ReturnType<typeof reference>) {
   expect(s).toMatchObject({ reports: ref.reports, members: ref.members, fish: ref.fish, tolerated: ref.tolerated, lowestAdverseDose: ref.lowestAdverseDose });
   expect(s.toleratedShare.value).toBe(ref.toleratedShare.value);
   expect(s.toleratedShare.low).toBeCloseTo(ref.toleratedShare.low, 12);

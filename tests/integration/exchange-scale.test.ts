@@ -63,7 +63,8 @@ describe("importing at scale and refusing bad cells", () => {
     expect(res.headers.get("content-type")).toMatch(/^application\/x-ndjson/);
 
     const reader = res.body!.pipeThrough(new TextDecoderStream()).getReader();
-    const messages: any[] = [];
+    // Each line of the stream, as the client would parse it: progress, then the result.
+    const messages: { progress?: { phase: string; done: number; total: number }; result?: unknown }[] = [];
     let buffer = "";
     let readDuringWrite: Promise<{ status: number; ms: number; settledBeforeEnd: boolean }> | null = null;
     let ended = false;
@@ -86,9 +87,9 @@ describe("importing at scale and refusing bad cells", () => {
     ended = true;
     const writing = messages.filter((m) => m.progress?.phase === "writing");
     expect(writing).toHaveLength(Math.ceil(rows / IMPORT_BATCH));
-    expect(writing.at(-1).progress).toEqual({ phase: "writing", done: rows, total: rows });
+    expect(writing.at(-1)?.progress).toEqual({ phase: "writing", done: rows, total: rows });
     expect(messages.some((m) => m.progress?.phase === "checking")).toBe(true);
-    expect(messages.at(-1).result).toMatchObject({ imported: rows, skipped: 0, rejected: [] });
+    expect(messages.at(-1)?.result).toMatchObject({ imported: rows, skipped: 0, rejected: [] });
     expect(await importedCount()).toBe(before + rows);
 
     const read = await readDuringWrite!;

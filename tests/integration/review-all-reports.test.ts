@@ -11,7 +11,7 @@ type U = Awaited<ReturnType<typeof signedInUser>>;
 let wren: U, otto: U, mod: U, admin: U;
 const ids: Record<string, string> = {};
 
-async function file(author: U, over: Record<string, any>) {
+async function file(author: U, over: Record<string, unknown>) {
   const r = await call(reportsRoute.POST, "/api/reports", { body: reportBody({ ...over, submit: true }), cookie: author.cookie });
   expect(r.status).toBe(201);
   return r.body.id as string;

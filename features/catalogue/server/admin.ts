@@ -1,5 +1,6 @@
 import "server-only";
 import { count, desc, eq } from "drizzle-orm";
+import type { PgColumn, PgTable } from "drizzle-orm/pg-core";
 import type { z } from "zod";
 import { getDb, schema, type Db } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
@@ -16,20 +17,25 @@ function assertAdmin(actor: Actor | null): asserts actor is Actor {
   if (!canManageCatalogue(actor)) throw new AppError("forbidden", "Only club officers (admins) may change the catalogue.");
 }
 
-const tables = {
-  groups: { table: speciesGroups, key: speciesGroups.slug, keyOf: (v: any) => v.slug as string, used: reports.groupSlug },
-  species: { table: species, key: species.id, keyOf: (v: any) => speciesIdOf(v.scientificName), used: reports.speciesId },
-  agents: { table: agents, key: agents.slug, keyOf: (v: any) => v.slug as string, used: reports.agentSlug },
-  conditions: { table: conditions, key: conditions.slug, keyOf: (v: any) => v.slug as string, used: reports.conditionSlug },
-  "stock-forms": { table: stockForms, key: stockForms.id, keyOf: (v: any) => v.id as string, used: null },
-} as const;
+type Fields = Record<string, unknown>;
+/**
+ * Drizzle's builders take one table type, not a union of five; each kind's values were checked by its own
+ * schema in catalogueInputs, so the table is handled as a plain PgTable here.
+ */
+const tables: Record<CatalogueKind, { table: PgTable; key: PgColumn; keyOf: (v: Fields) => string; used: PgColumn | null }> = {
+  groups: { table: speciesGroups, key: speciesGroups.slug, keyOf: (v: Fields) => String(v.slug), used: reports.groupSlug },
+  species: { table: species, key: species.id, keyOf: (v: Fields) => speciesIdOf(String(v.scientificName)), used: reports.speciesId },
+  agents: { table: agents, key: agents.slug, keyOf: (v: Fields) => String(v.slug), used: reports.agentSlug },
+  conditions: { table: conditions, key: conditions.slug, keyOf: (v: Fields) => String(v.slug), used: reports.conditionSlug },
+  "stock-forms": { table: stockForms, key: stockForms.id, keyOf: (v: Fields) => String(v.id), used: null },
+};
 
 /** Every entry of a kind, hidden ones too, with how many reports use it. */
 export async function listCatalogue(actor: Actor | null, kind: CatalogueKind) {
   assertAdmin(actor);
   const db = await getDb();
   const t = tables[kind];
-  const rows = (await db.select().from(t.table as any)) as Record<string, unknown>[];
+  const rows = (await db.select().from(t.table)) as Record<string, unknown>[];
   const usage = new Map<string, number>();
   if (t.used) {
     const u = await db.select({ k: t.used, n: count() }).from(reports).groupBy(t.used);
@@ -60,13 +66,13 @@ export async function createCatalogueEntry<K extends CatalogueKind>(actor: Actor
   assertAdmin(actor);
   const db = await getDb();
   const t = tables[kind];
-  const key = t.keyOf(input);
+  const key = t.keyOf(input as Fields);
   await checkRefs(kind, input as Record<string, unknown>);
-  const [existing] = await db.select().from(t.table as any).where(eq(t.key, key));
+  const [existing] = await db.select().from(t.table).where(eq(t.key, key));
   if (existing) throw new AppError("conflict", `There is already an entry "${key}"; edit it instead.`);
   const values = kind === "species" ? { ...input, id: key } : input;
   await db.transaction(async (tx) => {
-    await tx.insert(t.table as any).values(values as any);
+    await tx.insert(t.table).values(values);
     await record(actor.id, kind, key, "create", null, values, tx);
     // A new preset: the agent's summaries are recomputed with the change (as every stock-form change).
     if (kind === "stock-forms") await enqueueEvidenceRecomputeWhere(tx, { agentSlugs: [String((input as Record<string, unknown>).agentSlug)] });
@@ -79,7 +85,7 @@ export async function updateCatalogueEntry<K extends CatalogueKind>(actor: Actor
   assertAdmin(actor);
   const db = await getDb();
   const t = tables[kind];
-  const [before] = (await db.select().from(t.table as any).where(eq(t.key, key))) as Record<string, unknown>[];
+  const [before] = (await db.select().from(t.table).where(eq(t.key, key))) as Record<string, unknown>[];
   if (!before) throw notFound("That catalogue entry");
   const { slug: _s, id: _i, scientificName: _n, ...changes } = patch as Record<string, unknown>;
   if (Object.keys(changes).length === 0) throw new AppError("invalid", "Nothing to change.", [{ path: "(body)", message: "Send at least one field to change (keys cannot change; add a new entry and merge instead)." }]);
@@ -93,7 +99,7 @@ export async function updateCatalogueEntry<K extends CatalogueKind>(actor: Actor
     : movedGroup ? { groupSlugs: [String(before.groupSlug), String(changes.groupSlug)] }
     : null;
   await db.transaction(async (tx) => {
-    await tx.update(t.table as any).set(changes as any).where(eq(t.key, key));
+    await tx.update(t.table).set(changes).where(eq(t.key, key));
     await record(actor.id, kind, key, "update", before, changes, tx);
     if (movedGroup) await tx.update(reports).set({ groupSlug: String(changes.groupSlug) }).where(eq(reports.speciesId, key));
     if (stale) await enqueueEvidenceRecomputeWhere(tx, stale);
@@ -107,7 +113,7 @@ export async function deleteCatalogueEntry(actor: Actor | null, kind: CatalogueK
   assertAdmin(actor);
   const db = await getDb();
   const t = tables[kind];
-  const [before] = await db.select().from(t.table as any).where(eq(t.key, key));
+  const [before] = await db.select().from(t.table).where(eq(t.key, key));
   if (!before) throw notFound("That catalogue entry");
   if (t.used) {
     const [u] = await db.select({ n: count() }).from(reports).where(eq(t.used, key));
@@ -120,7 +126,7 @@ export async function deleteCatalogueEntry(actor: Actor | null, kind: CatalogueK
   if (kind === "agents") {
     await db.delete(stockForms).where(eq(stockForms.agentSlug, key));
   }
-  await db.delete(t.table as any).where(eq(t.key, key));
+  await db.delete(t.table).where(eq(t.key, key));
   await record(actor.id, kind, key, "delete", before, null);
   return { key, deleted: true };
 }

@@ -2,23 +2,29 @@
 
 import Link from "next/link";
 import { useRouter, useSearchParams } from "next/navigation";
-import { useId, useState, type FormEvent, type ReactNode } from "react";
+import { useId, useState, type InputHTMLAttributes, type ReactNode } from "react";
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useForm, type FieldError, type UseFormRegisterReturn } from "react-hook-form";
 import { authClient } from "../auth-client";
+import { forgotPasswordSchema, PASSWORD_MIN_LENGTH, resetPasswordSchema, signInSchema, signUpSchema } from "../schemas";
 import { Button, Field, Notice, TextInput } from "@/features/shared/components/ui";
 
 // better-auth's own errors are { code, message }; the app's limits answer in its envelope { error: { code, message } }.
-type Failure = { status?: number; message?: string; code?: string; error?: { code?: string; message?: string } } | null | undefined;
+type Failure =
+  { status?: number; message?: string; code?: string; error?: { code?: string; message?: string } } | null | undefined;
 
 /** Turns better-auth's error into a sentence a person can act on. */
 function explain(err: Failure, context: "sign-in" | "sign-up" | "reset"): string {
   if (!err) return "Something went wrong. Try again.";
-  if (err.status === 429) return err.error?.message ?? "Too many attempts in a short time. Wait a few seconds, then try again.";
-  if (context === "sign-in" && err.status === 401) return "That e-mail and password do not match an account. Check both and try again.";
+  if (err.status === 429)
+    return err.error?.message ?? "Too many attempts in a short time. Wait a few seconds, then try again.";
+  if (context === "sign-in" && err.status === 401)
+    return "That e-mail and password do not match an account. Check both and try again.";
   if (context === "sign-in" && err.status === 403)
     return "Confirm your e-mail address first: we have sent you a new confirmation link.";
   if (err.code === "USER_ALREADY_EXISTS" || err.code === "USER_ALREADY_EXISTS_USE_ANOTHER_EMAIL")
     return "An account with that e-mail address already exists. Sign in, or reset the password.";
-  if (err.code === "PASSWORD_TOO_SHORT") return "Choose a password of at least 10 characters.";
+  if (err.code === "PASSWORD_TOO_SHORT") return `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.`;
   if (err.code === "INVALID_TOKEN") return "This reset link has expired or was already used. Ask for a new one.";
   return err.message ?? err.error?.message ?? "Something went wrong. Try again.";
 }
@@ -28,20 +34,62 @@ function explain(err: Failure, context: "sign-in" | "sign-up" | "reset"): string
  * plainly (confirmed) or with `error=<CODE>` (TOKEN_EXPIRED, INVALID_TOKEN, USER_NOT_FOUND, INVALID_USER): an error
  * always wins over the `verified` marker that the callbackURL itself carries.
  */
-function verificationOutcome(params: URLSearchParams): { tone: "info" | "alarm"; title: string; body: ReactNode } | null {
+function verificationOutcome(
+  params: URLSearchParams,
+): { tone: "info" | "alarm"; title: string; body: ReactNode } | null {
   const error = params.get("error");
   if (error) {
     const code = error.toUpperCase();
     if (code === "TOKEN_EXPIRED")
-      return { tone: "alarm", title: "This confirmation link has expired", body: <>Your address is not confirmed yet. Links work for one hour: sign in below with your e-mail and password, and we send you a fresh link.</> };
+      return {
+        tone: "alarm",
+        title: "This confirmation link has expired",
+        body: (
+          <>
+            Your address is not confirmed yet. Links work for one hour: sign in below with your e-mail and password, and
+            we send you a fresh link.
+          </>
+        ),
+      };
     if (code === "USER_NOT_FOUND")
-      return { tone: "alarm", title: "This confirmation link has no account", body: <>The account it was sent for no longer exists. <Link href="/sign-up">Join again</Link> to get a new link.</> };
+      return {
+        tone: "alarm",
+        title: "This confirmation link has no account",
+        body: (
+          <>
+            The account it was sent for no longer exists. <Link href="/sign-up">Join again</Link> to get a new link.
+          </>
+        ),
+      };
     if (code === "INVALID_USER")
-      return { tone: "alarm", title: "This link is for another account", body: <>You are signed in as someone else. Sign out, then open the link from the e-mail again.</> };
-    return { tone: "alarm", title: "This confirmation link is invalid", body: <>Your address is not confirmed by it: the link may be incomplete (copy the whole of it) or replaced by a newer one. Sign in below with your e-mail and password, and we send you a fresh link.</> };
+      return {
+        tone: "alarm",
+        title: "This link is for another account",
+        body: <>You are signed in as someone else. Sign out, then open the link from the e-mail again.</>,
+      };
+    return {
+      tone: "alarm",
+      title: "This confirmation link is invalid",
+      body: (
+        <>
+          Your address is not confirmed by it: the link may be incomplete (copy the whole of it) or replaced by a newer
+          one. Sign in below with your e-mail and password, and we send you a fresh link.
+        </>
+      ),
+    };
   }
-  if (params.get("verified")) return { tone: "info", title: "Address confirmed", body: <>Your e-mail address is confirmed. Sign in below if this page does not show you signed in.</> };
-  if (params.get("reset")) return { tone: "info", title: "Password changed", body: <>Sign in with your new password. Other devices were signed out.</> };
+  if (params.get("verified"))
+    return {
+      tone: "info",
+      title: "Address confirmed",
+      body: <>Your e-mail address is confirmed. Sign in below if this page does not show you signed in.</>,
+    };
+  if (params.get("reset"))
+    return {
+      tone: "info",
+      title: "Password changed",
+      body: <>Sign in with your new password. Other devices were signed out.</>,
+    };
   return null;
 }
 
@@ -59,37 +107,78 @@ function safeNext(next: string | null): string {
   return next && next.startsWith("/") && !next.startsWith("//") ? next : "/";
 }
 
+/**
+ * One labelled input of an auth form: its message (from the shared schema) shows once the field was left or the form
+ * sent, tied to the input with aria-describedby and aria-invalid, beside the hint.
+ */
+function AuthField({
+  id,
+  label,
+  hint,
+  error,
+  registration,
+  ...input
+}: {
+  id: string;
+  label: string;
+  hint?: string;
+  error?: FieldError;
+  registration: UseFormRegisterReturn;
+} & Omit<InputHTMLAttributes<HTMLInputElement>, "id" | "name">) {
+  const describedBy = [hint ? `${id}-hint` : "", error ? `${id}-error` : ""].filter(Boolean).join(" ");
+  return (
+    <Field label={label} id={id} hint={hint} error={error?.message}>
+      <TextInput
+        id={id}
+        {...input}
+        {...registration}
+        invalid={Boolean(error)}
+        aria-describedby={describedBy || undefined}
+      />
+    </Field>
+  );
+}
+
+function FormError({ error }: { error: string | null }) {
+  return error ? (
+    <p role="alert" className="font-bold text-alarm-700">
+      {error}
+    </p>
+  ) : null;
+}
+
 export function SignInForm() {
   const router = useRouter();
   const params = useSearchParams();
   const id = useId();
   const [error, setError] = useState<string | null>(null);
-  const [busy, setBusy] = useState(false);
   const outcome = verificationOutcome(params);
-  async function onSubmit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const data = new FormData(e.currentTarget);
-    setBusy(true);
+  const {
+    register,
+    handleSubmit,
+    formState: { errors, isSubmitting },
+  } = useForm({ resolver: zodResolver(signInSchema), mode: "onTouched", defaultValues: { email: "", password: "" } });
+  const onSubmit = handleSubmit(async ({ email, password }) => {
     setError(null);
     const { error: err } = await authClient.signIn.email({
-      email: String(data.get("email") ?? ""),
-      password: String(data.get("password") ?? ""),
+      email,
+      password,
       callbackURL: safeNext(params.get("next")),
     });
-    setBusy(false);
     if (err) {
       setError(explain(err, "sign-in"));
       return;
     }
     router.push(safeNext(params.get("next")));
     router.refresh();
-  }
+  });
   return (
     <FormShell
       title="Sign in"
       footer={
         <p>
-          New here? <Link href="/sign-up">Join the registry</Link>. Forgot your password? <Link href="/forgot-password">Reset it</Link>.
+          New here? <Link href="/sign-up">Join the registry</Link>. Forgot your password?{" "}
+          <Link href="/forgot-password">Reset it</Link>.
         </p>
       }
     >
@@ -100,20 +189,26 @@ export function SignInForm() {
           </Notice>
         </div>
       ) : null}
-      <form onSubmit={onSubmit} className="grid gap-4" noValidate={false}>
-        <Field label="E-mail" id={`${id}-email`}>
-          <TextInput id={`${id}-email`} name="email" type="email" autoComplete="email" required />
-        </Field>
-        <Field label="Password" id={`${id}-password`}>
-          <TextInput id={`${id}-password`} name="password" type="password" autoComplete="current-password" required />
-        </Field>
-        {error ? (
-          <p role="alert" className="font-bold text-alarm-700">
-            {error}
-          </p>
-        ) : null}
-        <Button type="submit" disabled={busy}>
-          {busy ? "Signing in…" : "Sign in"}
+      <form onSubmit={onSubmit} className="grid gap-4" noValidate>
+        <AuthField
+          id={`${id}-email`}
+          label="E-mail"
+          error={errors.email}
+          registration={register("email")}
+          type="email"
+          autoComplete="email"
+        />
+        <AuthField
+          id={`${id}-password`}
+          label="Password"
+          error={errors.password}
+          registration={register("password")}
+          type="password"
+          autoComplete="current-password"
+        />
+        <FormError error={error} />
+        <Button type="submit" disabled={isSubmitting}>
+          {isSubmitting ? "Signing in…" : "Sign in"}
         </Button>
       </form>
     </FormShell>
@@ -124,28 +219,21 @@ export function SignUpForm() {
   const id = useId();
   const [error, setError] = useState<string | null>(null);
   const [sentTo, setSentTo] = useState<string | null>(null);
-  const [busy, setBusy] = useState(false);
-  async function onSubmit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const data = new FormData(e.currentTarget);
-    const password = String(data.get("password") ?? "");
-    if (password !== String(data.get("confirm") ?? "")) {
-      setError("The two passwords differ. Type the same password twice.");
-      return;
-    }
-    const email = String(data.get("email") ?? "");
-    setBusy(true);
+  const {
+    register,
+    handleSubmit,
+    formState: { errors, isSubmitting },
+  } = useForm({
+    resolver: zodResolver(signUpSchema),
+    mode: "onTouched",
+    defaultValues: { name: "", email: "", password: "", confirm: "" },
+  });
+  const onSubmit = handleSubmit(async ({ name, email, password }) => {
     setError(null);
-    const { error: err } = await authClient.signUp.email({
-      name: String(data.get("name") ?? "").trim(),
-      email,
-      password,
-      callbackURL: "/sign-in?verified=1",
-    });
-    setBusy(false);
+    const { error: err } = await authClient.signUp.email({ name, email, password, callbackURL: "/sign-in?verified=1" });
     if (err) setError(explain(err, "sign-up"));
     else setSentTo(email);
-  }
+  });
   if (sentTo) {
     return (
       <FormShell title="Check your inbox">
@@ -156,27 +244,51 @@ export function SignUpForm() {
     );
   }
   return (
-    <FormShell title="Join the registry" footer={<p>Already a member? <Link href="/sign-in">Sign in</Link>.</p>}>
-      <form onSubmit={onSubmit} className="grid gap-4">
-        <Field label="Display name" id={`${id}-name`} hint="Shown on your reports only when you choose so.">
-          <TextInput id={`${id}-name`} name="name" autoComplete="nickname" required minLength={2} maxLength={60} />
-        </Field>
-        <Field label="E-mail" id={`${id}-email`}>
-          <TextInput id={`${id}-email`} name="email" type="email" autoComplete="email" required />
-        </Field>
-        <Field label="Password" id={`${id}-password`} hint="At least 10 characters.">
-          <TextInput id={`${id}-password`} name="password" type="password" autoComplete="new-password" required minLength={10} />
-        </Field>
-        <Field label="Password again" id={`${id}-confirm`}>
-          <TextInput id={`${id}-confirm`} name="confirm" type="password" autoComplete="new-password" required minLength={10} />
-        </Field>
-        {error ? (
-          <p role="alert" className="font-bold text-alarm-700">
-            {error}
-          </p>
-        ) : null}
-        <Button type="submit" disabled={busy}>
-          {busy ? "Creating your account…" : "Create account"}
+    <FormShell
+      title="Join the registry"
+      footer={
+        <p>
+          Already a member? <Link href="/sign-in">Sign in</Link>.
+        </p>
+      }
+    >
+      <form onSubmit={onSubmit} className="grid gap-4" noValidate>
+        <AuthField
+          id={`${id}-name`}
+          label="Display name"
+          hint="Shown on your reports only when you choose so."
+          error={errors.name}
+          registration={register("name")}
+          autoComplete="nickname"
+        />
+        <AuthField
+          id={`${id}-email`}
+          label="E-mail"
+          error={errors.email}
+          registration={register("email")}
+          type="email"
+          autoComplete="email"
+        />
+        <AuthField
+          id={`${id}-password`}
+          label="Password"
+          hint={`At least ${PASSWORD_MIN_LENGTH} characters.`}
+          error={errors.password}
+          registration={register("password")}
+          type="password"
+          autoComplete="new-password"
+        />
+        <AuthField
+          id={`${id}-confirm`}
+          label="Password again"
+          error={errors.confirm}
+          registration={register("confirm")}
+          type="password"
+          autoComplete="new-password"
+        />
+        <FormError error={error} />
+        <Button type="submit" disabled={isSubmitting}>
+          {isSubmitting ? "Creating your account…" : "Create account"}
         </Button>
       </form>
     </FormShell>
@@ -187,34 +299,33 @@ export function ForgotPasswordForm() {
   const id = useId();
   const [sent, setSent] = useState(false);
   const [error, setError] = useState<string | null>(null);
-  const [busy, setBusy] = useState(false);
-  async function onSubmit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const data = new FormData(e.currentTarget);
-    setBusy(true);
-    const { error: err } = await authClient.requestPasswordReset({
-      email: String(data.get("email") ?? ""),
-      redirectTo: "/reset-password",
-    });
-    setBusy(false);
+  const {
+    register,
+    handleSubmit,
+    formState: { errors, isSubmitting },
+  } = useForm({ resolver: zodResolver(forgotPasswordSchema), mode: "onTouched", defaultValues: { email: "" } });
+  const onSubmit = handleSubmit(async ({ email }) => {
+    setError(null);
+    const { error: err } = await authClient.requestPasswordReset({ email, redirectTo: "/reset-password" });
     if (err) setError(explain(err, "reset"));
     else setSent(true);
-  }
+  });
   return (
     <FormShell title="Reset your password">
       {sent ? (
         <p>If an account uses that address, a reset link is on its way. It works for one hour.</p>
       ) : (
-        <form onSubmit={onSubmit} className="grid gap-4">
-          <Field label="E-mail" id={`${id}-email`}>
-            <TextInput id={`${id}-email`} name="email" type="email" autoComplete="email" required />
-          </Field>
-          {error ? (
-            <p role="alert" className="font-bold text-alarm-700">
-              {error}
-            </p>
-          ) : null}
-          <Button type="submit" disabled={busy}>
+        <form onSubmit={onSubmit} className="grid gap-4" noValidate>
+          <AuthField
+            id={`${id}-email`}
+            label="E-mail"
+            error={errors.email}
+            registration={register("email")}
+            type="email"
+            autoComplete="email"
+          />
+          <FormError error={error} />
+          <Button type="submit" disabled={isSubmitting}>
             Send the reset link
           </Button>
         </form>
@@ -231,28 +342,38 @@ export function ResetPasswordForm() {
   // better-auth answers an unknown, used and expired reset link alike (error=INVALID_TOKEN): say all three.
   const linkFailed = !!params.get("error");
   const [error, setError] = useState<string | null>(null);
-  const [busy, setBusy] = useState(false);
-  async function onSubmit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const data = new FormData(e.currentTarget);
-    const password = String(data.get("password") ?? "");
-    if (password !== String(data.get("confirm") ?? "")) {
-      setError("The two passwords differ. Type the same password twice.");
-      return;
-    }
-    setBusy(true);
+  const {
+    register,
+    handleSubmit,
+    formState: { errors, isSubmitting },
+  } = useForm({
+    resolver: zodResolver(resetPasswordSchema),
+    mode: "onTouched",
+    defaultValues: { password: "", confirm: "" },
+  });
+  const onSubmit = handleSubmit(async ({ password }) => {
+    setError(null);
     const { error: err } = await authClient.resetPassword({ newPassword: password, token: token ?? "" });
-    setBusy(false);
     if (err) setError(explain(err, "reset"));
     else router.push("/sign-in?reset=1");
-  }
+  });
   return (
-    <FormShell title={linkFailed ? "This reset link does not work" : token ? "Choose a new password" : "Open the link from your e-mail"} footer={<Link href="/forgot-password">Ask for a new link</Link>}>
+    <FormShell
+      title={
+        linkFailed
+          ? "This reset link does not work"
+          : token
+            ? "Choose a new password"
+            : "Open the link from your e-mail"
+      }
+      footer={<Link href="/forgot-password">Ask for a new link</Link>}
+    >
       {linkFailed || !token ? (
         <div role="alert" data-testid="reset-outcome" className="grid gap-2">
           {linkFailed ? (
             <p>
-              Your password was not changed. The link has expired (reset links work for a limited time), was already used, or is incomplete.
+              Your password was not changed. The link has expired (reset links work for a limited time), was already
+              used, or is incomplete.
             </p>
           ) : (
             <p>This page needs the whole link from your password-reset e-mail. Your password was not changed.</p>
@@ -262,19 +383,26 @@ export function ResetPasswordForm() {
           </p>
         </div>
       ) : (
-        <form onSubmit={onSubmit} className="grid gap-4">
-          <Field label="New password" id={`${id}-password`} hint="At least 10 characters.">
-            <TextInput id={`${id}-password`} name="password" type="password" autoComplete="new-password" required minLength={10} />
-          </Field>
-          <Field label="New password again" id={`${id}-confirm`}>
-            <TextInput id={`${id}-confirm`} name="confirm" type="password" autoComplete="new-password" required minLength={10} />
-          </Field>
-          {error ? (
-            <p role="alert" className="font-bold text-alarm-700">
-              {error}
-            </p>
-          ) : null}
-          <Button type="submit" disabled={busy}>
+        <form onSubmit={onSubmit} className="grid gap-4" noValidate>
+          <AuthField
+            id={`${id}-password`}
+            label="New password"
+            hint={`At least ${PASSWORD_MIN_LENGTH} characters.`}
+            error={errors.password}
+            registration={register("password")}
+            type="password"
+            autoComplete="new-password"
+          />
+          <AuthField
+            id={`${id}-confirm`}
+            label="New password again"
+            error={errors.confirm}
+            registration={register("confirm")}
+            type="password"
+            autoComplete="new-password"
+          />
+          <FormError error={error} />
+          <Button type="submit" disabled={isSubmitting}>
             Save the new password
           </Button>
         </form>

@@ -1,6 +1,7 @@
 import "server-only";
 import { AppError } from "@/features/shared/errors";
 import { json, readBody } from "@/features/shared/server/http";
+import { EMAIL_MAX_LENGTH, NAME_MAX_LENGTH } from "../schemas";
 import { getAuth } from "./auth";
 import { CLIENT_ADDRESS_HEADER, clientAddress } from "./client-address";
 import { clearSignInAttempts, countSignInAttempt } from "./sign-in-guard";
@@ -8,9 +9,9 @@ import { clearSignInAttempts, countSignInAttempt } from "./sign-in-guard";
 /** No sign-in form needs more; a larger body is refused before it is read into memory. */
 export const AUTH_BODY_LIMIT = 64 * 1024;
 const FIELD_LIMITS: Record<string, { max: number; label: string }> = {
-  name: { max: 100, label: "Name" },
-  email: { max: 254, label: "E-mail address" },
-  newEmail: { max: 254, label: "E-mail address" },
+  name: { max: NAME_MAX_LENGTH, label: "Name" },
+  email: { max: EMAIL_MAX_LENGTH, label: "E-mail address" },
+  newEmail: { max: EMAIL_MAX_LENGTH, label: "E-mail address" },
 };
 
 /** The path under /api/auth, decoded and tidied so that look-alike spellings compare equal. */

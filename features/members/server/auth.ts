@@ -10,6 +10,7 @@ import { APIError } from "better-auth/api";
 import { getDb, schema } from "@/db/client";
 import { dataDir, getEnv, publicBaseUrl } from "@/features/shared/env";
 import { resetMail, signUpAttemptMail, verificationMail } from "@/features/mail/server";
+import { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from "../schemas";
 import { ac, admin, member, moderator } from "./access";
 import { sendMailLater } from "./background-mail";
 import { CLIENT_ADDRESS_HEADER } from "./client-address";
@@ -54,7 +55,9 @@ async function createAuth() {
     emailAndPassword: {
       enabled: true,
       requireEmailVerification: true,
-      minPasswordLength: 10,
+      // The same limits as the forms' schemas.
+      minPasswordLength: PASSWORD_MIN_LENGTH,
+      maxPasswordLength: PASSWORD_MAX_LENGTH,
       // Mail goes out after the answer, so a known address answers as fast as an unknown one.
       async sendResetPassword({ user, url }) {
         sendMailLater(resetMail(user.email, user.name, url));
