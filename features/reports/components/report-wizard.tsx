@@ -1,7 +1,7 @@
 "use client";
 
 import { useRouter } from "next/navigation";
-import { useId, useMemo, useState, type ReactNode } from "react";
+import { useEffect, useId, useMemo, useRef, useState, type ReactNode } from "react";
 import { doseWarnings, planDose, readStrength, volumeUnitLabels, volumeUnits } from "@/features/dosing";
 import { ApiError, fetchJson } from "@/features/shared/fetch-json";
 import { conditionOutcomes, distressLevels, lossCauses, reportDraftSchema, settings, sizeClasses } from "../schemas";
@@ -34,6 +34,9 @@ export interface WizardReport {
 }
 
 const steps = ["Fish", "Water", "Treatment", "Outcome", "Photos and submit"] as const;
+// Set when the reader moves to another step; the step's heading then takes focus, so keyboard and screen-reader users
+// start at the top of the new step. Module-level because saving a step remounts the wizard (its key changes).
+let focusStepHeading = false;
 const s = (v: number | string | null | undefined) => (v == null ? "" : String(v));
 const labels: Record<string, string> = {
   juvenile: "Juvenile", subadult: "Sub-adult", adult: "Adult", bare: "Bare hospital tank", planted: "Planted or furnished tank", other: "Other",
@@ -152,6 +155,16 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
   const [busy, setBusy] = useState(false);
   const [speciesSearch, setSpeciesSearch] = useState("");
   const set = (k: string) => (e: { target: { value: string } }) => setForm((f) => ({ ...f, [k]: e.target.value }));
+  const stepHeading = useRef<HTMLHeadingElement>(null);
+  useEffect(() => {
+    if (!focusStepHeading) return;
+    focusStepHeading = false;
+    stepHeading.current?.focus();
+  }, [step]);
+  const goTo = (n: number) => {
+    focusStepHeading = true;
+    setStep(n);
+  };
 
   const agent = catalogue.agents.find((a) => a.slug === form.agentSlug);
   const preview = useMemo(() => {
@@ -208,6 +221,7 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
       } else if (step < 4) {
         await fetchJson(`/api/reports/${reportId}`, { method: "PATCH", body: JSON.stringify(patch) });
       }
+      focusStepHeading = true;
       router.replace(`/reports/${reportId}/edit?step=${next}`);
       router.refresh();
       setStep(next);
@@ -251,7 +265,7 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
               type="button"
               disabled={!report && i > 0}
               aria-current={i === step ? "step" : undefined}
-              onClick={() => report && setStep(i)}
+              onClick={() => report && goTo(i)}
               className={`rounded-full border px-3 py-1 text-sm ${i === step ? "border-peat-700 bg-peat-700 text-white" : "border-peat-300 bg-white"} disabled:opacity-50`}
             >
               {i + 1}. {label}
@@ -290,6 +304,9 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
         </div>
       ) : null}
 
+      <h2 ref={stepHeading} tabIndex={-1} className="text-xl font-bold text-peat-900" data-testid="step-heading">
+        Step {step + 1} of {steps.length}: {steps[step]}
+      </h2>
       <form className="grid max-w-2xl gap-4" onSubmit={(e) => { e.preventDefault(); if (step < 4) void save(step + 1); }} noValidate aria-label={steps[step]}>
         {step === 0 ? (
           <>
@@ -413,7 +430,7 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
 
         {step < 4 ? (
           <div className="flex gap-3">
-            {step > 0 ? <button type="button" onClick={() => setStep(step - 1)} className="rounded-md border border-peat-300 px-4 py-2">Back</button> : null}
+            {step > 0 ? <button type="button" onClick={() => goTo(step - 1)} className="rounded-md border border-peat-300 px-4 py-2">Back</button> : null}
             <button type="submit" disabled={busy} className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white disabled:bg-peat-300">
               {busy ? "Saving…" : "Save and continue"}
             </button>

@@ -5,9 +5,13 @@ import { catalogueKinds, type CatalogueKind } from "@/features/catalogue";
 import { PageTitle } from "@/features/shared/components/ui";
 import { getPageActor } from "@/features/members/server";
 import { pageData } from "@/features/shared/server/page";
+import { When } from "@/features/shared/components/when";
 
 export const metadata = { title: "Catalogue" };
 
+/** The change log in words: "Orla changed the species “betta-splendens”". */
+const changeWords: Record<string, string> = { create: "added", update: "changed", delete: "deleted", merge: "merged away" };
+const entityWords: Record<string, string> = { groups: "the species group", species: "the species", agents: "the treatment", conditions: "the condition", "stock-forms": "the stock preset" };
 const labels: Record<CatalogueKind, string> = { groups: "Species groups", species: "Species", agents: "Treatments (agents)", conditions: "Conditions", "stock-forms": "Stock presets" };
 
 export default async function CataloguePage({ searchParams }: { searchParams: Promise<{ list?: string }> }) {
@@ -65,7 +69,7 @@ export default async function CataloguePage({ searchParams }: { searchParams: Pr
       <section className="grid gap-1">
         <h2 className="text-xl font-bold text-peat-900">Recent changes</h2>
         {changes.length === 0 ? <p className="text-peat-700">No change yet.</p> : (
-          <ul>{changes.map((c) => <li key={c.id}>{new Date(c.at).toLocaleString("en-GB")}: {c.actorName ?? "someone"} — {c.action} {c.entity} “{c.entityKey}”</li>)}</ul>
+          <ul>{changes.map((c) => <li key={c.id}><When at={c.at} />: {c.actorName ?? "someone"} {changeWords[c.action] ?? c.action} {c.entity === "club_settings" ? "the club settings" : <>{(entityWords[c.entity] ?? c.entity.replaceAll("_", " "))} “{c.entityKey}”</>}</li>)}</ul>
         )}
       </section>
     </div>

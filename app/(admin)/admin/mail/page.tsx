@@ -4,6 +4,7 @@ import { Notice, PageTitle } from "@/features/shared/components/ui";
 import { getEnv } from "@/features/shared/env";
 import { getPageActor } from "@/features/members/server";
 import { pageData } from "@/features/shared/server/page";
+import { When } from "@/features/shared/components/when";
 
 export const metadata = { title: "Mail outbox" };
 
@@ -32,7 +33,7 @@ export default async function MailPage() {
           <tbody>
             {mail.map((m) => (
               <tr key={m.id} className="border-t border-peat-100">
-                <td className="px-3 py-2">{new Date(m.receivedAt).toLocaleString("en-GB")}</td>
+                <td className="px-3 py-2"><When at={m.receivedAt} relative /></td>
                 <td className="px-3 py-2">{m.to}</td>
                 <td className="px-3 py-2">
                   <Link href={`/admin/mail/${encodeURIComponent(m.id)}`}>{m.subject}</Link>
