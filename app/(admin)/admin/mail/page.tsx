@@ -34,7 +34,7 @@ export default async function MailPage() {
             {mail.map((m) => (
               <tr key={m.id} className="border-t border-peat-100">
                 <td className="px-3 py-2"><When at={m.receivedAt} relative /></td>
-                <td className="px-3 py-2">{m.to}</td>
+                <td className="px-3 py-2 [overflow-wrap:anywhere]">{m.to}</td>
                 <td className="px-3 py-2">
                   <Link href={`/admin/mail/${encodeURIComponent(m.id)}`}>{m.subject}</Link>
                 </td>
