@@ -10,7 +10,7 @@ export default async function ReviewQueuePage() {
   const waiting = await pageData(countAwaitingReview({ actor: await getPageActor() }));
   return (
     <div className="grid gap-6">
-      <PageTitle lead={`${waiting} report${waiting === 1 ? "" : "s"} waiting. Reports count only once a moderator accepts them. Oldest first; hover a flag for its explanation. You cannot decide on your own reports.`}>Review queue</PageTitle>
+      <PageTitle lead={`${waiting} report${waiting === 1 ? "" : "s"} waiting. Reports count only once a moderator accepts them. Oldest first; each flag is explained in words on the report's review page. You cannot decide on your own reports.`}>Review queue</PageTitle>
       <QueueTable />
     </div>
   );

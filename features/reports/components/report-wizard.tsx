@@ -35,8 +35,9 @@ export interface WizardReport {
 
 const steps = ["Fish", "Water", "Treatment", "Outcome", "Photos and submit"] as const;
 // Set when the reader moves to another step; the step's heading then takes focus, so keyboard and screen-reader users
-// start at the top of the new step. Module-level because saving a step remounts the wizard (its key changes).
-let focusStepHeading = false;
+// start at the top of the new step. Module-level, and a deadline rather than a flag, because saving a step renders the
+// new step and then remounts the wizard once the refreshed draft arrives (its key changes): both should focus.
+let focusStepHeadingUntil = 0;
 const s = (v: number | string | null | undefined) => (v == null ? "" : String(v));
 const labels: Record<string, string> = {
   juvenile: "Juvenile", subadult: "Sub-adult", adult: "Adult", bare: "Bare hospital tank", planted: "Planted or furnished tank", other: "Other",
@@ -157,12 +158,10 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
   const set = (k: string) => (e: { target: { value: string } }) => setForm((f) => ({ ...f, [k]: e.target.value }));
   const stepHeading = useRef<HTMLHeadingElement>(null);
   useEffect(() => {
-    if (!focusStepHeading) return;
-    focusStepHeading = false;
-    stepHeading.current?.focus();
+    if (Date.now() < focusStepHeadingUntil) stepHeading.current?.focus();
   }, [step]);
   const goTo = (n: number) => {
-    focusStepHeading = true;
+    focusStepHeadingUntil = Date.now() + 3000;
     setStep(n);
   };
 
@@ -221,7 +220,7 @@ export function ReportWizard({ catalogue, report, step: initialStep, course, pho
       } else if (step < 4) {
         await fetchJson(`/api/reports/${reportId}`, { method: "PATCH", body: JSON.stringify(patch) });
       }
-      focusStepHeading = true;
+      focusStepHeadingUntil = Date.now() + 10_000;
       router.replace(`/reports/${reportId}/edit?step=${next}`);
       router.refresh();
       setStep(next);
