@@ -92,8 +92,11 @@ describe("an incomplete draft", () => {
       await checklist.waitFor();
       const text = (await checklist.innerText()) ?? "";
       expect(text).toMatch(/not submitted yet/);
-      expect(text).toContain("Give the water volume.");
-      expect(text).toContain("Choose the treatment.");
+      // One line per field to fix, named by its step, in the schema's own plain sentences.
+      expect(text).toContain("Step 2, Water: Choose the kind of tank.");
+      expect(text).toContain("Step 3, Treatment: Choose the treatment agent.");
+      expect(text).toContain("Step 4, Outcome: Choose how the condition ended.");
+      expect(text).not.toContain("Step 1, Fish");
       // Nothing for programs: no field path, enum value or list of allowed values.
       expect(text).not.toMatch(/\b[a-z]+[A-Z]\w*\b|\b[a-z]+_[a-z_]+\b|\b[a-z]+\.[a-z]+\b|must be one of/);
       const items = checklist.getByRole("button");
