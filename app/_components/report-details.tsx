@@ -1,6 +1,11 @@
 import type { ReportView } from "@/features/reports/server";
+import { reportValueLabels } from "@/features/reports";
+import { volumeUnitLabels, type VolumeUnit } from "@/features/dosing";
+import { formatDay } from "@/features/shared/format-time";
 
 const v = (x: unknown, unit = "") => (x === null || x === undefined || x === "" ? "—" : `${x}${unit}`);
+/** A stored choice in words; an unknown one still loses its underscores. */
+const w = (x: string | null | undefined) => (x ? (reportValueLabels[x] ?? x.replaceAll("_", " ")) : "—");
 
 /** The fields, flags and photos of one report, for its member's page and the review page. */
 export function ReportDetails({ report, conditionName, showFlags = true }: { report: ReportView; conditionName: string | null; showFlags?: boolean }) {
@@ -12,14 +17,14 @@ export function ReportDetails({ report, conditionName, showFlags = true }: { rep
         <dl className="grid grid-cols-[max-content_1fr] gap-x-4 gap-y-1 rounded-lg border border-peat-100 bg-white p-4">
           <dt className="col-span-2 text-lg font-bold text-peat-900">Fish</dt>
           <dt className="font-bold">Species</dt><dd>{report.species ? <>{report.species.commonName} (<i>{report.species.scientificName}</i>)</> : v(report.speciesOther)}</dd>
-          <dt className="font-bold">Fish treated</dt><dd>{v(report.fishCount)} ({v(report.sizeClass)})</dd>
+          <dt className="font-bold">Fish treated</dt><dd>{v(report.fishCount)} ({w(report.sizeClass)})</dd>
           <dt className="font-bold">Condition</dt><dd>{v(condition)}</dd>
-          <dt className="font-bold">Started</dt><dd>{v(report.startedOn)}</dd>
+          <dt className="font-bold">Started</dt><dd>{report.startedOn ? <time dateTime={report.startedOn}>{formatDay(`${report.startedOn}T12:00:00Z`)}</time> : "—"}</dd>
           <dt className="col-span-2 mt-2 text-lg font-bold text-peat-900">Water</dt>
-          <dt className="font-bold">Volume</dt><dd>{v(report.water.volume)} {report.water.volumeUnit} {report.water.volumeL ? `(${report.water.volumeL.toFixed(1)} L)` : ""}</dd>
+          <dt className="font-bold">Volume</dt><dd>{v(report.water.volume)} {report.water.volumeUnit ? (volumeUnitLabels[report.water.volumeUnit as VolumeUnit] ?? report.water.volumeUnit) : ""} {report.water.volumeUnit !== "L" && report.water.volumeL ? `(${report.water.volumeL.toFixed(1)} L)` : ""}</dd>
           <dt className="font-bold">Temperature</dt><dd>{v(report.water.temperature)} °{report.water.temperatureUnit}</dd>
           <dt className="font-bold">pH</dt><dd>{v(report.water.ph)}</dd>
-          <dt className="font-bold">Tank</dt><dd>{v(report.water.setting)}</dd>
+          <dt className="font-bold">Tank</dt><dd>{w(report.water.setting)}</dd>
         </dl>
         <dl className="grid grid-cols-[max-content_1fr] gap-x-4 gap-y-1 rounded-lg border border-peat-100 bg-white p-4">
           <dt className="col-span-2 text-lg font-bold text-peat-900">Treatment</dt>
@@ -30,9 +35,9 @@ export function ReportDetails({ report, conditionName, showFlags = true }: { rep
           <dt className="font-bold">Doses</dt><dd>{v(report.treatment.doses)}{report.treatment.intervalHours ? `, every ${report.treatment.intervalHours} h` : ""}</dd>
           <dt className="font-bold">Alongside</dt><dd>{v(report.treatment.otherTreatments)}</dd>
           <dt className="col-span-2 mt-2 text-lg font-bold text-peat-900">Outcome</dt>
-          <dt className="font-bold">Fish lost</dt><dd>{v(report.outcome.fishLost)}{report.outcome.lossCause ? ` (likely cause: ${report.outcome.lossCause})` : ""}</dd>
-          <dt className="font-bold">Distress</dt><dd>{v(report.outcome.distress)}</dd>
-          <dt className="font-bold">Condition</dt><dd>{v(report.outcome.condition)}</dd>
+          <dt className="font-bold">Fish lost</dt><dd>{v(report.outcome.fishLost)}{report.outcome.lossCause ? ` (likely cause: ${w(report.outcome.lossCause)})` : ""}</dd>
+          <dt className="font-bold">Distress</dt><dd>{w(report.outcome.distress)}</dd>
+          <dt className="font-bold">Condition</dt><dd>{w(report.outcome.condition)}</dd>
           <dt className="font-bold">Watched</dt><dd>{v(report.outcome.observedDaysAfter, " days after the last dose")}</dd>
           <dt className="font-bold">Notes</dt><dd>{v(report.outcome.notes)}</dd>
         </dl>

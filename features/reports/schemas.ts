@@ -18,6 +18,24 @@ export const statusLabels: Record<ReportStatus, string> = {
   retracted: "Retracted",
 };
 
+/** The report's chosen values in words, for pages that show a report (the stored values are for the API). */
+export const reportValueLabels: Record<string, string> = {
+  juvenile: "juvenile", subadult: "sub-adult", adult: "adult", bare: "bare hospital tank", planted: "planted or furnished tank", other: "other",
+  treatment: "the treatment", disease: "the disease", unknown: "not sure", none: "none seen", mild: "mild", severe: "severe",
+  cleared: "cleared", improved: "improved", unchanged: "unchanged", worse: "worse",
+};
+
+/** What each event in a report's history did, as a sentence's predicate ("Tobin accepted it"). */
+export const historyActionWords: Record<string, string> = {
+  created: "started the draft", course_opened: "opened a course log", submitted: "submitted it for review", resubmitted: "resubmitted it",
+  accept: "accepted it", return: "returned it for changes", decline: "declined it", retract: "retracted it",
+  propose_accept: "accepted it and asked a second moderator to accept too (dose above the ceiling)",
+  photo_added: "added a photo", dose_logged: "logged a dose", entry_corrected: "corrected a course entry", entry_struck: "struck out a course entry",
+  map_species: "mapped the species to the catalogue", correct_loss_cause: "corrected the likely cause of losses", imported: "imported it",
+};
+/** An event's action in words; one this list lacks still reads as words, never as its internal name. */
+export const describeHistoryAction = (action: string) => historyActionWords[action] ?? action.replaceAll("_", " ");
+
 // Messages are shown to people as they are (the form uses these schemas too): plain words, no field names or codes;
 // the issue's path says which field. `missing` is the sentence for an answer not given at all.
 const n = (x: number) => x.toLocaleString("en-GB");

@@ -64,3 +64,51 @@ describe("filing a report", () => {
     await page.close();
   });
 });
+
+describe("an incomplete draft", () => {
+  for (const width of [1280, 390]) {
+    it(`answers "submit" with a plain checklist that leads to each step, and each step starts at its heading (${width} px)`, async () => {
+      const context = await browser().newContext({ viewport: { width, height: 844 } });
+      const page = await context.newPage();
+      await signInAs(page, "member2@example.org");
+      // The fish step only: water, treatment and outcome are missing.
+      const draft = await page.request.post(`${baseUrl()}/api/reports/drafts`, {
+        headers: { origin: baseUrl() },
+        data: { speciesId: "paracheirodon-innesi", fishCount: 4, sizeClass: "adult", conditionSlug: "white-spot", startedOn: "2026-11-10" },
+      });
+      expect(draft.status()).toBe(201);
+      const { id } = (await draft.json()) as { id: string };
+
+      // Saving a step moves the focus to the next step's heading.
+      await page.goto(`${baseUrl()}/reports/${id}/edit?step=0`);
+      await page.getByRole("button", { name: "Save and continue" }).click();
+      await page.waitForURL(/step=1/);
+      await page.waitForFunction(() => document.activeElement?.getAttribute("data-testid") === "step-heading");
+      expect(await page.evaluate(() => document.activeElement?.textContent)).toBe("Step 2 of 5: Water");
+
+      await page.goto(`${baseUrl()}/reports/${id}/edit?step=4`);
+      await page.getByRole("button", { name: "Submit for review" }).click();
+      const checklist = page.getByTestId("submit-checklist");
+      await checklist.waitFor();
+      const text = (await checklist.innerText()) ?? "";
+      expect(text).toMatch(/not submitted yet/);
+      // One line per field to fix, named by its step, in the schema's own plain sentences.
+      expect(text).toContain("Step 2, Water: Choose the kind of tank.");
+      expect(text).toContain("Step 3, Treatment: Choose the treatment agent.");
+      expect(text).toContain("Step 4, Outcome: Choose how the condition ended.");
+      expect(text).not.toContain("Step 1, Fish");
+      // Nothing for programs: no field path, enum value or list of allowed values.
+      expect(text).not.toMatch(/\b[a-z]+[A-Z]\w*\b|\b[a-z]+_[a-z_]+\b|\b[a-z]+\.[a-z]+\b|must be one of/);
+      const items = checklist.getByRole("button");
+      expect(await items.count()).toBeGreaterThanOrEqual(3);
+      expect(await page.evaluate(() => document.scrollingElement!.scrollWidth <= window.innerWidth)).toBe(true);
+
+      // Each item leads to its step with the cursor in the field to fix.
+      await items.filter({ hasText: "Step 2, Water" }).first().click();
+      await page.getByTestId("step-heading").filter({ hasText: "Step 2 of 5: Water" }).waitFor();
+      await page.waitForFunction(() => ["INPUT", "SELECT"].includes(document.activeElement?.tagName ?? ""));
+      expect(await page.evaluate(() => document.activeElement?.id)).toMatch(/-(volume|temperature|setting)$/);
+      await context.close();
+    });
+  }
+});

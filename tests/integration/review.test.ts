@@ -63,7 +63,10 @@ describe("decisions and who may make them", () => {
     expect((await decide(id, mod.cookie, { decision: "decline", note: "The volume cannot be right for this tank." })).body.status).toBe("declined");
     const late = await decide(id, mod2.cookie, { decision: "accept" });
     expect(late.status).toBe(409);
-    expect(late.body.error.message).toMatch(/declined.*Moe Moderator — decline/);
+    expect(late.body.error.message).toMatch(/declined.*Moe Moderator declined it \(“The volume cannot be right for this tank\.”\)/);
+    // Said in words: no internal value (accept, awaiting_review) and no ISO time reaches the moderator.
+    expect(late.body.error.message).toMatch(/your decision \(accept\)/);
+    expect(late.body.error.message).not.toMatch(/\b[a-z]+_[a-z_]+\b|\d{4}-\d{2}-\d{2}T/);
     expect((await decide(id, mod.cookie, { decision: "retract", note: "x y z" })).status).toBe(409);
   });
 

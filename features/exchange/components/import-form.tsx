@@ -107,6 +107,7 @@ export function ImportForm() {
         id={`${id}-file`}
         type="file"
         accept=".csv,text/csv"
+        className="max-w-full"
         onChange={(e) => {
           setFile(e.target.files?.[0] ?? null);
           setPreview(null);

@@ -12,6 +12,8 @@ import { reportStatuses, statusLabels } from "../schemas";
 import { StatusBadge } from "./status-badge";
 import { FilterX, NotebookPen } from "lucide-react";
 import { EmptyState, emptyActionClass, emptyQuietActionClass } from "@/features/shared/components/empty-state";
+import { When } from "@/features/shared/components/when";
+import { formatDay } from "@/features/shared/format-time";
 
 const features = tableFeatures({ rowSortingFeature, rowPaginationFeature });
 const helper = createColumnHelper<typeof features, MyReportRow>();
@@ -34,8 +36,8 @@ const columns = helper.columns([
   }),
   helper.accessor("agentName", { id: "agent", header: "Treatment", cell: (c) => c.getValue() ?? "—" }),
   helper.accessor("concentration", { header: "Peak dose", cell: (c) => fmtDose(c.row.original) }),
-  helper.accessor("startedOn", { header: "Started", cell: (c) => c.getValue() ?? "—" }),
-  helper.accessor("updatedAt", { header: "Last change", cell: (c) => new Date(c.getValue()).toLocaleDateString("en-GB") }),
+  helper.accessor("startedOn", { header: "Started", cell: (c) => { const d = c.getValue(); return d ? <time dateTime={d}>{formatDay(`${d}T12:00:00Z`)}</time> : "—"; } }),
+  helper.accessor("updatedAt", { header: "Last change", cell: (c) => <When at={c.getValue()} relative withTime={false} /> }),
 ]);
 
 export function MyReportsTable() {

@@ -1,7 +1,7 @@
 "use client";
 
 import { useRouter } from "next/navigation";
-import { useId, useMemo, useState, type ReactNode } from "react";
+import { useEffect, useId, useMemo, useRef, useState, type ReactNode } from "react";
 import { get, useForm, useWatch, type FieldPath } from "react-hook-form";
 import { doseWarnings, planDose, readStrength, volumeUnitLabels, volumeUnits } from "@/features/dosing";
 import { ApiError, fetchJson } from "@/features/shared/fetch-json";
@@ -80,6 +80,10 @@ export interface WizardReport {
 }
 
 const steps = ["Fish", "Water", "Treatment", "Outcome", "Photos and submit"] as const;
+// Set when the reader moves to another step; the step's heading then takes focus, so keyboard and screen-reader users
+// start at the top of the new step. Module-level, and a deadline rather than a flag, because saving a step renders the
+// new step and then remounts the wizard once the refreshed draft arrives (its key changes): both should focus.
+let focusStepHeadingUntil = 0;
 const s = (v: number | string | null | undefined) => (v == null ? "" : String(v));
 const labels: Record<string, string> = {
   juvenile: "Juvenile",
@@ -274,6 +278,14 @@ export function ReportWizard({
       "outcome.fishLost",
     ],
   });
+  const stepHeading = useRef<HTMLHeadingElement>(null);
+  useEffect(() => {
+    if (Date.now() < focusStepHeadingUntil) stepHeading.current?.focus();
+  }, [step]);
+  const goTo = (n: number) => {
+    focusStepHeadingUntil = Date.now() + 3000;
+    setStep(n);
+  };
 
   const agent = catalogue.agents.find((a) => a.slug === agentSlug);
   let preview: ReturnType<typeof planDose> | null = null;
@@ -337,6 +349,7 @@ export function ReportWizard({
       } else if (step < 4) {
         await fetchJson(`/api/reports/${reportId}`, { method: "PATCH", body: JSON.stringify(patch) });
       }
+      focusStepHeadingUntil = Date.now() + 10_000;
       router.replace(`/reports/${reportId}/edit?step=${next}`);
       router.refresh();
       setStep(next);
@@ -404,7 +417,7 @@ export function ReportWizard({
               type="button"
               disabled={!report && i > 0}
               aria-current={i === step ? "step" : undefined}
-              onClick={() => report && setStep(i)}
+              onClick={() => report && goTo(i)}
               className={`rounded-full border px-3 py-1 text-sm ${i === step ? "border-peat-700 bg-peat-700 text-white" : "border-peat-300 bg-white"} disabled:opacity-50`}
             >
               {i + 1}. {label}
@@ -455,6 +468,9 @@ export function ReportWizard({
         </div>
       ) : null}
 
+      <h2 ref={stepHeading} tabIndex={-1} className="text-xl font-bold text-peat-900" data-testid="step-heading">
+        Step {step + 1} of {steps.length}: {steps[step]}
+      </h2>
       <form
         className="grid max-w-2xl gap-4"
         onSubmit={(e) => {
@@ -749,7 +765,7 @@ export function ReportWizard({
             {step > 0 ? (
               <button
                 type="button"
-                onClick={() => setStep(step - 1)}
+                onClick={() => goTo(step - 1)}
                 className="rounded-md border border-peat-300 px-4 py-2"
               >
                 Back

@@ -51,7 +51,7 @@ const columns = helper.columns([
     id: "flags", header: "Flags", sortFn: "basic",
     cell: (c) => (
       <ul className="flex flex-wrap gap-1">
-        {c.row.original.flags.map((f) => <li key={f.code} title={f.message} className="rounded bg-reed-100 px-1.5 text-xs">{flagLabels[f.code] ?? f.code}</li>)}
+        {c.row.original.flags.map((f) => <li key={f.code} title={f.message} className="relative rounded bg-reed-100 px-1.5 text-xs">{flagLabels[f.code] ?? f.code}<span className="sr-only">: {f.message}</span></li>)}
       </ul>
     ),
   }),

@@ -9,6 +9,8 @@ import type { Actor } from "@/features/shared/roles";
 import { assertRole } from "@/features/members/server";
 import { sendMail } from "@/features/mail/server";
 import { derive, getReportRowById, recordEvent } from "@/features/reports/server";
+import { describeHistoryAction, statusLabels, type ReportStatus } from "@/features/reports";
+import { formatDayTime } from "@/features/shared/format-time";
 import { decisionStatus, overrideNoteMin, type CorrectionInput, type DecisionInput } from "../schemas";
 
 const { reports, reportEvents, users, species } = schema;
@@ -19,6 +21,8 @@ const words = {
   decline: { subject: "declined", lead: "A moderator declined your report. Their reason is below." },
   retract: { subject: "retracted", lead: "A moderator retracted your report from the evidence. Their reason is below." },
 } as const;
+/** A decision named in a sentence, for the conflict message. */
+const decisionWords = { accept: "accept", return: "return for changes", decline: "decline", retract: "retract", propose_accept: "accept, pending a second moderator" } as const;
 
 export interface DecisionResult {
   id: string;
@@ -109,8 +113,9 @@ async function conflict(id: string, status: string, decision: string): Promise<A
     .where(eq(reportEvents.reportId, id))
     .orderBy(desc(reportEvents.at), desc(reportEvents.id))
     .limit(1);
-  const detail = latest ? ` Last change: ${latest.name ?? "someone"} — ${latest.action}${latest.note ? ` (“${latest.note}”)` : ""} at ${latest.at.toISOString()}.` : "";
-  return new AppError("conflict", `This report is ${status.replace("_", " ")}, so "${decision}" no longer applies.${detail}`);
+  const detail = latest ? ` Last change: ${latest.name ?? "someone"} ${describeHistoryAction(latest.action)}${latest.note ? ` (“${latest.note}”)` : ""} on ${formatDayTime(latest.at)}.` : "";
+  const state = status === "gone" ? "no longer here" : (statusLabels[status as ReportStatus] ?? status.replaceAll("_", " ")).toLowerCase();
+  return new AppError("conflict", `This report is ${state}, so your decision (${decisionWords[decision as keyof typeof decisionWords] ?? decision}) no longer applies.${detail}`);
 }
 
 async function notifyMember(userId: string, reportId: string, decision: DecisionInput["decision"], note: string) {

@@ -7,9 +7,13 @@ import { History } from "lucide-react";
 import { EmptyState } from "@/features/shared/components/empty-state";
 import { getPageActor } from "@/features/members/server";
 import { pageData } from "@/features/shared/server/page";
+import { When } from "@/features/shared/components/when";
 
 export const metadata = { title: "Catalogue" };
 
+/** The change log in words: "Orla changed the species “betta-splendens”". */
+const changeWords: Record<string, string> = { create: "added", update: "changed", delete: "deleted", merge: "merged away" };
+const entityWords: Record<string, string> = { groups: "the species group", species: "the species", agents: "the treatment", conditions: "the condition", "stock-forms": "the stock preset" };
 const labels: Record<CatalogueKind, string> = { groups: "Species groups", species: "Species", agents: "Treatments (agents)", conditions: "Conditions", "stock-forms": "Stock presets" };
 
 export default async function CataloguePage({ searchParams }: { searchParams: Promise<{ list?: string }> }) {
@@ -71,7 +75,7 @@ export default async function CataloguePage({ searchParams }: { searchParams: Pr
             <EmptyState icon={<History />} title="No change yet.">Every addition, edit, hiding or merge in the lists above is recorded here, newest first.</EmptyState>
           </div>
         ) : (
-          <ul>{changes.map((c) => <li key={c.id}>{new Date(c.at).toLocaleString("en-GB")}: {c.actorName ?? "someone"} — {c.action} {c.entity} “{c.entityKey}”</li>)}</ul>
+                    <ul>{changes.map((c) => <li key={c.id}><When at={c.at} />: {c.actorName ?? "someone"} {changeWords[c.action] ?? c.action} {c.entity === "club_settings" ? "the club settings" : <>{(entityWords[c.entity] ?? c.entity.replaceAll("_", " "))} “{c.entityKey}”</>}</li>)}</ul>
         )}
       </section>
     </div>

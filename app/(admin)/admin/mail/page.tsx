@@ -7,6 +7,7 @@ import { cardTable } from "@/features/shared/components/card-table";
 import { getEnv } from "@/features/shared/env";
 import { getPageActor } from "@/features/members/server";
 import { pageData } from "@/features/shared/server/page";
+import { When } from "@/features/shared/components/when";
 
 export const metadata = { title: "Mail outbox" };
 
@@ -41,7 +42,7 @@ export default async function MailPage() {
             <tbody className={cardTable.tbody}>
               {mail.map((m) => (
                 <tr key={m.id} className={cardTable.tr}>
-                  <td data-label="Sent" className={cardTable.cell}><span>{new Date(m.receivedAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}</span></td>
+                  <td data-label="Sent" className={cardTable.cell}><span><When at={m.receivedAt} relative /></span></td>
                   <td data-label="To" className={cardTable.cell}><span className="break-all">{m.to}</span></td>
                   <td data-label="Subject" className={cardTable.cell}>
                     <span className="min-w-0"><Link href={`/admin/mail/${encodeURIComponent(m.id)}`}>{m.subject}</Link></span>

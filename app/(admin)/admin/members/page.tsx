@@ -2,6 +2,7 @@ import { PageTitle } from "@/features/shared/components/ui";
 import { MembersTable } from "@/features/members/components/members-table";
 import { getPageActor, getRoleChangesByUserId } from "@/features/members/server";
 import { pageData } from "@/features/shared/server/page";
+import { When } from "@/features/shared/components/when";
 
 export const metadata = { title: "Members" };
 
@@ -20,7 +21,7 @@ export default async function MembersPage() {
           <ul className="grid gap-1">
             {changes.map((c) => (
               <li key={c.id}>
-                <time dateTime={c.at}>{new Date(c.at).toLocaleString("en-GB")}</time>: {c.actorName ?? "someone"} changed{" "}
+                <When at={c.at} />: {c.actorName ?? "someone"} changed{" "}
                 <strong>{c.memberName}</strong> from {c.fromRole} to {c.toRole}.
               </li>
             ))}

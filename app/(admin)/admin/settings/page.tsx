@@ -3,6 +3,8 @@ import { SettingsForm } from "@/features/catalogue/components/settings-form";
 import { getPageActor } from "@/features/members/server";
 import { PageTitle } from "@/features/shared/components/ui";
 import { pageData } from "@/features/shared/server/page";
+import { When } from "@/features/shared/components/when";
+import { formatDayTime } from "@/features/shared/format-time";
 
 export const metadata = { title: "Club settings" };
 
@@ -28,7 +30,7 @@ export default async function SettingsPage() {
         <p>
           {s.nightlyBackup
             ? s.lastNightlyBackupAt
-              ? `The last nightly backup started ${s.lastNightlyBackupAt.toISOString().replace("T", " ").slice(0, 16)} UTC.`
+              ? <>The last nightly backup started <When at={s.lastNightlyBackupAt} relative /> ({formatDayTime(s.lastNightlyBackupAt)}).</>
               : "Nightly backups are on; the first runs after 03:00 server time."
             : "Nightly backups are off."}{" "}
           A backup can be taken at any time while the club runs; restoring one is described in the operations guide.

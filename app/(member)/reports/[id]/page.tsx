@@ -9,15 +9,10 @@ import { pageData } from "@/features/shared/server/page";
 import { getCatalogue } from "@/features/catalogue/server";
 import { groupSummary } from "@/features/evidence/server";
 import { ReportDetails } from "@/app/_components/report-details";
-import type { ReportStatus } from "@/features/reports";
+import { describeHistoryAction, type ReportStatus } from "@/features/reports";
+import { When } from "@/features/shared/components/when";
 
 export const metadata = { title: "Report" };
-
-const actionWords: Record<string, string> = {
-  created: "created the draft", course_opened: "opened the course log", submitted: "submitted it for review", resubmitted: "resubmitted it",
-  accept: "accepted it", return: "returned it for changes", decline: "declined it", retract: "retracted it", photo_added: "added a photo",
-  dose_logged: "logged a dose", entry_corrected: "corrected a course entry", entry_struck: "struck out a course entry", map_species: "mapped the species", correct_loss_cause: "corrected the cause of losses", imported: "imported it",
-};
 
 export default async function ReportPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ submitted?: string }> }) {
   const [{ id }, { submitted }] = await Promise.all([params, searchParams]);
@@ -60,7 +55,7 @@ export default async function ReportPage({ params, searchParams }: { params: Pro
         <ol className="grid gap-1" data-testid="history">
           {history.events.map((e, i) => (
             <li key={i}>
-              <time dateTime={e.at} className="font-bold">{new Date(e.at).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}</time>: {e.actor?.name ?? "someone"} {actionWords[e.action] ?? e.action}
+              <When at={e.at} className="font-bold" />: {e.actor?.name ?? "someone"} {describeHistoryAction(e.action)}
               {e.note ? <> — “{e.note}”</> : null}
             </li>
           ))}

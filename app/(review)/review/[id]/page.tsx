@@ -7,21 +7,15 @@ import { StatusBadge } from "@/features/reports/components/status-badge";
 import { getCatalogue } from "@/features/catalogue/server";
 import { PageTitle } from "@/features/shared/components/ui";
 import { pageData } from "@/features/shared/server/page";
-import type { ReportStatus } from "@/features/reports";
+import { When } from "@/features/shared/components/when";
+import { formatDayTime } from "@/features/shared/format-time";
+import { describeHistoryAction, type ReportStatus } from "@/features/reports";
 import { ReportDetails } from "@/app/_components/report-details";
 
 export const metadata = { title: "Review a report" };
 
 const fmt = (x: number | null | undefined) => (x == null ? "—" : x >= 10 ? x.toFixed(1) : x.toPrecision(3));
-const when = (iso: string) => new Date(iso).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" });
 
-/** History actions in words. */
-const actionWords: Record<string, string> = {
-  created: "started the draft", course_opened: "opened a course log", submitted: "submitted it", resubmitted: "submitted it again",
-  accept: "accepted it", return: "returned it for changes", decline: "declined it", retract: "retracted it",
-  propose_accept: "accepted it and asked a second moderator to accept too (dose above the ceiling)",
-  map_species: "mapped the species to the catalogue", correct_loss_cause: "corrected the likely cause of losses", dose_logged: "logged a dose",
-};
 const flagTitle = (code: string) => {
   const label = flagLabels[code] ?? "a point to check";
   return label.charAt(0).toUpperCase() + label.slice(1);
@@ -55,7 +49,7 @@ export default async function ReviewReportPage({ params }: { params: Promise<{ i
         <PageTitle>Review: {report.species?.commonName ?? `${report.speciesOther} (not listed)`} · {report.treatment.agentName ?? "?"}</PageTitle>
         <div className="flex flex-wrap items-center gap-3">
           <StatusBadge status={report.status as ReportStatus} />
-          <span className="text-sm text-peat-700">Filed by {report.author?.name}{report.submittedAt ? `, submitted ${new Date(report.submittedAt).toLocaleString("en-GB")}` : ""}</span>
+          <span className="text-sm text-peat-700">Filed by {report.author?.name}{report.submittedAt ? <>, submitted <When at={report.submittedAt} relative /></> : ""}</span>
           {report.source === "demo" ? <span className="rounded bg-reed-100 px-2 py-0.5 text-sm">Demo data (invented)</span> : null}
         </div>
       </div>
@@ -103,11 +97,11 @@ export default async function ReviewReportPage({ params }: { params: Promise<{ i
           <ol className="grid gap-2" data-testid="review-course-log">
             {report.courseEntries.map((e) => (
               <li key={e.id} className="rounded-md border border-peat-100 bg-white p-2">
-                <strong>{when(e.at)}</strong> — {e.kind === "dose" ? `a dose of ${e.amountMl ?? "?"} mL of stock` : `observed: ${e.text ?? ""}`}
+                <strong><When at={e.at} /></strong> — {e.kind === "dose" ? `a dose of ${e.amountMl ?? "?"} mL of stock` : `observed: ${e.text ?? ""}`}
                 {e.photoId ? (
                   <a href={`/api/photos/${e.photoId}?size=full`} className="ml-2 inline-block align-middle">
                     {/* Served by our own route, which checks who may see the report. */}
-                    <img src={`/api/photos/${e.photoId}?size=thumb`} alt={`Photo with the observation of ${when(e.at)}`} className="h-20 rounded border border-peat-100 object-cover" />
+                    <img src={`/api/photos/${e.photoId}?size=thumb`} alt={`Photo with the observation of ${formatDayTime(e.at)}`} className="h-20 rounded border border-peat-100 object-cover" />
                   </a>
                 ) : null}
               </li>
@@ -120,7 +114,7 @@ export default async function ReviewReportPage({ params }: { params: Promise<{ i
         <h2 className="text-xl font-bold text-peat-900">History</h2>
         <ol className="grid gap-1" data-testid="history">
           {history.events.map((e, i) => (
-            <li key={i}><strong>{when(e.at)}</strong>: {e.actor?.name ?? "someone"} {actionWords[e.action] ?? e.action.replaceAll("_", " ")}{e.note ? ` (“${e.note}”)` : ""}</li>
+            <li key={i}><strong><When at={e.at} /></strong>: {e.actor?.name ?? "someone"} {describeHistoryAction(e.action)}{e.note ? ` (“${e.note}”)` : ""}</li>
           ))}
         </ol>
       </section>

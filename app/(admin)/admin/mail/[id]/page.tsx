@@ -4,6 +4,7 @@ import { readCaughtMail } from "@/features/mail/server";
 import { getPageActor } from "@/features/members/server";
 import { pageData } from "@/features/shared/server/page";
 import { PageTitle } from "@/features/shared/components/ui";
+import { When } from "@/features/shared/components/when";
 
 export const metadata = { title: "Message" };
 
@@ -19,7 +20,7 @@ export default async function MailMessagePage({ params }: { params: Promise<{ id
       <dl className="grid grid-cols-[max-content_1fr] gap-x-4">
         <dt className="font-bold">From</dt><dd>{mail.from}</dd>
         <dt className="font-bold">To</dt><dd>{mail.to}</dd>
-        <dt className="font-bold">Sent</dt><dd>{new Date(mail.receivedAt).toLocaleString("en-GB")}</dd>
+        <dt className="font-bold">Sent</dt><dd><When at={mail.receivedAt} /></dd>
       </dl>
       <p className="text-sm text-peat-700">Links are shown with their keys masked (•••): they belong to the recipient, and only work from their own inbox.</p>
       {/* Plain text, never a live link: the masked address would not work anyway. */}
