@@ -2,14 +2,20 @@ import path from "node:path";
 import { defineConfig } from "vitest/config";
 
 // "server-only" throws outside a React server bundle; tests import server code directly.
-const alias = { "@": path.resolve(import.meta.dirname), "server-only": path.resolve(import.meta.dirname, "tests/support/server-only.ts") };
+const alias = {
+  "@": path.resolve(import.meta.dirname),
+  "server-only": path.resolve(import.meta.dirname, "tests/support/server-only.ts"),
+};
 
 export default defineConfig({
   resolve: { alias },
   test: {
     projects: [
       { resolve: { alias }, test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node" } },
-      { resolve: { alias }, test: { name: "reference", include: ["tests/reference/**/*.test.ts"], environment: "node" } },
+      {
+        resolve: { alias },
+        test: { name: "reference", include: ["tests/reference/**/*.test.ts"], environment: "node" },
+      },
       {
         resolve: { alias },
         test: {

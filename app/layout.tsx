@@ -16,7 +16,8 @@ import { canReview } from "@/features/shared/roles";
 
 export const metadata: Metadata = {
   title: { default: "Tanklore", template: "%s · Tanklore" },
-  description: "A fishkeeping club's moderated registry of treatment outcomes, with evidence summaries and a dose planner.",
+  description:
+    "A fishkeeping club's moderated registry of treatment outcomes, with evidence summaries and a dose planner.",
 };
 
 export default async function RootLayout({ children }: { children: ReactNode }) {

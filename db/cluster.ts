@@ -38,17 +38,30 @@ export interface TempPostgres {
  */
 export async function startTempPostgres(): Promise<TempPostgres> {
   if (spawnSync("initdb", ["--version"]).status !== 0 || spawnSync("pg_ctl", ["--version"]).status !== 0) {
-    throw new Error("initdb and pg_ctl (the PostgreSQL server binaries) must be on PATH; on Debian: apt-get install postgresql, then add /usr/lib/postgresql/<version>/bin to PATH.");
+    throw new Error(
+      "initdb and pg_ctl (the PostgreSQL server binaries) must be on PATH; on Debian: apt-get install postgresql, then add /usr/lib/postgresql/<version>/bin to PATH.",
+    );
   }
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), "tanklore-cluster-pg-"));
   const asRoot = process.getuid?.() === 0;
   if (asRoot) execFileSync("chown", ["postgres:postgres", dir]);
   const run = (cmd: string, args: string[]) =>
-    asRoot ? execFileSync("runuser", ["-u", "postgres", "--", cmd, ...args], { stdio: "pipe" }) : execFileSync(cmd, args, { stdio: "pipe" });
+    asRoot
+      ? execFileSync("runuser", ["-u", "postgres", "--", cmd, ...args], { stdio: "pipe" })
+      : execFileSync(cmd, args, { stdio: "pipe" });
   const data = path.join(dir, "data");
   run("initdb", ["-D", data, "-A", "trust", "-U", "tanklore", "--no-sync"]);
   const port = await freePort();
-  run("pg_ctl", ["-D", data, "-w", "-l", path.join(dir, "log"), "-o", `-p ${port} -k ${dir} -h 127.0.0.1 -F -c max_connections=100`, "start"]);
+  run("pg_ctl", [
+    "-D",
+    data,
+    "-w",
+    "-l",
+    path.join(dir, "log"),
+    "-o",
+    `-p ${port} -k ${dir} -h 127.0.0.1 -F -c max_connections=100`,
+    "start",
+  ]);
   let stopped = false;
   return {
     url: `postgres://tanklore@127.0.0.1:${port}/postgres`,
@@ -79,7 +92,11 @@ export interface AppProcess {
 }
 
 /** Starts one production app server (db/http-server.ts, as `npm start` does) — the build must exist. */
-export async function startApp(name: string, env: Record<string, string>, opts: { port?: number; dataDir: string; echo?: boolean }): Promise<AppProcess> {
+export async function startApp(
+  name: string,
+  env: Record<string, string>,
+  opts: { port?: number; dataDir: string; echo?: boolean },
+): Promise<AppProcess> {
   const port = opts.port ?? (await freePort());
   const url = `http://localhost:${port}`;
   fs.mkdirSync(opts.dataDir, { recursive: true });
@@ -130,7 +147,8 @@ export async function waitHealthy(app: AppProcess, timeoutMs = 180_000): Promise
   const until = Date.now() + timeoutMs;
   let last = "no answer";
   while (Date.now() < until) {
-    if (app.child.exitCode !== null) throw new Error(`${app.name} exited (${app.child.exitCode}):\n${app.log.slice(-40).join("\n")}`);
+    if (app.child.exitCode !== null)
+      throw new Error(`${app.name} exited (${app.child.exitCode}):\n${app.log.slice(-40).join("\n")}`);
     try {
       const res = await fetch(`${app.url}/api/health`);
       if (res.ok) return;
@@ -140,7 +158,9 @@ export async function waitHealthy(app: AppProcess, timeoutMs = 180_000): Promise
     }
     await new Promise((r) => setTimeout(r, 300));
   }
-  throw new Error(`${app.name} did not answer /api/health within ${timeoutMs / 1000} s (last: ${last}):\n${app.log.slice(-40).join("\n")}`);
+  throw new Error(
+    `${app.name} did not answer /api/health within ${timeoutMs / 1000} s (last: ${last}):\n${app.log.slice(-40).join("\n")}`,
+  );
 }
 
 /** Builds the app for production when there is no build yet or a source changed since (as `npm start` does). */
@@ -163,7 +183,15 @@ export interface Cluster {
  * PostgreSQL, the S3 fake and `count` app processes. With `together`, the processes start at the same moment
  * (the migration lock must let both come up); otherwise the first is healthy before the others start.
  */
-export async function startCluster(opts: { count?: number; ports?: number[]; echo?: boolean; together?: boolean; extraEnv?: Record<string, string> } = {}): Promise<Cluster> {
+export async function startCluster(
+  opts: {
+    count?: number;
+    ports?: number[];
+    echo?: boolean;
+    together?: boolean;
+    extraEnv?: Record<string, string>;
+  } = {},
+): Promise<Cluster> {
   const tmp = fs.mkdtempSync(path.join(os.tmpdir(), "tanklore-cluster-"));
   const pg = await startTempPostgres();
   let s3: LocalS3 | undefined;
@@ -181,7 +209,11 @@ export async function startCluster(opts: { count?: number; ports?: number[]; ech
     const count = opts.count ?? 2;
     for (let i = 0; i < count; i++) {
       const name = String.fromCharCode(65 + i);
-      const app = await startApp(name, env, { port: opts.ports?.[i], dataDir: path.join(tmp, `data-${name}`), echo: opts.echo });
+      const app = await startApp(name, env, {
+        port: opts.ports?.[i],
+        dataDir: path.join(tmp, `data-${name}`),
+        echo: opts.echo,
+      });
       apps.push(app);
       if (!opts.together) await waitHealthy(app);
     }
@@ -224,5 +256,9 @@ Everything here is temporary: Ctrl+C stops it all and deletes the data.
   };
   process.on("SIGINT", shutdown);
   process.on("SIGTERM", shutdown);
-  for (const a of cluster.apps) a.child.once("exit", (code) => !stopping && console.error(`Process ${a.name} exited (${code}); Ctrl+C stops the rest.`));
+  for (const a of cluster.apps)
+    a.child.once(
+      "exit",
+      (code) => !stopping && console.error(`Process ${a.name} exited (${code}); Ctrl+C stops the rest.`),
+    );
 }

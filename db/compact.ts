@@ -35,7 +35,14 @@ async function main(): Promise<number> {
   const { closeDb, getDb, getDbKind } = await import("./client");
   const db = await getDb();
   const kind = await getDbKind();
-  const size = async () => Number(((await db.execute(sql`select pg_database_size(current_database())::bigint as n`)) as unknown as { rows: { n: string }[] }).rows[0]!.n);
+  const size = async () =>
+    Number(
+      (
+        (await db.execute(sql`select pg_database_size(current_database())::bigint as n`)) as unknown as {
+          rows: { n: string }[];
+        }
+      ).rows[0]!.n,
+    );
   const before = { dir: du(pgdata), live: await size() };
   console.log("VACUUM (ANALYZE)…");
   await db.execute(sql`vacuum (analyze)`);
@@ -47,7 +54,10 @@ async function main(): Promise<number> {
   }
   const after = { dir: du(pgdata), live: await size() };
   await closeDb();
-  if (kind === "pglite") console.log(`Data directory ${mb(before.dir)} → ${mb(after.dir)}; live data (pg_database_size) ${mb(before.live)} → ${mb(after.live)}.`);
+  if (kind === "pglite")
+    console.log(
+      `Data directory ${mb(before.dir)} → ${mb(after.dir)}; live data (pg_database_size) ${mb(before.live)} → ${mb(after.live)}.`,
+    );
   else console.log(`Database size (pg_database_size) ${mb(before.live)} → ${mb(after.live)}.`);
   return 0;
 }

@@ -88,7 +88,9 @@ await new Promise<void>((resolve) => control.listen(0, "127.0.0.1", resolve));
 const controlUrl = `http://127.0.0.1:${(control.address() as net.AddressInfo).port}/${token}`;
 
 const checkpoints = setInterval(() => {
-  queue.exclusive(() => db.exec("CHECKPOINT")).catch((err) => console.error("Embedded database: checkpoint failed:", err));
+  queue
+    .exclusive(() => db.exec("CHECKPOINT"))
+    .catch((err) => console.error("Embedded database: checkpoint failed:", err));
 }, CHECKPOINT_EVERY_MS);
 
 let stopping = false;

@@ -28,9 +28,21 @@ export const demoPeople: DemoPerson[] = [
  * becomes likely). Invented so that the demo summaries have shape; not evidence of anything.
  */
 export const demoPeroxideTolerance: Record<string, number> = {
-  livebearers: 60, tetras: 40, "barbs-rasboras": 50, "goldfish-koi": 70, corydoras: 32, plecos: 38,
-  "scaleless-catfish": 22, loaches: 24, "new-world-cichlids": 55, "african-cichlids": 60, "dwarf-cichlids": 34,
-  anabantoids: 45, "killifish-rainbows": 40, "puffers-eels": 20, invertebrates: 18,
+  livebearers: 60,
+  tetras: 40,
+  "barbs-rasboras": 50,
+  "goldfish-koi": 70,
+  corydoras: 32,
+  plecos: 38,
+  "scaleless-catfish": 22,
+  loaches: 24,
+  "new-world-cichlids": 55,
+  "african-cichlids": 60,
+  "dwarf-cichlids": 34,
+  anabantoids: 45,
+  "killifish-rainbows": 40,
+  "puffers-eels": 20,
+  invertebrates: 18,
 };
 
 /** Deterministic pseudo-random numbers (mulberry32), so the demo is the same on every machine. */

@@ -16,7 +16,10 @@ try {
   process.exit(1);
 }
 try {
-  result = await seedDemo(await getDb(), { password: process.env.DEMO_PASSWORD, reports: process.env.DEMO_REPORTS !== "0" });
+  result = await seedDemo(await getDb(), {
+    password: process.env.DEMO_PASSWORD,
+    reports: process.env.DEMO_REPORTS !== "0",
+  });
 } catch (err) {
   console.error(err instanceof Error ? err.message : err);
   await database.stop();

@@ -6,8 +6,19 @@ const QUERY = 0x51; // 'Q'
 const TERMINATE = 0x58; // 'X'
 const SYNC_MESSAGE = new Uint8Array([SYNC, 0, 0, 0, 4]);
 
-type SocketJob = { handlerId: number; message: Uint8Array; onData: (d: Uint8Array) => void; resolve: (n: number) => void; reject: (e: unknown) => void };
-type InternalJob = { handlerId: 0; run: () => Promise<unknown>; resolve: (v: unknown) => void; reject: (e: unknown) => void };
+type SocketJob = {
+  handlerId: number;
+  message: Uint8Array;
+  onData: (d: Uint8Array) => void;
+  resolve: (n: number) => void;
+  reject: (e: unknown) => void;
+};
+type InternalJob = {
+  handlerId: 0;
+  run: () => Promise<unknown>;
+  resolve: (v: unknown) => void;
+  reject: (e: unknown) => void;
+};
 type Job = SocketJob | InternalJob;
 
 /**

@@ -5,9 +5,16 @@ import { restoreBackup, RestoreRefusedError, type RestoreResult } from "@/featur
 import { dataDir, getEnv } from "@/features/shared/env";
 
 /** What a restore brought back, as the operator reads it. */
-export function describeRestore(file: string, r: RestoreResult, target: { dataDir: string; databaseUrl?: string }): string {
+export function describeRestore(
+  file: string,
+  r: RestoreResult,
+  target: { dataDir: string; databaseUrl?: string },
+): string {
   const c = r.counts;
-  const db = r.manifest.database.kind === "pglite" ? `${target.dataDir}/pgdata (embedded database)` : "the database at DATABASE_URL (pg_restore)";
+  const db =
+    r.manifest.database.kind === "pglite"
+      ? `${target.dataDir}/pgdata (embedded database)`
+      : "the database at DATABASE_URL (pg_restore)";
   const lines = [
     `Restored ${path.basename(file)} (taken ${r.manifest.createdAt} by Tanklore ${r.manifest.appVersion}); every checksum matched.`,
     `  database: ${db}`,
@@ -24,7 +31,9 @@ export function describeRestore(file: string, r: RestoreResult, target: { dataDi
 async function main(argv: string[]): Promise<number> {
   const file = argv[0];
   if (!file || argv.length > 1) {
-    console.error("Usage: npm run restore -- FILE   (restores into DATA_DIR, or DATABASE_URL when set; both must be empty)");
+    console.error(
+      "Usage: npm run restore -- FILE   (restores into DATA_DIR, or DATABASE_URL when set; both must be empty)",
+    );
     return 2;
   }
   try {
@@ -34,7 +43,9 @@ async function main(argv: string[]): Promise<number> {
     console.log(describeRestore(file, r, target));
     return 0;
   } catch (err) {
-    console.error(err instanceof RestoreRefusedError ? err.message : `Restore failed: ${err instanceof Error ? err.message : err}`);
+    console.error(
+      err instanceof RestoreRefusedError ? err.message : `Restore failed: ${err instanceof Error ? err.message : err}`,
+    );
     return 1;
   }
 }

@@ -14,18 +14,32 @@ export interface LocalS3 {
   close: () => Promise<void>;
 }
 
-export async function startLocalS3(opts: { port?: number; dir?: string; bucket?: string; silent?: boolean } = {}): Promise<LocalS3> {
+export async function startLocalS3(
+  opts: { port?: number; dir?: string; bucket?: string; silent?: boolean } = {},
+): Promise<LocalS3> {
   const port = opts.port ?? 9000;
   const dir = path.resolve(opts.dir ?? ".data/s3");
   const bucket = opts.bucket ?? "tanklore";
   fs.mkdirSync(dir, { recursive: true });
   // s3rver accepts any signed request whose key pair is S3RVER/S3RVER.
-  const server = new S3rver({ port, address: "127.0.0.1", directory: dir, silent: opts.silent ?? true, configureBuckets: [{ name: bucket, configs: [] }] });
+  const server = new S3rver({
+    port,
+    address: "127.0.0.1",
+    directory: dir,
+    silent: opts.silent ?? true,
+    configureBuckets: [{ name: bucket, configs: [] }],
+  });
   const info = await server.run();
   const endpoint = `http://127.0.0.1:${info.port}`;
   return {
     endpoint,
-    env: { S3_ENDPOINT: endpoint, S3_BUCKET: bucket, S3_REGION: "us-east-1", S3_ACCESS_KEY_ID: "S3RVER", S3_SECRET_ACCESS_KEY: "S3RVER" },
+    env: {
+      S3_ENDPOINT: endpoint,
+      S3_BUCKET: bucket,
+      S3_REGION: "us-east-1",
+      S3_ACCESS_KEY_ID: "S3RVER",
+      S3_SECRET_ACCESS_KEY: "S3RVER",
+    },
     close: () => server.close(),
   };
 }
@@ -38,9 +52,12 @@ if (isMain) {
     process.exit(1);
   }
   const s3 = await startLocalS3({ port, dir: process.env.S3_DIR, bucket: process.env.S3_BUCKET, silent: false });
-  console.log(`\nA local S3-compatible server is listening at ${s3.endpoint}, keeping objects in ${path.resolve(process.env.S3_DIR ?? ".data/s3")}.`);
+  console.log(
+    `\nA local S3-compatible server is listening at ${s3.endpoint}, keeping objects in ${path.resolve(process.env.S3_DIR ?? ".data/s3")}.`,
+  );
   console.log("Point Tanklore at it with:\n");
   for (const [k, v] of Object.entries(s3.env)) console.log(`  ${k}=${v}`);
   console.log("\nCtrl+C stops it.");
-  for (const sig of ["SIGINT", "SIGTERM"] as const) process.on(sig, () => void s3.close().finally(() => process.exit(0)));
+  for (const sig of ["SIGINT", "SIGTERM"] as const)
+    process.on(sig, () => void s3.close().finally(() => process.exit(0)));
 }

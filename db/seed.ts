@@ -4,7 +4,14 @@ import { hashPassword } from "better-auth/crypto";
 import { closeDb, getDb, schema, type Db } from "./client";
 import { seedCatalogue, speciesIdOf } from "@/features/catalogue/server";
 import { starterAgents, starterSpecies } from "@/features/catalogue/starter-data";
-import { concentrationFromMl, doseMlForTarget, stockMgPerMl, toCelsius, toLitres, type VolumeUnit } from "@/features/dosing";
+import {
+  concentrationFromMl,
+  doseMlForTarget,
+  stockMgPerMl,
+  toCelsius,
+  toLitres,
+  type VolumeUnit,
+} from "@/features/dosing";
 import { DEFAULT_DEMO_PASSWORD, DEMO_CLUB_NAME, demoPeople, demoPeroxideTolerance, prng } from "./demo-data";
 import type { ReportStatus } from "./schema";
 import { drainEvidenceOutbox } from "@/features/evidence/server";
@@ -35,7 +42,11 @@ export async function seedDemo(db: Db, opts: SeedOptions = {}): Promise<SeedResu
   // Only what changed: the demo reports' pairs were queued with them (so a run stopped before this line leaves them
   // queued, not lost); a second run with nothing new drains an empty outbox instead of recomputing every summary.
   await drainEvidenceOutbox({ db });
-  return { password, accounts: demoPeople.map(({ email, name, role }) => ({ email, name, role })), reportsCreated: created };
+  return {
+    password,
+    accounts: demoPeople.map(({ email, name, role }) => ({ email, name, role })),
+    reportsCreated: created,
+  };
 }
 
 async function seedPeople(db: Db, password: string): Promise<Map<string, string>> {
@@ -44,31 +55,61 @@ async function seedPeople(db: Db, password: string): Promise<Map<string, string>
     const id = `demo-${p.email.split("@")[0]}`;
     await db
       .insert(users)
-      .values({ id, name: p.name, email: p.email, emailVerified: true, role: p.role, isDemo: true, createdAt: now, updatedAt: now })
+      .values({
+        id,
+        name: p.name,
+        email: p.email,
+        emailVerified: true,
+        role: p.role,
+        isDemo: true,
+        createdAt: now,
+        updatedAt: now,
+      })
       .onConflictDoNothing();
   }
-  const rows = await db.select({ id: users.id, email: users.email }).from(users).where(inArray(users.email, demoPeople.map((p) => p.email)));
+  const rows = await db
+    .select({ id: users.id, email: users.email })
+    .from(users)
+    .where(
+      inArray(
+        users.email,
+        demoPeople.map((p) => p.email),
+      ),
+    );
   const byEmail = new Map(rows.map((r) => [r.email, r.id]));
   // The demo password is whatever this run was given, so the printed password always works.
   for (const [, userId] of byEmail) {
     const hash = await hashPassword(password);
-    const [existing] = await db.select({ id: accounts.id }).from(accounts).where(and(eq(accounts.userId, userId), eq(accounts.providerId, "credential")));
+    const [existing] = await db
+      .select({ id: accounts.id })
+      .from(accounts)
+      .where(and(eq(accounts.userId, userId), eq(accounts.providerId, "credential")));
     if (existing) await db.update(accounts).set({ password: hash, updatedAt: now }).where(eq(accounts.id, existing.id));
-    else await db.insert(accounts).values({ id: `acct-${userId}`, accountId: userId, providerId: "credential", userId, password: hash });
+    else
+      await db
+        .insert(accounts)
+        .values({ id: `acct-${userId}`, accountId: userId, providerId: "credential", userId, password: hash });
   }
   return byEmail;
 }
 
 const statusPlan: [ReportStatus, number][] = [
-  ["accepted", 110], ["awaiting_review", 14], ["draft", 10], ["declined", 6], ["returned", 5], ["retracted", 5],
+  ["accepted", 110],
+  ["awaiting_review", 14],
+  ["draft", 10],
+  ["declined", 6],
+  ["returned", 5],
+  ["retracted", 5],
 ];
 
 async function seedReports(db: Db, ids: Map<string, string>): Promise<number> {
   const [any] = await db.select({ id: reports.id }).from(reports).where(eq(reports.source, "demo")).limit(1);
   if (any) return 0;
   const rand = prng(20261201);
-  const pick = <T,>(xs: readonly T[]): T => xs[Math.floor(rand() * xs.length)]!;
-  const authors = demoPeople.filter((p) => p.email !== "admin@example.org").map((p) => ({ ...p, id: ids.get(p.email)! }));
+  const pick = <T>(xs: readonly T[]): T => xs[Math.floor(rand() * xs.length)]!;
+  const authors = demoPeople
+    .filter((p) => p.email !== "admin@example.org")
+    .map((p) => ({ ...p, id: ids.get(p.email)! }));
   const moderators = demoPeople.filter((p) => p.role === "moderator").map((p) => ids.get(p.email)!);
   const agentBySlug = new Map(starterAgents.map((a) => [a.slug, a]));
   const otherAgents = ["copper", "salt", "formaldehyde", "methylene-blue", "potassium-permanganate"];
@@ -115,7 +156,14 @@ async function seedReports(db: Db, ids: Map<string, string>): Promise<number> {
     }
     const pCleared = Math.min(0.9, 0.25 + 0.55 * Math.min(1, dose / t));
     const outcomeRoll = rand();
-    const conditionOutcome = outcomeRoll < pCleared ? "cleared" : outcomeRoll < pCleared + 0.15 ? "improved" : outcomeRoll < 0.95 ? "unchanged" : "worse";
+    const conditionOutcome =
+      outcomeRoll < pCleared
+        ? "cleared"
+        : outcomeRoll < pCleared + 0.15
+          ? "improved"
+          : outcomeRoll < 0.95
+            ? "unchanged"
+            : "worse";
     const startedMs = today - Math.floor(rand() * 700) * 86400000;
     const startedOn = new Date(startedMs).toISOString().slice(0, 10);
     const temperatureUnit = volumeUnit === "gal_us" ? "F" : "C";
@@ -129,41 +177,129 @@ async function seedReports(db: Db, ids: Map<string, string>): Promise<number> {
     const decided = new Date(submitted.getTime() + 86400000 * (1 + Math.floor(rand() * 4)));
     const ph = rand() < 0.6 ? Math.round((6.2 + rand() * 1.8) * 10) / 10 : null;
     reportRows.push({
-      id, authorId: author.id, status, source: "demo",
-      speciesId: speciesIdOf(sp.scientificName), groupSlug: sp.group, fishCount, sizeClass: pick(["juvenile", "subadult", "adult", "adult"]),
-      conditionSlug: agentSlug === "salt" ? pick(["white-spot", "none-preventive", "fin-rot"]) : pick(["white-spot", "gill-flukes", "skin-flukes", "ichthyobodo", "trichodina", "columnaris", "none-preventive"]),
-      startedOn, waterVolume: volume, waterVolumeUnit: volumeUnit, volumeL, temperature, temperatureUnit, temperatureC: toCelsius(temperature, temperatureUnit),
-      ph, setting: pick(["bare", "bare", "planted", "other"]),
-      agentSlug, stockFormId: stock.id, stockPercent: stock.percent, stockBasis: stock.basis, stockDensityGPerMl: stock.densityGPerMl, stockActiveFraction: stock.activeFraction ?? 1,
-      amountMl, statedConcentration: off ? Math.round(dose * 1.3 * 10) / 10 : rand() < 0.4 ? Math.round(dose) || Number(dose.toPrecision(1)) : null, // never 0: the report schema needs > 0
-      doses, intervalHours: doses > 1 ? agent.redoseHours : null, otherTreatments: null,
-      fishLost, lossCause, distress, conditionOutcome, observedDaysAfter: 5 + Math.floor(rand() * 14),
+      id,
+      authorId: author.id,
+      status,
+      source: "demo",
+      speciesId: speciesIdOf(sp.scientificName),
+      groupSlug: sp.group,
+      fishCount,
+      sizeClass: pick(["juvenile", "subadult", "adult", "adult"]),
+      conditionSlug:
+        agentSlug === "salt"
+          ? pick(["white-spot", "none-preventive", "fin-rot"])
+          : pick([
+              "white-spot",
+              "gill-flukes",
+              "skin-flukes",
+              "ichthyobodo",
+              "trichodina",
+              "columnaris",
+              "none-preventive",
+            ]),
+      startedOn,
+      waterVolume: volume,
+      waterVolumeUnit: volumeUnit,
+      volumeL,
+      temperature,
+      temperatureUnit,
+      temperatureC: toCelsius(temperature, temperatureUnit),
+      ph,
+      setting: pick(["bare", "bare", "planted", "other"]),
+      agentSlug,
+      stockFormId: stock.id,
+      stockPercent: stock.percent,
+      stockBasis: stock.basis,
+      stockDensityGPerMl: stock.densityGPerMl,
+      stockActiveFraction: stock.activeFraction ?? 1,
+      amountMl,
+      statedConcentration: off
+        ? Math.round(dose * 1.3 * 10) / 10
+        : rand() < 0.4
+          ? Math.round(dose) || Number(dose.toPrecision(1))
+          : null, // never 0: the report schema needs > 0
+      doses,
+      intervalHours: doses > 1 ? agent.redoseHours : null,
+      otherTreatments: null,
+      fishLost,
+      lossCause,
+      distress,
+      conditionOutcome,
+      observedDaysAfter: 5 + Math.floor(rand() * 14),
       notes: `Demo report (invented data). ${adverse ? "Fish showed stress after dosing." : "Fish came through the course."}`,
-      showName: rand() < 0.5, concentration: dose,
-      createdAt: created, updatedAt: status === "draft" ? created : decided,
-      submittedAt: status === "draft" ? null : submitted, decidedAt: ["draft", "awaiting_review"].includes(status) ? null : decided,
+      showName: rand() < 0.5,
+      concentration: dose,
+      createdAt: created,
+      updatedAt: status === "draft" ? created : decided,
+      submittedAt: status === "draft" ? null : submitted,
+      decidedAt: ["draft", "awaiting_review"].includes(status) ? null : decided,
     });
     const mod = moderators.find((m) => m !== author.id) ?? moderators[0]!;
-    eventRows.push({ reportId: id, actorId: author.id, action: "created", fromStatus: null, toStatus: "draft", at: created });
+    eventRows.push({
+      reportId: id,
+      actorId: author.id,
+      action: "created",
+      fromStatus: null,
+      toStatus: "draft",
+      at: created,
+    });
     if (status === "draft") return;
-    eventRows.push({ reportId: id, actorId: author.id, action: "submitted", fromStatus: "draft", toStatus: "awaiting_review", at: submitted });
+    eventRows.push({
+      reportId: id,
+      actorId: author.id,
+      action: "submitted",
+      fromStatus: "draft",
+      toStatus: "awaiting_review",
+      at: submitted,
+    });
     if (status === "awaiting_review") return;
-    const decision = { accepted: "accept", retracted: "accept", returned: "return", declined: "decline" }[status as string]!;
+    const decision = { accepted: "accept", retracted: "accept", returned: "return", declined: "decline" }[
+      status as string
+    ]!;
     const to = status === "retracted" ? "accepted" : status;
-    const note = { accept: null, return: "Please add the stock strength you used and how many days you watched.", decline: "Duplicate of an earlier report of the same course." }[decision] ?? null;
-    eventRows.push({ reportId: id, actorId: mod, action: decision, fromStatus: "awaiting_review", toStatus: to, note, at: decided });
+    const note =
+      {
+        accept: null,
+        return: "Please add the stock strength you used and how many days you watched.",
+        decline: "Duplicate of an earlier report of the same course.",
+      }[decision] ?? null;
+    eventRows.push({
+      reportId: id,
+      actorId: mod,
+      action: decision,
+      fromStatus: "awaiting_review",
+      toStatus: to,
+      note,
+      at: decided,
+    });
     if (status === "retracted") {
-      eventRows.push({ reportId: id, actorId: mod, action: "retract", fromStatus: "accepted", toStatus: "retracted", note: "Entered twice by mistake.", at: new Date(decided.getTime() + 86400000 * 10) });
+      eventRows.push({
+        reportId: id,
+        actorId: mod,
+        action: "retract",
+        fromStatus: "accepted",
+        toStatus: "retracted",
+        note: "Entered twice by mistake.",
+        at: new Date(decided.getTime() + 86400000 * 10),
+      });
     }
   });
 
   await db.transaction(async (tx) => {
     await tx.insert(reports).values(reportRows);
     await tx.insert(reportEvents).values(eventRows);
-    await enqueueEvidenceRecompute(tx, reportRows.filter((r) => r.status === "accepted").map((r) => ({ groupSlug: r.groupSlug, agentSlug: r.agentSlug })));
+    await enqueueEvidenceRecompute(
+      tx,
+      reportRows
+        .filter((r) => r.status === "accepted")
+        .map((r) => ({ groupSlug: r.groupSlug, agentSlug: r.agentSlug })),
+    );
   });
   // Reports awaiting review carry the flags the server computes on submission, like any other.
-  const waiting = await db.select().from(reports).where(and(eq(reports.source, "demo"), eq(reports.status, "awaiting_review")));
+  const waiting = await db
+    .select()
+    .from(reports)
+    .where(and(eq(reports.source, "demo"), eq(reports.status, "awaiting_review")));
   for (const row of waiting) {
     const { flags, completeness } = await computeFlags(db, row);
     await db.update(reports).set({ flags, completeness }).where(eq(reports.id, row.id));

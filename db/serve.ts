@@ -8,7 +8,22 @@ const root = process.cwd();
 // The app runs offline: Next.js sends no telemetry from a build or a server started here.
 process.env.NEXT_TELEMETRY_DISABLED = "1";
 const nextBin = path.join(root, "node_modules", "next", "dist", "bin", "next");
-const sources = ["app", "features", "db", "drizzle", "public", "fonts", "proxy.ts", "instrumentation.ts", "instrumentation-client.ts", "package-lock.json", "next.config.ts", "tailwind.config.ts", "postcss.config.mjs", "tsconfig.json"];
+const sources = [
+  "app",
+  "features",
+  "db",
+  "drizzle",
+  "public",
+  "fonts",
+  "proxy.ts",
+  "instrumentation.ts",
+  "instrumentation-client.ts",
+  "package-lock.json",
+  "next.config.ts",
+  "tailwind.config.ts",
+  "postcss.config.mjs",
+  "tsconfig.json",
+];
 
 function newestMtime(p: string): number {
   if (!fs.existsSync(p)) return 0;
@@ -38,8 +53,13 @@ export function buildIfNeeded(): void {
   const built = fs.existsSync(buildId) ? fs.statSync(buildId).mtimeMs : 0;
   const changed = Math.max(...sources.map((s) => newestMtime(path.join(root, s))));
   if (built && built >= changed) return;
-  console.log(built ? "Sources changed since the last build: building again…" : "Building the app (first run; about a minute)…");
-  const r = spawnSync(process.execPath, [nextBin, "build"], { stdio: "inherit", env: { ...process.env, NODE_ENV: "production", NEXT_TELEMETRY_DISABLED: "1" } });
+  console.log(
+    built ? "Sources changed since the last build: building again…" : "Building the app (first run; about a minute)…",
+  );
+  const r = spawnSync(process.execPath, [nextBin, "build"], {
+    stdio: "inherit",
+    env: { ...process.env, NODE_ENV: "production", NEXT_TELEMETRY_DISABLED: "1" },
+  });
   if (r.status !== 0) {
     console.error("The build failed; see the messages above.");
     process.exit(r.status ?? 1);
@@ -71,12 +91,20 @@ export async function prepareDatabase(): Promise<PreparedDatabase> {
       child.on("message", (m: { tankloreDatabaseReady?: { url: string; control: string } }) => {
         if (m?.tankloreDatabaseReady) resolve(m.tankloreDatabaseReady);
       });
-      child.once("exit", (code) => reject(new Error(`The embedded database process stopped (exit code ${code}) before it was ready; see the messages above.`)));
+      child.once("exit", (code) =>
+        reject(
+          new Error(
+            `The embedded database process stopped (exit code ${code}) before it was ready; see the messages above.`,
+          ),
+        ),
+      );
     });
     let stopping = false;
     child.on("exit", (code, signal) => {
       if (stopping) return;
-      console.error(`The embedded database process stopped unexpectedly (${signal ?? `exit code ${code}`}); stopping the app.`);
+      console.error(
+        `The embedded database process stopped unexpectedly (${signal ?? `exit code ${code}`}); stopping the app.`,
+      );
       process.emit("SIGTERM");
     });
     stop = async () => {
@@ -112,7 +140,13 @@ export async function serve(database: PreparedDatabase, onReady: (url: string) =
   const port = env.PORT;
   const child = spawn(process.execPath, ["--import", "tsx", path.join(root, "db", "http-server.ts")], {
     stdio: ["ignore", "inherit", "inherit"],
-    env: { ...process.env, ...database.appEnv, NODE_ENV: "production", DATA_DIR: dataDir(), NEXT_TELEMETRY_DISABLED: "1" },
+    env: {
+      ...process.env,
+      ...database.appEnv,
+      NODE_ENV: "production",
+      DATA_DIR: dataDir(),
+      NEXT_TELEMETRY_DISABLED: "1",
+    },
   });
   let signalled = false;
   for (const sig of ["SIGINT", "SIGTERM"] as const) {

@@ -7,7 +7,14 @@ import { useEffect, useId, useRef, useState, type ReactNode } from "react";
  * A <details> disclosure (so it opens without JavaScript too) that also closes on Escape — returning focus to its
  * button —, on a click outside, and after a navigation from inside it.
  */
-export function Disclosure({ label, children, className, summaryClassName, panelClassName, testId }: {
+export function Disclosure({
+  label,
+  children,
+  className,
+  summaryClassName,
+  panelClassName,
+  testId,
+}: {
   label: ReactNode;
   children: ReactNode;
   className?: string;

@@ -25,7 +25,9 @@ export const agentSchema = z.object({
 
 export const catalogueSchema = z.object({
   speciesGroups: z.array(z.object({ slug: z.string(), name: z.string(), description: z.string() })),
-  species: z.array(z.object({ id: z.string(), scientificName: z.string(), commonName: z.string(), groupSlug: z.string() })),
+  species: z.array(
+    z.object({ id: z.string(), scientificName: z.string(), commonName: z.string(), groupSlug: z.string() }),
+  ),
   agents: z.array(agentSchema),
   conditions: z.array(z.object({ slug: z.string(), name: z.string() })),
 });

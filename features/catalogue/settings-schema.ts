@@ -7,10 +7,19 @@ export const clubSettingsSchema = z.object({
     .min(2, "The club's name needs at least 2 characters.")
     .max(120, "The club's name is at most 120 characters.")
     // The settings form posts to a server action, not through parseJson: refuse control characters here too.
-    // eslint-disable-next-line no-control-regex -- matching control characters is the point
-    .regex(/^[^\u0000-\u001F\u007F]*$/, "The club's name cannot hold control characters (tabs and line breaks included)."),
-  confidenceLevel: z.coerce.number().refine((v) => [80, 90, 95, 99].includes(v), "Confidence level must be 80, 90, 95 or 99 %."),
-  minReports: z.coerce.number({ error: "Minimum reports must be a whole number." }).int("Minimum reports must be a whole number.").min(1, "Minimum reports is at least 1.").max(1000, "Minimum reports is at most 1000."),
+    .regex(
+      // eslint-disable-next-line no-control-regex -- matching control characters is the point
+      /^[^\u0000-\u001F\u007F]*$/,
+      "The club's name cannot hold control characters (tabs and line breaks included).",
+    ),
+  confidenceLevel: z.coerce
+    .number()
+    .refine((v) => [80, 90, 95, 99].includes(v), "Confidence level must be 80, 90, 95 or 99 %."),
+  minReports: z.coerce
+    .number({ error: "Minimum reports must be a whole number." })
+    .int("Minimum reports must be a whole number.")
+    .min(1, "Minimum reports is at least 1.")
+    .max(1000, "Minimum reports is at most 1000."),
   defaultVolumeUnit: z.enum(["L", "gal_us", "gal_imp"], { error: "Default volume unit must be L, gal_us or gal_imp." }),
   defaultTemperatureUnit: z.enum(["C", "F"], { error: "Default temperature unit must be C or F." }),
   firstDoseFraction: z.coerce

@@ -31,12 +31,14 @@ export function stockMgPerMl(stock: Stock): number {
   let gramsPer100Ml = stock.percent;
   if (stock.basis === "w/w") {
     const d = stock.densityGPerMl;
-    if (d == null) throw new DosingInputError("densityGPerMl", "A % w/w strength needs the solution's density in g/mL.");
+    if (d == null)
+      throw new DosingInputError("densityGPerMl", "A % w/w strength needs the solution's density in g/mL.");
     if (!(d >= 0.5 && d <= 3)) throw new DosingInputError("densityGPerMl", "Density must be between 0.5 and 3 g/mL.");
     gramsPer100Ml = stock.percent * d;
   }
   const active = stock.activeFraction ?? 1;
-  if (!(active > 0 && active <= 1)) throw new DosingInputError("activeFraction", "Active fraction must be above 0 and at most 1.");
+  if (!(active > 0 && active <= 1))
+    throw new DosingInputError("activeFraction", "Active fraction must be above 0 and at most 1.");
   return gramsPer100Ml * 10 * active;
 }
 
@@ -44,12 +46,22 @@ export function stockMgPerMl(stock: Stock): number {
 const mgPerLPerUnit = (unit: ConcentrationUnit) => (unit === "g/L" ? 1000 : 1);
 
 /** mL of stock that brings `volumeL` litres to `target` (in the agent's unit). */
-export function doseMlForTarget(target: number, volumeL: number, mgPerMl: number, unit: ConcentrationUnit = "mg/L"): number {
+export function doseMlForTarget(
+  target: number,
+  volumeL: number,
+  mgPerMl: number,
+  unit: ConcentrationUnit = "mg/L",
+): number {
   return (target * mgPerLPerUnit(unit) * volumeL) / mgPerMl;
 }
 
 /** The concentration (in the agent's unit) that `addedMl` of stock makes in `volumeL` litres. */
-export function concentrationFromMl(addedMl: number, volumeL: number, mgPerMl: number, unit: ConcentrationUnit = "mg/L"): number {
+export function concentrationFromMl(
+  addedMl: number,
+  volumeL: number,
+  mgPerMl: number,
+  unit: ConcentrationUnit = "mg/L",
+): number {
   return (addedMl * mgPerMl) / volumeL / mgPerLPerUnit(unit);
 }
 

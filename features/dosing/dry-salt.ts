@@ -67,16 +67,23 @@ export function planDrySalt(input: DryPlanInput): DryPlan {
   const hasTarget = input.target !== undefined;
   const hasAdded = input.addedGrams !== undefined;
   if (hasTarget === hasAdded) {
-    throw new DosingInputError(hasTarget ? "addedGrams" : "target", "Give either a target concentration or the grams of dry salt added, not both.");
+    throw new DosingInputError(
+      hasTarget ? "addedGrams" : "target",
+      "Give either a target concentration or the grams of dry salt added, not both.",
+    );
   }
   if (hasTarget && !(input.target! > 0)) throw new DosingInputError("target", "Target concentration must be above 0.");
   if (hasAdded && !(input.addedGrams! > 0)) throw new DosingInputError("addedGrams", "Grams added must be above 0.");
   const f = input.fraction;
-  if (f !== undefined && !(f > 0 && f <= 1)) throw new DosingInputError("fraction", "The first-dose fraction must be above 0 and at most 1.");
+  if (f !== undefined && !(f > 0 && f <= 1))
+    throw new DosingInputError("fraction", "The first-dose fraction must be above 0 and at most 1.");
   const doseGrams = hasTarget ? gramsForTarget(input.target!, volumeL, input.unit) : input.addedGrams!;
   const concentration = hasTarget ? input.target! : concentrationFromGrams(doseGrams, volumeL, input.unit);
   if (!Number.isFinite(doseGrams) || !Number.isFinite(concentration) || !(volumeL > 0)) {
-    throw new DosingInputError(hasTarget ? "target" : "addedGrams", "These numbers are too large or too small to give a dose: check the volume and amounts.");
+    throw new DosingInputError(
+      hasTarget ? "target" : "addedGrams",
+      "These numbers are too large or too small to give a dose: check the volume and amounts.",
+    );
   }
   const plan: DryPlan = {
     form: "dry",
@@ -90,7 +97,12 @@ export function planDrySalt(input: DryPlanInput): DryPlan {
     weighed: weighable(doseGrams),
   };
   if (f !== undefined) {
-    plan.firstDose = { fraction: f, doseGrams: doseGrams * f, concentration: concentration * f, weighed: weighable(doseGrams * f) };
+    plan.firstDose = {
+      fraction: f,
+      doseGrams: doseGrams * f,
+      concentration: concentration * f,
+      weighed: weighable(doseGrams * f),
+    };
   }
   return plan;
 }

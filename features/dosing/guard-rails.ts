@@ -52,13 +52,23 @@ export function doseWarnings(input: GuardInput): DoseWarning[] {
   const warnings: DoseWarning[] = [];
   const { unit, ceiling, evidence } = input;
   const doses = input.doses.filter((d) => Number.isFinite(d.concentration));
-  const highest = doses.reduce<{ label: string; concentration: number } | null>((m, d) => (m === null || d.concentration > m.concentration ? d : m), null);
-  const over = (limit: number, inclusive: boolean) => doses.filter((d) => (inclusive ? d.concentration >= limit : d.concentration > limit));
+  const highest = doses.reduce<{ label: string; concentration: number } | null>(
+    (m, d) => (m === null || d.concentration > m.concentration ? d : m),
+    null,
+  );
+  const over = (limit: number, inclusive: boolean) =>
+    doses.filter((d) => (inclusive ? d.concentration >= limit : d.concentration > limit));
   // "The target (25 mg/L) is" / "Dose 2 and dose 3 (25.1 mg/L) are": names the offending doses in words.
   const name = (list: { label: string; concentration: number }[]) => {
     const top = list.reduce((m, d) => (d.concentration > m.concentration ? d : m));
     const same = list.every((d) => d.concentration === top.concentration);
-    const labels = list.length === 1 ? list[0]!.label : `${list.slice(0, -1).map((d) => d.label).join(", ")} and ${list.at(-1)!.label}`;
+    const labels =
+      list.length === 1
+        ? list[0]!.label
+        : `${list
+            .slice(0, -1)
+            .map((d) => d.label)
+            .join(", ")} and ${list.at(-1)!.label}`;
     return `${capital(labels)} (${same ? "" : "up to "}${fmt(top.concentration)} ${unit}) ${list.length === 1 ? "is" : "are"}`;
   };
 
@@ -144,7 +154,10 @@ export interface SuggestedFirstDose {
  * A cautious first dose from a group's evidence: `fraction` of the tolerated median, never at or above the lowest
  * adverse dose (then the same fraction of that dose) nor above the BMDL where a fit has one. Null without a median.
  */
-export function suggestFirstDose(evidence: GuardEvidence | null | undefined, fraction = DEFAULT_FIRST_DOSE_FRACTION): SuggestedFirstDose | null {
+export function suggestFirstDose(
+  evidence: GuardEvidence | null | undefined,
+  fraction = DEFAULT_FIRST_DOSE_FRACTION,
+): SuggestedFirstDose | null {
   const median = evidence?.toleratedDose.median;
   if (!evidence || median == null || !(median > 0)) return null;
   let concentration = median * fraction;

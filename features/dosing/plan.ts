@@ -1,4 +1,11 @@
-import { concentrationFromMl, doseMlForTarget, DosingInputError, stockMgPerMl, type ConcentrationUnit, type Stock } from "./concentration";
+import {
+  concentrationFromMl,
+  doseMlForTarget,
+  DosingInputError,
+  stockMgPerMl,
+  type ConcentrationUnit,
+  type Stock,
+} from "./concentration";
 import { measurable, type Measure } from "./syringe";
 import { toleranceFor } from "./strength";
 import type { DryPlan } from "./dry-salt";
@@ -6,7 +13,14 @@ import { litresFromDimensions, toLitres, type LengthUnit, type VolumeUnit } from
 
 export type VolumeInput =
   | { kind: "volume"; volume: number; unit: VolumeUnit }
-  | { kind: "dimensions"; length: number; width: number; depth: number; unit: LengthUnit; displacementPercent?: number };
+  | {
+      kind: "dimensions";
+      length: number;
+      width: number;
+      depth: number;
+      unit: LengthUnit;
+      displacementPercent?: number;
+    };
 
 export interface PlanInput {
   agentSlug: string;
@@ -32,7 +46,13 @@ export interface Plan {
   measured: Measure;
   firstDose?: { fraction: number; doseMl: number; concentration: number; measured: Measure };
   /** Where the label strength has a published tolerance: the concentration it really gives lies in this range. */
-  strengthRange?: { lowPercent: number; highPercent: number; concentrationLow: number; concentrationHigh: number; source: string };
+  strengthRange?: {
+    lowPercent: number;
+    highPercent: number;
+    concentrationLow: number;
+    concentrationHigh: number;
+    source: string;
+  };
 }
 
 const mgPerLPerUnit = (unit: ConcentrationUnit) => (unit === "g/L" ? 1000 : 1);
@@ -42,11 +62,16 @@ export function volumeLitres(w: VolumeInput): number {
     if (!(w.volume > 0)) throw new DosingInputError("volume", "Water volume must be above 0.");
     return toLitres(w.volume, w.unit);
   }
-  for (const [field, v] of [["length", w.length], ["width", w.width], ["depth", w.depth]] as const) {
+  for (const [field, v] of [
+    ["length", w.length],
+    ["width", w.width],
+    ["depth", w.depth],
+  ] as const) {
     if (!(v > 0)) throw new DosingInputError(field, `Tank ${field} must be above 0.`);
   }
   const d = w.displacementPercent ?? 0;
-  if (!(d >= 0 && d < 100)) throw new DosingInputError("displacementPercent", "Displacement is a percentage from 0 up to (not including) 100.");
+  if (!(d >= 0 && d < 100))
+    throw new DosingInputError("displacementPercent", "Displacement is a percentage from 0 up to (not including) 100.");
   return litresFromDimensions(w.length, w.width, w.depth, w.unit, d);
 }
 
@@ -57,17 +82,24 @@ export function planDose(input: PlanInput): Plan {
   const hasTarget = input.target !== undefined;
   const hasAdded = input.addedMl !== undefined;
   if (hasTarget === hasAdded) {
-    throw new DosingInputError(hasTarget ? "addedMl" : "target", "Give either a target concentration or the mL added, not both.");
+    throw new DosingInputError(
+      hasTarget ? "addedMl" : "target",
+      "Give either a target concentration or the mL added, not both.",
+    );
   }
   if (hasTarget && !(input.target! > 0)) throw new DosingInputError("target", "Target concentration must be above 0.");
   if (hasAdded && !(input.addedMl! > 0)) throw new DosingInputError("addedMl", "Millilitres added must be above 0.");
   const f = input.fraction;
-  if (f !== undefined && !(f > 0 && f <= 1)) throw new DosingInputError("fraction", "The first-dose fraction must be above 0 and at most 1.");
+  if (f !== undefined && !(f > 0 && f <= 1))
+    throw new DosingInputError("fraction", "The first-dose fraction must be above 0 and at most 1.");
 
   const doseMl = hasTarget ? doseMlForTarget(input.target!, volumeL, mgPerMl, input.unit) : input.addedMl!;
   const concentration = hasTarget ? input.target! : concentrationFromMl(doseMl, volumeL, mgPerMl, input.unit);
   if (!Number.isFinite(doseMl) || !Number.isFinite(concentration) || !(volumeL > 0)) {
-    throw new DosingInputError(hasTarget ? "target" : "addedMl", "These numbers are too large or too small to give a dose: check the volume and amounts.");
+    throw new DosingInputError(
+      hasTarget ? "target" : "addedMl",
+      "These numbers are too large or too small to give a dose: check the volume and amounts.",
+    );
   }
   const plan: Plan = {
     agent: input.agentSlug,
@@ -81,7 +113,12 @@ export function planDose(input: PlanInput): Plan {
     measured: measurable(doseMl),
   };
   if (f !== undefined) {
-    plan.firstDose = { fraction: f, doseMl: doseMl * f, concentration: concentration * f, measured: measurable(doseMl * f) };
+    plan.firstDose = {
+      fraction: f,
+      doseMl: doseMl * f,
+      concentration: concentration * f,
+      measured: measurable(doseMl * f),
+    };
   }
   const tol = toleranceFor(input.agentSlug, input.stock.percent);
   if (tol && tol.basis === input.stock.basis) {
@@ -104,18 +141,32 @@ export interface ChecklistItem {
 }
 
 /** A dated redosing and watching plan: a dose every `redoseHours`, then `watchDays` of watching. */
-export function redoseChecklist(start: Date, doses: number, redoseHours: number | null, watchDays: number): ChecklistItem[] {
+export function redoseChecklist(
+  start: Date,
+  doses: number,
+  redoseHours: number | null,
+  watchDays: number,
+): ChecklistItem[] {
   const items: ChecklistItem[] = [];
   const hour = 3600_000;
   const n = redoseHours ? Math.max(1, doses) : 1;
   for (let i = 0; i < n; i++) {
     const at = new Date(start.getTime() + i * (redoseHours ?? 0) * hour);
     items.push({ at, kind: "dose", label: `Dose ${i + 1} of ${n}` });
-    items.push({ at: new Date(at.getTime() + hour), kind: "check", label: `Watch the fish for an hour after dose ${i + 1}` });
+    items.push({
+      at: new Date(at.getTime() + hour),
+      kind: "check",
+      label: `Watch the fish for an hour after dose ${i + 1}`,
+    });
   }
   const last = items.filter((x) => x.kind === "dose").at(-1)!.at;
   for (let d = 1; d <= watchDays; d++) {
-    items.push({ at: new Date(last.getTime() + d * 24 * hour), kind: d === watchDays ? "end" : "check", label: d === watchDays ? "Last day of watching: record the outcome" : `Day ${d} after the last dose: check the fish` });
+    items.push({
+      at: new Date(last.getTime() + d * 24 * hour),
+      kind: d === watchDays ? "end" : "check",
+      label:
+        d === watchDays ? "Last day of watching: record the outcome" : `Day ${d} after the last dose: check the fish`,
+    });
   }
   return items;
 }
@@ -132,14 +183,25 @@ export interface CourseItem extends ChecklistItem {
  * The dated course of a plan: the first dose reduced when the plan has a first-dose fraction below 1, later doses
  * full, each followed by a check, then the days of watching.
  */
-export function courseSchedule(plan: Plan | DryPlan, start: Date, doses: number, redoseHours: number | null, watchDays: number): CourseItem[] {
+export function courseSchedule(
+  plan: Plan | DryPlan,
+  start: Date,
+  doses: number,
+  redoseHours: number | null,
+  watchDays: number,
+): CourseItem[] {
   let n = 0;
   return redoseChecklist(start, doses, redoseHours, watchDays).map((item) => {
     if (item.kind !== "dose") return item;
     const reduced = n++ === 0 && plan.firstDose !== undefined && plan.firstDose.fraction < 1;
     if ("form" in plan && plan.form === "dry") {
       const d = reduced ? plan.firstDose! : plan;
-      return { ...item, doseGrams: d.weighed.grams > 0 ? d.weighed.grams : d.doseGrams, concentration: d.concentration, reduced };
+      return {
+        ...item,
+        doseGrams: d.weighed.grams > 0 ? d.weighed.grams : d.doseGrams,
+        concentration: d.concentration,
+        reduced,
+      };
     }
     const d = reduced ? (plan as Plan).firstDose! : (plan as Plan);
     return { ...item, doseMl: d.measured.ml > 0 ? d.measured.ml : d.doseMl, concentration: d.concentration, reduced };

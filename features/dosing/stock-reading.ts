@@ -42,15 +42,24 @@ export interface StockReading {
 export function readStrength(input: StrengthInput): StockReading {
   const preset = input.preset ?? null;
   const percent = input.percent ?? preset?.percent;
-  if (percent === undefined) throw new DosingInputError("stockPercent", "Give the stock strength in %, or name one of the agent's stock forms.");
+  if (percent === undefined)
+    throw new DosingInputError("stockPercent", "Give the stock strength in %, or name one of the agent's stock forms.");
   const basis = input.basis ?? preset?.basis ?? "w/v";
   if (preset && basis !== preset.basis) {
-    throw new DosingInputError("basis", `That stock form is ${preset.basis}; leave the basis out or give ${preset.basis}.`);
+    throw new DosingInputError(
+      "basis",
+      `That stock form is ${preset.basis}; leave the basis out or give ${preset.basis}.`,
+    );
   }
   const densityGPerMl = input.densityGPerMl ?? preset?.densityGPerMl ?? null;
   const fromCompound = preset != null && (preset.activeFraction !== 1 || Boolean(preset.compound));
   const activeFraction = preset ? preset.activeFraction : 1;
-  const mgPerMl = stockMgPerMl({ percent, basis, densityGPerMl: basis === "w/w" ? densityGPerMl : null, activeFraction });
+  const mgPerMl = stockMgPerMl({
+    percent,
+    basis,
+    densityGPerMl: basis === "w/w" ? densityGPerMl : null,
+    activeFraction,
+  });
   return {
     percent,
     basis,

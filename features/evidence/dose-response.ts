@@ -58,7 +58,8 @@ export const chiSquare1Quantile = (p: number) => normalQuantile((1 + p) / 2) ** 
 /** The profile-deviance cut-off for one-sided limits at `level` %: χ²₁ at 1 − 2α, α = 1 − level/100. */
 export const profileCutoff = (level: number) => normalQuantile(level / 100) ** 2;
 
-export const isFitted = (d: DoseResponse | null | undefined): d is DoseResponseFit => !!d && !("fit" in d && d.fit === null);
+export const isFitted = (d: DoseResponse | null | undefined): d is DoseResponseFit =>
+  !!d && !("fit" in d && d.fit === null);
 
 const none = (reason: string): DoseResponseNone => ({ model: "logit-log10", fit: null, reason });
 
@@ -81,7 +82,11 @@ interface Data {
   y: number[];
 }
 
-const dataOf = (g: Trial[]): Data => ({ x: g.map((t) => Math.log10(t.dose)), n: g.map((t) => t.n), y: g.map((t) => t.adverse) });
+const dataOf = (g: Trial[]): Data => ({
+  x: g.map((t) => Math.log10(t.dose)),
+  n: g.map((t) => t.n),
+  y: g.map((t) => t.adverse),
+});
 
 /** ℓ(a, b) without the binomial coefficients: Σ y·η − n·log(1 + e^η), η = a + b·log10 dose. */
 export function logLikelihood(trials: Trial[], a: number, b: number): number {
@@ -109,7 +114,11 @@ function newton(d: Data, xbar: number): { alpha: number; beta: number; info: [nu
   const ll = (al: number, be: number) => logLik(d, al - be * xbar, be);
   let cur = ll(alpha, beta);
   for (let iter = 0; iter < 200; iter++) {
-    let g0 = 0, g1 = 0, i00 = 0, i01 = 0, i11 = 0;
+    let g0 = 0,
+      g1 = 0,
+      i00 = 0,
+      i01 = 0,
+      i11 = 0;
     for (let i = 0; i < d.x.length; i++) {
       const xc = d.x[i]! - xbar;
       const p = expit(alpha + beta * xc);
@@ -146,7 +155,9 @@ function newton(d: Data, xbar: number): { alpha: number; beta: number; info: [nu
 }
 
 function informationAt(d: Data, xbar: number, alpha: number, beta: number): [number, number, number] {
-  let i00 = 0, i01 = 0, i11 = 0;
+  let i00 = 0,
+    i01 = 0,
+    i11 = 0;
   for (let i = 0; i < d.x.length; i++) {
     const xc = d.x[i]! - xbar;
     const p = expit(alpha + beta * xc);
@@ -161,13 +172,17 @@ function informationAt(d: Data, xbar: number, alpha: number, beta: number): [num
 /** ℓ, its derivative in b, minus its second derivative in b, and Σ(y − n·p), at a = logit(bmr) − b·u: one pass. */
 function profilePass(d: Data, u: number, b: number) {
   const L = logit(BMR);
-  let ll = 0, g = 0, h = 0, r = 0;
+  let ll = 0,
+    g = 0,
+    h = 0,
+    r = 0;
   for (let i = 0; i < d.x.length; i++) {
     const t = d.x[i]! - u;
     const eta = L + b * t;
     const e = Math.exp(-Math.abs(eta));
     const p = eta >= 0 ? 1 / (1 + e) : e / (1 + e);
-    const n = d.n[i]!, res = d.y[i]! - n * p;
+    const n = d.n[i]!,
+      res = d.y[i]! - n * p;
     ll += d.y[i]! * eta - n * (Math.max(eta, 0) + Math.log1p(e));
     g += res * t;
     h += n * p * (1 - p) * t * t;
@@ -217,7 +232,15 @@ export function profileDeviance(trials: Trial[], fit: Pick<DoseResponseFit, "a" 
  * Brackets it stepping outward from the Wald guess, then Newton on the deviance (its slope in u is 2·b·Σ(y − n·p)),
  * falling back to bisection whenever a step would leave the bracket.
  */
-function profileLimit(d: Data, llHat: number, u0: number, b0: number, seU: number, dir: -1 | 1, cut: number): number | null {
+function profileLimit(
+  d: Data,
+  llHat: number,
+  u0: number,
+  b0: number,
+  seU: number,
+  dir: -1 | 1,
+  cut: number,
+): number | null {
   const at = (u: number, start: number) => {
     const p = profileLogLik(d, u, start);
     return { u, dev: 2 * (llHat - p.ll), slope: 2 * p.b * p.r, b: p.b };
@@ -234,14 +257,20 @@ function profileLimit(d: Data, llHat: number, u0: number, b0: number, seU: numbe
   let cur = outer;
   for (let i = 0; i < 200; i++) {
     let u = cur.u - (cur.dev - cut) / cur.slope;
-    const lo = Math.min(inner.u, outer.u), hi = Math.max(inner.u, outer.u);
+    const lo = Math.min(inner.u, outer.u),
+      hi = Math.max(inner.u, outer.u);
     if (!(u > lo && u < hi)) u = (inner.u + outer.u) / 2;
     const next = at(u, cur.b);
     if (next.dev >= cut) outer = next;
     else inner = next;
     const moved = Math.abs(next.u - cur.u);
     cur = next;
-    if (Math.abs(cur.dev - cut) < 1e-11 || moved <= 1e-14 * (1 + Math.abs(cur.u)) || Math.abs(outer.u - inner.u) <= 1e-14 * (1 + Math.abs(cur.u))) break;
+    if (
+      Math.abs(cur.dev - cut) < 1e-11 ||
+      moved <= 1e-14 * (1 + Math.abs(cur.u)) ||
+      Math.abs(outer.u - inner.u) <= 1e-14 * (1 + Math.abs(cur.u))
+    )
+      break;
   }
   return cur.u;
 }
@@ -258,19 +287,39 @@ export function fitDoseResponse(trials: Trial[], level: number): DoseResponse {
   const N = g.reduce((s, t) => s + t.n, 0);
   const Y = g.reduce((s, t) => s + t.adverse, 0);
   if (N === 0) return none("No accepted reports with a dose above zero yet.");
-  if (N < MIN_REPORTS_FOR_CURVE) return none(`Only ${N} report${N === 1 ? "" : "s"} with a dose; a dose–response curve needs at least ${MIN_REPORTS_FOR_CURVE}.`);
-  if (Y < 2) return none(`Only ${Y} of ${N} reports went badly; a dose–response curve needs at least 2 that went badly and 2 that went well.`);
-  if (N - Y < 2) return none(`Only ${N - Y} of ${N} reports went well; a dose–response curve needs at least 2 that went badly and 2 that went well.`);
-  if (g.length < 3) return none(`The reports cover only ${g.length} distinct dose${g.length === 1 ? "" : "s"}; a dose–response curve needs at least 3.`);
+  if (N < MIN_REPORTS_FOR_CURVE)
+    return none(
+      `Only ${N} report${N === 1 ? "" : "s"} with a dose; a dose–response curve needs at least ${MIN_REPORTS_FOR_CURVE}.`,
+    );
+  if (Y < 2)
+    return none(
+      `Only ${Y} of ${N} reports went badly; a dose–response curve needs at least 2 that went badly and 2 that went well.`,
+    );
+  if (N - Y < 2)
+    return none(
+      `Only ${N - Y} of ${N} reports went well; a dose–response curve needs at least 2 that went badly and 2 that went well.`,
+    );
+  if (g.length < 3)
+    return none(
+      `The reports cover only ${g.length} distinct dose${g.length === 1 ? "" : "s"}; a dose–response curve needs at least 3.`,
+    );
 
   // (Quasi-)complete separation: a dose splitting the outcomes perfectly leaves no finite estimate.
-  const adv = g.filter((t) => t.adverse > 0), tol = g.filter((t) => t.n - t.adverse > 0);
-  const minAdv = adv[0]!.dose, maxAdv = adv[adv.length - 1]!.dose, minTol = tol[0]!.dose, maxTol = tol[tol.length - 1]!.dose;
+  const adv = g.filter((t) => t.adverse > 0),
+    tol = g.filter((t) => t.n - t.adverse > 0);
+  const minAdv = adv[0]!.dose,
+    maxAdv = adv[adv.length - 1]!.dose,
+    minTol = tol[0]!.dose,
+    maxTol = tol[tol.length - 1]!.dose;
   if (minAdv >= maxTol) {
-    return none(`The reports split cleanly by dose: every course at ${fmt(minAdv)} or above went badly and every one at ${fmt(maxTol)} or below went well, so how steeply the risk rises cannot be estimated.`);
+    return none(
+      `The reports split cleanly by dose: every course at ${fmt(minAdv)} or above went badly and every one at ${fmt(maxTol)} or below went well, so how steeply the risk rises cannot be estimated.`,
+    );
   }
   if (maxAdv <= minTol) {
-    return none(`The risk does not rise with dose here: every course at ${fmt(maxAdv)} or below went badly and every one at ${fmt(minTol)} or above went well.`);
+    return none(
+      `The risk does not rise with dose here: every course at ${fmt(maxAdv)} or below went badly and every one at ${fmt(minTol)} or above went well.`,
+    );
   }
 
   const d = dataOf(g);
@@ -278,15 +327,19 @@ export function fitDoseResponse(trials: Trial[], level: number): DoseResponse {
   const m = newton(d, xbar);
   if (!m) return none("The fit did not settle (its estimates kept growing), so no curve is shown.");
   const b = m.beta;
-  if (!(b > 0)) return none(`The fitted risk does not rise with dose (slope ${fmt(b)}), so there is no benchmark dose.`);
+  if (!(b > 0))
+    return none(`The fitted risk does not rise with dose (slope ${fmt(b)}), so there is no benchmark dose.`);
   const a = m.alpha - b * xbar;
   // Covariance: the inverse information in centred coordinates, moved back to (a, b) = (α − β·x̄, β).
   const [i00, i01, i11] = m.info;
   const det = i00 * i11 - i01 * i01;
-  const vAl = i11 / det, vBe = i00 / det, cAlBe = -i01 / det;
+  const vAl = i11 / det,
+    vBe = i00 / det,
+    cAlBe = -i01 / det;
   const varA = vAl + xbar * xbar * vBe - 2 * xbar * cAlBe;
   const covAB = cAlBe - xbar * vBe;
-  const seA = Math.sqrt(varA), seB = Math.sqrt(vBe);
+  const seA = Math.sqrt(varA),
+    seB = Math.sqrt(vBe);
 
   const llHat = logLik(d, a, b);
   const u0 = (logit(BMR) - a) / b;
@@ -296,19 +349,23 @@ export function fitDoseResponse(trials: Trial[], level: number): DoseResponse {
   const uL = profileLimit(d, llHat, u0, b, seU, -1, cut);
   const uU = profileLimit(d, llHat, u0, b, seU, 1, cut);
   if (uL === null || uU === null) {
-    return none(`The reports do not show the risk rising with dose clearly enough to bound the benchmark dose at the ${level} % level.`);
+    return none(
+      `The reports do not show the risk rising with dose clearly enough to bound the benchmark dose at the ${level} % level.`,
+    );
   }
 
   let deviance = 0;
   for (let i = 0; i < d.x.length; i++) {
-    const n = d.n[i]!, y = d.y[i]!;
+    const n = d.n[i]!,
+      y = d.y[i]!;
     const mu = n * expit(a + b * d.x[i]!);
     if (y > 0) deviance += 2 * y * Math.log(y / mu);
     if (n - y > 0) deviance += 2 * (n - y) * Math.log((n - y) / (n - mu));
   }
 
   const z = zFor(level);
-  const lo = d.x[0]!, hi = d.x[d.x.length - 1]!;
+  const lo = d.x[0]!,
+    hi = d.x[d.x.length - 1]!;
   const curve: CurvePoint[] = Array.from({ length: CURVE_POINTS }, (_, i) => {
     const x = lo + ((hi - lo) * i) / (CURVE_POINTS - 1);
     const dose = i === 0 ? g[0]!.dose : i === CURVE_POINTS - 1 ? g[g.length - 1]!.dose : 10 ** x;
@@ -317,7 +374,21 @@ export function fitDoseResponse(trials: Trial[], level: number): DoseResponse {
     return { dose, risk: expit(eta), low: expit(eta - z * se), high: expit(eta + z * se) };
   });
 
-  return { model: "logit-log10", a, b, seA, seB, covAB, bmr: BMR, bmd: 10 ** u0, bmdl: 10 ** uL, bmdu: 10 ** uU, deviance, df: g.length - 2, curve };
+  return {
+    model: "logit-log10",
+    a,
+    b,
+    seA,
+    seB,
+    covAB,
+    bmr: BMR,
+    bmd: 10 ** u0,
+    bmdl: 10 ** uL,
+    bmdu: 10 ** uU,
+    deviance,
+    df: g.length - 2,
+    curve,
+  };
 }
 
 /** The fitted risk at a dose with its Wald interval on the linear predictor, at the club's level. */

@@ -8,9 +8,17 @@ export const ANECDOTAL_TEXT =
 
 const doseResponseFitSchema = z.object({
   model: z.literal("logit-log10"),
-  a: z.number(), b: z.number(), seA: z.number(), seB: z.number(), covAB: z.number(),
-  bmr: z.number(), bmd: z.number(), bmdl: z.number(), bmdu: z.number(),
-  deviance: z.number(), df: z.number().int(),
+  a: z.number(),
+  b: z.number(),
+  seA: z.number(),
+  seB: z.number(),
+  covAB: z.number(),
+  bmr: z.number(),
+  bmd: z.number(),
+  bmdl: z.number(),
+  bmdu: z.number(),
+  deviance: z.number(),
+  df: z.number().int(),
   curve: z.array(z.object({ dose: z.number(), risk: z.number(), low: z.number(), high: z.number() })),
 });
 const doseResponseNoneSchema = z.object({ model: z.literal("logit-log10"), fit: z.null(), reason: z.string() });
@@ -27,8 +35,13 @@ export const summarySchema = z.object({
   tolerated: z.number().int(),
   toleratedShare: interval,
   toleratedDose: z.object({
-    min: z.number().nullable(), p10: z.number().nullable(), p25: z.number().nullable(), median: z.number().nullable(),
-    p75: z.number().nullable(), p90: z.number().nullable(), max: z.number().nullable(),
+    min: z.number().nullable(),
+    p10: z.number().nullable(),
+    p25: z.number().nullable(),
+    median: z.number().nullable(),
+    p75: z.number().nullable(),
+    p90: z.number().nullable(),
+    max: z.number().nullable(),
     medianInterval: z.object({ low: z.number(), high: z.number(), coverage: z.number() }).nullable(),
   }),
   lowestAdverseDose: z.number().nullable(),
@@ -37,19 +50,47 @@ export const summarySchema = z.object({
 });
 
 export const bandSchema = z.object({
-  from: z.number(), to: z.number().nullable(), reports: z.number().int(), tolerated: z.number().int(), toleratedShare: interval, cleared: z.number().int(), clearedShare: interval,
+  from: z.number(),
+  to: z.number().nullable(),
+  reports: z.number().int(),
+  tolerated: z.number().int(),
+  toleratedShare: interval,
+  cleared: z.number().int(),
+  clearedShare: interval,
 });
 
 export const summaryDetailSchema = summarySchema.extend({
   bands: z.array(bandSchema),
   points: z.array(z.object({ dose: z.number(), tolerated: z.boolean(), cleared: z.boolean() })),
   /** Above 300 reports `points` is empty and these carry the same counts per narrow dose bin; empty at or below. */
-  pointBins: z.array(z.object({ from: z.number(), to: z.number(), reports: z.number().int(), tolerated: z.number().int(), cleared: z.number().int() })),
-  species: z.array(z.object({ id: z.string().nullable(), commonName: z.string(), scientificName: z.string().nullable(), reports: z.number().int() })),
+  pointBins: z.array(
+    z.object({
+      from: z.number(),
+      to: z.number(),
+      reports: z.number().int(),
+      tolerated: z.number().int(),
+      cleared: z.number().int(),
+    }),
+  ),
+  species: z.array(
+    z.object({
+      id: z.string().nullable(),
+      commonName: z.string(),
+      scientificName: z.string().nullable(),
+      reports: z.number().int(),
+    }),
+  ),
 });
 
 export const summariesResponseSchema = z.object({
-  agent: z.string(), unit: z.string(), condition: z.string().nullable(), confidenceLevel: z.number(), minReports: z.number(), anecdotal: z.literal(true), notice: z.string(), methodVersion: z.string(),
+  agent: z.string(),
+  unit: z.string(),
+  condition: z.string().nullable(),
+  confidenceLevel: z.number(),
+  minReports: z.number(),
+  anecdotal: z.literal(true),
+  notice: z.string(),
+  methodVersion: z.string(),
   groups: z.array(summarySchema),
 });
 
@@ -59,7 +100,9 @@ export const summaryQuerySchema = z.object({
 });
 
 /** Either shape, readable as `doseResponse?.bmdl` or `doseResponse?.reason` (undefined where it does not apply). */
-export type DoseResponseView = (DoseResponseFit & { fit?: undefined; reason?: undefined }) | (DoseResponseNone & { [K in Exclude<keyof DoseResponseFit, "model">]?: undefined });
+export type DoseResponseView =
+  | (DoseResponseFit & { fit?: undefined; reason?: undefined })
+  | (DoseResponseNone & { [K in Exclude<keyof DoseResponseFit, "model">]?: undefined });
 // Stored rows from an older method may lack doseResponse until the recompute on start: optional in the type.
 type WithDoseResponse<T> = Omit<T, "doseResponse"> & { doseResponse?: DoseResponseView };
 export type Summary = WithDoseResponse<z.infer<typeof summarySchema>>;

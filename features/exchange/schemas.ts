@@ -1,6 +1,9 @@
 import { z } from "zod";
 
-const flag = z.enum(["0", "1", "true", "false"], { error: "Use 1 or 0." }).optional().transform((v) => v === "1" || v === "true");
+const flag = z
+  .enum(["0", "1", "true", "false"], { error: "Use 1 or 0." })
+  .optional()
+  .transform((v) => v === "1" || v === "true");
 
 /** POST /api/import/reports query: ?dryRun=1 checks and counts only; ?partial=1 keeps the good rows of a file with rejected ones. */
 export const importQuerySchema = z.object({ dryRun: flag, partial: flag }).strict();

@@ -7,7 +7,10 @@ export const changeRoleSchema = z.object({ role: roleSchema }).strict();
 
 /** The body of the sign-in library's POST /api/auth/admin/set-role, which the app serves itself. */
 export const setRoleSchema = z
-  .object({ userId: z.string({ error: "userId names the member." }).min(1, "userId names the member.").max(200), role: roleSchema })
+  .object({
+    userId: z.string({ error: "userId names the member." }).min(1, "userId names the member.").max(200),
+    role: roleSchema,
+  })
   .strict();
 
 export const memberSortKeys = ["name", "email", "role", "createdAt"] as const;
@@ -18,7 +21,12 @@ export const listMembersQuerySchema = z.object({
   sort: z.enum(memberSortKeys, { error: "sort must be name, email, role or createdAt." }).default("name"),
   dir: z.enum(["asc", "desc"], { error: "dir must be asc or desc." }).default("asc"),
   page: z.coerce.number({ error: "page must be a number." }).int().min(1, "page starts at 1.").default(1),
-  pageSize: z.coerce.number({ error: "pageSize must be a number." }).int().min(1).max(100, "pageSize is at most 100.").default(20),
+  pageSize: z.coerce
+    .number({ error: "pageSize must be a number." })
+    .int()
+    .min(1)
+    .max(100, "pageSize is at most 100.")
+    .default(20),
 });
 
 export const memberSchema = z.object({

@@ -20,18 +20,42 @@ export const statusLabels: Record<ReportStatus, string> = {
 
 /** The report's chosen values in words, for pages that show a report (the stored values are for the API). */
 export const reportValueLabels: Record<string, string> = {
-  juvenile: "juvenile", subadult: "sub-adult", adult: "adult", bare: "bare hospital tank", planted: "planted or furnished tank", other: "other",
-  treatment: "the treatment", disease: "the disease", unknown: "not sure", none: "none seen", mild: "mild", severe: "severe",
-  cleared: "cleared", improved: "improved", unchanged: "unchanged", worse: "worse",
+  juvenile: "juvenile",
+  subadult: "sub-adult",
+  adult: "adult",
+  bare: "bare hospital tank",
+  planted: "planted or furnished tank",
+  other: "other",
+  treatment: "the treatment",
+  disease: "the disease",
+  unknown: "not sure",
+  none: "none seen",
+  mild: "mild",
+  severe: "severe",
+  cleared: "cleared",
+  improved: "improved",
+  unchanged: "unchanged",
+  worse: "worse",
 };
 
 /** What each event in a report's history did, as a sentence's predicate ("Tobin accepted it"). */
 export const historyActionWords: Record<string, string> = {
-  created: "started the draft", course_opened: "opened a course log", submitted: "submitted it for review", resubmitted: "resubmitted it",
-  accept: "accepted it", return: "returned it for changes", decline: "declined it", retract: "retracted it",
+  created: "started the draft",
+  course_opened: "opened a course log",
+  submitted: "submitted it for review",
+  resubmitted: "resubmitted it",
+  accept: "accepted it",
+  return: "returned it for changes",
+  decline: "declined it",
+  retract: "retracted it",
   propose_accept: "accepted it and asked a second moderator to accept too (dose above the ceiling)",
-  photo_added: "added a photo", dose_logged: "logged a dose", entry_corrected: "corrected a course entry", entry_struck: "struck out a course entry",
-  map_species: "mapped the species to the catalogue", correct_loss_cause: "corrected the likely cause of losses", imported: "imported it",
+  photo_added: "added a photo",
+  dose_logged: "logged a dose",
+  entry_corrected: "corrected a course entry",
+  entry_struck: "struck out a course entry",
+  map_species: "mapped the species to the catalogue",
+  correct_loss_cause: "corrected the likely cause of losses",
+  imported: "imported it",
 };
 /** An event's action in words; one this list lacks still reads as words, never as its internal name. */
 export const describeHistoryAction = (action: string) => historyActionWords[action] ?? action.replaceAll("_", " ");
@@ -39,7 +63,8 @@ export const describeHistoryAction = (action: string) => historyActionWords[acti
 // Messages are shown to people as they are (the form uses these schemas too): plain words, no field names or codes;
 // the issue's path says which field. `missing` is the sentence for an answer not given at all.
 const n = (x: number) => x.toLocaleString("en-GB");
-const enumOf = <T extends readonly [string, ...string[]]>(values: T, what: string) => z.enum(values, { error: `Choose ${what}.` });
+const enumOf = <T extends readonly [string, ...string[]]>(values: T, what: string) =>
+  z.enum(values, { error: `Choose ${what}.` });
 const int = (field: string, min: number, max: number, missing?: string) =>
   z
     .number({ error: (iss) => (iss.input === undefined && missing) || `${field} must be a whole number.` })
@@ -51,22 +76,38 @@ const positive = (field: string, max: number, missing?: string) =>
     .number({ error: (iss) => (iss.input === undefined && missing) || `${field} must be a number.` })
     .positive(`${field} must be above 0.`)
     .max(max, `${field} must be at most ${n(max)}.`);
-const text = (field: string, max: number) => z.string({ error: `${field} must be text.` }).trim().max(max, `${field} is at most ${max} characters.`);
+const text = (field: string, max: number) =>
+  z
+    .string({ error: `${field} must be text.` })
+    .trim()
+    .max(max, `${field} is at most ${max} characters.`);
 
 /** A calendar date that is not in the future (a day's grace for time zones ahead of UTC). */
 export const pastDate = z
-  .string({ error: (iss) => (iss.input === undefined ? "Give the date the course started." : "Give the date as year-month-day (YYYY-MM-DD).") })
+  .string({
+    error: (iss) =>
+      iss.input === undefined ? "Give the date the course started." : "Give the date as year-month-day (YYYY-MM-DD).",
+  })
   .regex(/^\d{4}-\d{2}-\d{2}$/, "Give the date as year-month-day (YYYY-MM-DD).")
-  .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), "That date is not on the calendar.")
+  .refine(
+    (s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s),
+    "That date is not on the calendar.",
+  )
   .refine((s) => Date.parse(`${s}T00:00:00Z`) <= Date.now() + 86_400_000, "The course cannot start in the future.")
   .refine((s) => s >= "1990-01-01", "Give a date in 1990 or later.");
 
 export const waterSchema = z.strictObject({
   volume: positive("Water volume", 1_000_000, "Give the water volume."),
   volumeUnit: enumOf(volumeUnits, "the unit of the volume"),
-  temperature: z.number({ error: (iss) => (iss.input === undefined ? "Give the water temperature." : "Temperature must be a number.") }),
+  temperature: z.number({
+    error: (iss) => (iss.input === undefined ? "Give the water temperature." : "Temperature must be a number."),
+  }),
   temperatureUnit: enumOf(temperatureUnits, "°C or °F"),
-  ph: z.number({ error: "pH must be a number." }).min(0, "pH is between 0 and 14.").max(14, "pH is between 0 and 14.").optional(),
+  ph: z
+    .number({ error: "pH must be a number." })
+    .min(0, "pH is between 0 and 14.")
+    .max(14, "pH is between 0 and 14.")
+    .optional(),
   setting: enumOf(settings, "the kind of tank"),
 });
 
@@ -76,7 +117,11 @@ export const treatmentSchema = z.strictObject({
   stockFormId: z.string().min(1, "Choose one of the listed bottles, or type the strength.").nullable().optional(),
   stockPercent: positive("Stock strength", 100).optional(),
   stockBasis: z.enum(["w/v", "w/w"], { error: "Choose what the strength is of (w/v or w/w)." }).optional(),
-  stockDensityGPerMl: z.number({ error: "Density must be a number." }).min(0.5, "Density is between 0.5 and 3 g/mL.").max(3, "Density is between 0.5 and 3 g/mL.").optional(),
+  stockDensityGPerMl: z
+    .number({ error: "Density must be a number." })
+    .min(0.5, "Density is between 0.5 and 3 g/mL.")
+    .max(3, "Density is between 0.5 and 3 g/mL.")
+    .optional(),
   amountMl: positive("Amount per dose", 100_000).optional(),
   statedConcentration: positive("Stated concentration", 100_000).optional(),
   doses: int("Number of doses", 1, 100, "Give the number of doses."),
@@ -94,7 +139,10 @@ export const outcomeSchema = z.strictObject({
 });
 
 const base = {
-  speciesId: z.string({ error: "Choose the species, or “not listed”." }).min(1, "Choose the species, or “not listed”.").nullable(),
+  speciesId: z
+    .string({ error: "Choose the species, or “not listed”." })
+    .min(1, "Choose the species, or “not listed”.")
+    .nullable(),
   speciesOther: text("Species (not listed)", 200).optional(),
   fishCount: int("Fish treated", 1, 100_000, "Give the number of fish treated."),
   sizeClass: enumOf(sizeClasses, "the size of the fish"),
@@ -116,36 +164,69 @@ interface Crossable {
 /** The cross-field rules; in a draft they apply once both sides of a rule are present. */
 function crossRules(r: Crossable, ctx: Ctx, complete: boolean) {
   if (r.speciesId === null && !r.speciesOther?.trim() && (complete || "speciesOther" in r)) {
-    ctx.addIssue({ code: "custom", path: ["speciesOther"], message: "Name the species when it is not in the catalogue." });
+    ctx.addIssue({
+      code: "custom",
+      path: ["speciesOther"],
+      message: "Name the species when it is not in the catalogue.",
+    });
   }
   const w = r.water;
   if (w?.temperature !== undefined && w.temperatureUnit !== undefined) {
     const c = toCelsius(w.temperature, w.temperatureUnit);
-    if (c < 0 || c > 45) ctx.addIssue({ code: "custom", path: ["water", "temperature"], message: "Temperature must be between 0 and 45 °C (32 and 113 °F)." });
+    if (c < 0 || c > 45)
+      ctx.addIssue({
+        code: "custom",
+        path: ["water", "temperature"],
+        message: "Temperature must be between 0 and 45 °C (32 and 113 °F).",
+      });
   }
   const t = r.treatment;
   if (t) {
     const hasAmount = t.amountMl !== undefined;
     if (complete && !hasAmount && t.statedConcentration === undefined) {
-      ctx.addIssue({ code: "custom", path: ["treatment", "amountMl"], message: "Give the mL added per dose, or failing that the concentration you aimed for." });
+      ctx.addIssue({
+        code: "custom",
+        path: ["treatment", "amountMl"],
+        message: "Give the mL added per dose, or failing that the concentration you aimed for.",
+      });
     }
     if (hasAmount && t.stockPercent === undefined && (complete || "stockPercent" in t)) {
-      ctx.addIssue({ code: "custom", path: ["treatment", "stockPercent"], message: "Give the stock strength (%) of what you added." });
+      ctx.addIssue({
+        code: "custom",
+        path: ["treatment", "stockPercent"],
+        message: "Give the stock strength (%) of what you added.",
+      });
     }
     if (t.doses !== undefined && t.doses > 1 && t.intervalHours === undefined && (complete || "intervalHours" in t)) {
-      ctx.addIssue({ code: "custom", path: ["treatment", "intervalHours"], message: "Give the hours between doses when there was more than one." });
+      ctx.addIssue({
+        code: "custom",
+        path: ["treatment", "intervalHours"],
+        message: "Give the hours between doses when there was more than one.",
+      });
     }
   }
   const o = r.outcome;
   if (o?.fishLost !== undefined) {
     if (r.fishCount !== undefined && o.fishLost > r.fishCount) {
-      ctx.addIssue({ code: "custom", path: ["outcome", "fishLost"], message: "Fish lost cannot be more than fish treated." });
+      ctx.addIssue({
+        code: "custom",
+        path: ["outcome", "fishLost"],
+        message: "Fish lost cannot be more than fish treated.",
+      });
     }
     if (o.fishLost > 0 && o.lossCause == null && (complete || "lossCause" in o)) {
-      ctx.addIssue({ code: "custom", path: ["outcome", "lossCause"], message: "Say the likely cause when fish were lost." });
+      ctx.addIssue({
+        code: "custom",
+        path: ["outcome", "lossCause"],
+        message: "Say the likely cause when fish were lost.",
+      });
     }
     if (o.fishLost === 0 && o.lossCause != null) {
-      ctx.addIssue({ code: "custom", path: ["outcome", "lossCause"], message: "Leave the cause empty when no fish were lost." });
+      ctx.addIssue({
+        code: "custom",
+        path: ["outcome", "lossCause"],
+        message: "Leave the cause empty when no fish were lost.",
+      });
     }
   }
 }
@@ -219,8 +300,10 @@ export const courseEntrySchema = z
   })
   .strict()
   .superRefine((e, ctx) => {
-    if (e.kind === "dose" && e.amountMl === undefined) ctx.addIssue({ code: "custom", path: ["amountMl"], message: "Give the mL added for a dose." });
-    if (e.kind === "observation" && !e.text) ctx.addIssue({ code: "custom", path: ["text"], message: "Describe what you saw." });
+    if (e.kind === "dose" && e.amountMl === undefined)
+      ctx.addIssue({ code: "custom", path: ["amountMl"], message: "Give the mL added for a dose." });
+    if (e.kind === "observation" && !e.text)
+      ctx.addIssue({ code: "custom", path: ["text"], message: "Describe what you saw." });
     if (!e.confirm && isFuture(e.at)) ctx.addIssue({ code: "custom", path: ["at"], message: FUTURE_MESSAGE });
   });
 
@@ -234,7 +317,9 @@ export const courseEntryPatchSchema = z
     at: z.iso.datetime({ offset: true, error: "at must be a date and time (ISO 8601)." }).optional(),
     amountMl: positive("Amount", 100_000).optional(),
     text: text("Text", 2000).optional(),
-    struck: z.literal(true, { error: "struck can only be true: a struck entry stays in the log, crossed out." }).optional(),
+    struck: z
+      .literal(true, { error: "struck can only be true: a struck entry stays in the log, crossed out." })
+      .optional(),
     /** Why it was corrected or struck; kept in the report's history. */
     note: text("Note", 500).optional(),
     confirm: z.boolean({ error: "confirm must be true or false." }).optional(),
@@ -242,18 +327,34 @@ export const courseEntryPatchSchema = z
   .strict()
   .superRefine((e, ctx) => {
     const changes = e.at !== undefined || e.amountMl !== undefined || e.text !== undefined;
-    if (e.struck && changes) ctx.addIssue({ code: "custom", path: ["struck"], message: "Strike an entry out, or correct it, not both at once." });
-    if (!e.struck && !changes) ctx.addIssue({ code: "custom", path: [], message: "Give the corrected amountMl, at or text, or struck: true." });
-    if (e.at !== undefined && !e.confirm && isFuture(e.at)) ctx.addIssue({ code: "custom", path: ["at"], message: FUTURE_MESSAGE });
+    if (e.struck && changes)
+      ctx.addIssue({
+        code: "custom",
+        path: ["struck"],
+        message: "Strike an entry out, or correct it, not both at once.",
+      });
+    if (!e.struck && !changes)
+      ctx.addIssue({ code: "custom", path: [], message: "Give the corrected amountMl, at or text, or struck: true." });
+    if (e.at !== undefined && !e.confirm && isFuture(e.at))
+      ctx.addIssue({ code: "custom", path: ["at"], message: FUTURE_MESSAGE });
   });
 export type CourseEntryPatch = z.infer<typeof courseEntryPatchSchema>;
 
 export const listMineQuerySchema = z.object({
   scope: z.enum(["mine"], { error: "scope must be mine, or all (moderators and admins)." }).default("mine"),
   status: z.enum(reportStatuses, { error: `status must be one of: ${reportStatuses.join(", ")}.` }).optional(),
-  sort: z.enum(["updatedAt", "startedOn", "status", "concentration", "species", "agent"], { error: "sort must be updatedAt, startedOn, status, concentration, species or agent." }).default("updatedAt"),
+  sort: z
+    .enum(["updatedAt", "startedOn", "status", "concentration", "species", "agent"], {
+      error: "sort must be updatedAt, startedOn, status, concentration, species or agent.",
+    })
+    .default("updatedAt"),
   dir: z.enum(["asc", "desc"], { error: "dir must be asc or desc." }).default("desc"),
   page: z.coerce.number({ error: "page must be a number." }).int().min(1, "page starts at 1.").default(1),
-  pageSize: z.coerce.number({ error: "pageSize must be a number." }).int().min(1).max(100, "pageSize is at most 100.").default(20),
+  pageSize: z.coerce
+    .number({ error: "pageSize must be a number." })
+    .int()
+    .min(1)
+    .max(100, "pageSize is at most 100.")
+    .default(20),
 });
 export type ListMineQuery = z.infer<typeof listMineQuerySchema>;

@@ -15,7 +15,13 @@ export function formatDay(w: When): string {
 
 /** "2 Dec 2026, 14:05" */
 export function formatDayTime(w: When): string {
-  return toDate(w).toLocaleString(CLUB_LOCALE, { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit" });
+  return toDate(w).toLocaleString(CLUB_LOCALE, {
+    day: "numeric",
+    month: "short",
+    year: "numeric",
+    hour: "2-digit",
+    minute: "2-digit",
+  });
 }
 
 const units: [Intl.RelativeTimeFormatUnit, number][] = [

@@ -35,9 +35,11 @@ export function canSeeReport(actor: Actor | null, r: ReportAccess): boolean {
 
 export const isReportAuthor = (actor: Actor | null, r: ReportAccess) => actor !== null && r.authorId === actor.id;
 /** Only the author changes a report, while it is a draft or returned for changes. */
-export const canEditReport = (actor: Actor | null, r: ReportAccess) => isReportAuthor(actor, r) && (r.status === "draft" || r.status === "returned");
+export const canEditReport = (actor: Actor | null, r: ReportAccess) =>
+  isReportAuthor(actor, r) && (r.status === "draft" || r.status === "returned");
 /** A reviewer decides on (or corrects) a submitted report that is not their own. */
-export const canDecide = (actor: Actor | null, r: ReportAccess) => canReview(actor) && r.status !== "draft" && !isReportAuthor(actor, r);
+export const canDecide = (actor: Actor | null, r: ReportAccess) =>
+  canReview(actor) && r.status !== "draft" && !isReportAuthor(actor, r);
 
 /** Club officers' powers. */
 export const canManageMembers = isAdmin;

@@ -53,11 +53,17 @@ async function seed(): Promise<void> {
 /** Median time of recomputing the largest group after an accept (three warm-ups, then 11 runs). */
 async function recomputeMs(): Promise<number> {
   const db = await getDb();
-  const [row] = rowsOf(await db.execute(sql`select group_slug from reports where status = 'accepted' group by group_slug order by count(*) desc limit 1`));
+  const [row] = rowsOf(
+    await db.execute(
+      sql`select group_slug from reports where status = 'accepted' group by group_slug order by count(*) desc limit 1`,
+    ),
+  );
   const group = String(row!.group_slug);
   const xs: number[] = [];
   for (let i = 0; i < 14; i++) {
-    await db.execute(sql`update reports set status = case when status = 'accepted' then 'awaiting_review' else 'accepted' end where id = 'b15'`);
+    await db.execute(
+      sql`update reports set status = case when status = 'accepted' then 'awaiting_review' else 'accepted' end where id = 'b15'`,
+    );
     const t = process.hrtime.bigint();
     await recomputeGroupAgent(db, group, "hydrogen-peroxide");
     if (i >= 3) xs.push(ms(t));
@@ -67,13 +73,22 @@ async function recomputeMs(): Promise<number> {
 }
 
 async function load(urls: string[]): Promise<{ rps: number; errors: number; p99: number }> {
-  const runs = await Promise.all(urls.map((url) => autocannon({ url, connections: 10, duration: DURATION, pipelining: 1 })));
-  return { rps: runs.reduce((s, r) => s + r.requests.average, 0), errors: runs.reduce((s, r) => s + r.errors + r.non2xx, 0), p99: Math.max(...runs.map((r) => r.latency.p99)) };
+  const runs = await Promise.all(
+    urls.map((url) => autocannon({ url, connections: 10, duration: DURATION, pipelining: 1 })),
+  );
+  return {
+    rps: runs.reduce((s, r) => s + r.requests.average, 0),
+    errors: runs.reduce((s, r) => s + r.errors + r.non2xx, 0),
+    p99: Math.max(...runs.map((r) => r.latency.p99)),
+  };
 }
 
 const tmp = fs.mkdtempSync(path.join(os.tmpdir(), "tanklore-bench-cluster-"));
 const pg = await startTempPostgres();
-const cleanup: (() => Promise<void> | void)[] = [() => pg.stop(), () => fs.rmSync(tmp, { recursive: true, force: true })];
+const cleanup: (() => Promise<void> | void)[] = [
+  () => pg.stop(),
+  () => fs.rmSync(tmp, { recursive: true, force: true }),
+];
 try {
   // The embedded database first: same data, same recompute.
   process.env.DATA_DIR = path.join(tmp, "pglite");
@@ -91,7 +106,9 @@ try {
   console.log(`PostgreSQL: seeded and recomputed ${REPORTS} reports in ${ms(t).toFixed(0)} ms`);
   const recomputePostgresMs = await recomputeMs();
   await closeDb();
-  console.log(`recompute of the largest group: PostgreSQL ${recomputePostgresMs.toFixed(1)} ms, PGlite ${recomputePgliteMs.toFixed(1)} ms`);
+  console.log(
+    `recompute of the largest group: PostgreSQL ${recomputePostgresMs.toFixed(1)} ms, PGlite ${recomputePgliteMs.toFixed(1)} ms`,
+  );
 
   await ensureBuild();
   const s3 = await startLocalS3({ port: await freePort(), dir: path.join(tmp, "s3") });
@@ -109,7 +126,9 @@ try {
   const one = await load([`${apps[0]!.url}${path_}`]);
   const two = await load(apps.map((a) => `${a.url}${path_}`));
   const ratio = two.rps / one.rps;
-  console.log(`/api/summaries: one process ${one.rps.toFixed(0)} req/s (p99 ${one.p99} ms, errors ${one.errors}); two processes ${two.rps.toFixed(0)} req/s (p99 ${two.p99} ms, errors ${two.errors}); ratio ${ratio.toFixed(2)} on ${os.cpus().length} cores`);
+  console.log(
+    `/api/summaries: one process ${one.rps.toFixed(0)} req/s (p99 ${one.p99} ms, errors ${one.errors}); two processes ${two.rps.toFixed(0)} req/s (p99 ${two.p99} ms, errors ${two.errors}); ratio ${ratio.toFixed(2)} on ${os.cpus().length} cores`,
+  );
   console.log(
     JSON.stringify({
       clusterThroughputRatio: Number(ratio.toFixed(3)),

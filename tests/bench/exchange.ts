@@ -22,23 +22,35 @@ const summariesRoute = await import("@/app/api/summaries/route");
 
 const db = await getDb();
 await seedCatalogue(db);
-await db.insert(schema.users).values({ id: "bench-admin", name: "Bench admin", email: "bench-admin@example.org", emailVerified: true, role: "admin" });
+await db.insert(schema.users).values({
+  id: "bench-admin",
+  name: "Bench admin",
+  email: "bench-admin@example.org",
+  emailVerified: true,
+  role: "admin",
+});
 const admin = { id: "bench-admin", role: "admin" as const, name: "Bench admin", email: "bench-admin@example.org" };
 
 // 1. Import while reading.
-const header = "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after,notes";
+const header =
+  "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after,notes";
 const species = ["poecilia-reticulata", "paracheirodon-innesi"];
 const csv = [
   header,
-  ...Array.from({ length: IMPORT_ROWS }, (_, n) =>
-    `accepted,member-bench${n % 60},${species[n % 2]},${3 + (n % 9)},adult,white-spot,2017-0${1 + (n % 9)}-1${n % 10},60,L,25,C,bare,hydrogen-peroxide,3,${20 + (n % 50)},1,0,,mild,cleared,7,bench row ${n}`),
+  ...Array.from(
+    { length: IMPORT_ROWS },
+    (_, n) =>
+      `accepted,member-bench${n % 60},${species[n % 2]},${3 + (n % 9)},adult,white-spot,2017-0${1 + (n % 9)}-1${n % 10},60,L,25,C,bare,hydrogen-peroxide,3,${20 + (n % 50)},1,0,,mild,cleared,7,bench row ${n}`,
+  ),
 ].join("\n");
 let reading = true;
 let longestReadMs = 0;
 const reader = (async () => {
   while (reading) {
     const t = performance.now();
-    const res = await summariesRoute.GET(new Request("http://localhost:3000/api/summaries?agent=hydrogen-peroxide"), { params: Promise.resolve({}) });
+    const res = await summariesRoute.GET(new Request("http://localhost:3000/api/summaries?agent=hydrogen-peroxide"), {
+      params: Promise.resolve({}),
+    });
     await res.text();
     longestReadMs = Math.max(longestReadMs, performance.now() - t);
     await new Promise((r) => setTimeout(r, 50));
@@ -49,7 +61,9 @@ const result = await importReportsCsv(admin as never, csv);
 const importMs = performance.now() - t0;
 reading = false;
 await reader;
-console.log(`imported ${result.imported} rows in ${(importMs / 1000).toFixed(1)} s; longest read meanwhile ${longestReadMs.toFixed(0)} ms`);
+console.log(
+  `imported ${result.imported} rows in ${(importMs / 1000).toFixed(1)} s; longest read meanwhile ${longestReadMs.toFixed(0)} ms`,
+);
 
 // 2. Export 100,000 reports as a stream.
 const existing = result.imported;
@@ -82,11 +96,19 @@ const exportMs = performance.now() - t1;
 clearInterval(sampler);
 peak = Math.max(peak, rss());
 const exportRows = lines - 2; // the notice and the header (no report here has a line break in its cells)
-console.log(`exported ${exportRows} reports (${(bytes / 1024 / 1024).toFixed(1)} MB) in ${(exportMs / 1000).toFixed(1)} s; RSS ${baseline.toFixed(0)} → peak ${peak.toFixed(0)} MB`);
+console.log(
+  `exported ${exportRows} reports (${(bytes / 1024 / 1024).toFixed(1)} MB) in ${(exportMs / 1000).toFixed(1)} s; RSS ${baseline.toFixed(0)} → peak ${peak.toFixed(0)} MB`,
+);
 
 await closeDb();
 fs.rmSync(dir, { recursive: true, force: true });
-console.log(JSON.stringify({
-  importMs: Math.round(importMs), importRows: result.imported, longestReadMs: Math.round(longestReadMs),
-  exportMs: Math.round(exportMs), exportRows, exportPeakRssDeltaMb: Math.round(peak - baseline),
-}));
+console.log(
+  JSON.stringify({
+    importMs: Math.round(importMs),
+    importRows: result.imported,
+    longestReadMs: Math.round(longestReadMs),
+    exportMs: Math.round(exportMs),
+    exportRows,
+    exportPeakRssDeltaMb: Math.round(peak - baseline),
+  }),
+);

@@ -91,7 +91,8 @@ export function rssSampler(root: number, everyMs = 100): { stop: () => number } 
 
 /** Bytes under a directory (apparent file sizes), and those under one subfolder name at any depth. */
 export function dirBytes(dir: string, sub?: string): { total: number; sub: number } {
-  let total = 0, inSub = 0;
+  let total = 0,
+    inSub = 0;
   const walk = (p: string, inside: boolean) => {
     for (const e of fs.readdirSync(p, { withFileTypes: true })) {
       const q = `${p}/${e.name}`;

@@ -26,8 +26,12 @@ export async function seedBench(db: Db, reports: number, log: (s: string) => voi
   await seedCatalogue(db);
   const hash = await hashPassword(BENCH_PASSWORD);
   for (const p of benchPeople) {
-    await db.execute(sql`insert into users (id, name, email, email_verified, role) values (${p.id}, ${p.name}, ${p.email}, true, ${p.role})`);
-    await db.execute(sql`insert into accounts (id, account_id, provider_id, user_id, password) values (${`acct-${p.id}`}, ${p.id}, 'credential', ${p.id}, ${hash})`);
+    await db.execute(
+      sql`insert into users (id, name, email, email_verified, role) values (${p.id}, ${p.name}, ${p.email}, true, ${p.role})`,
+    );
+    await db.execute(
+      sql`insert into accounts (id, account_id, provider_id, user_id, password) values (${`acct-${p.id}`}, ${p.id}, 'credential', ${p.id}, ${hash})`,
+    );
   }
   await db.execute(sql`insert into users (id, name, email, email_verified, role)
     select 'bench-' || i, 'Bench author ' || i, 'bench' || i || '@example.org', true, 'member' from generate_series(1, 300) i`);

@@ -14,7 +14,9 @@ it("brings up two processes started together on an empty database", async () => 
   for (const app of cluster.apps) expect((await fetch(`${app.url}/api/health`)).status).toBe(200);
   const { db, close } = connect(cluster.pg.url);
   try {
-    const r = (await db.execute("select count(*)::int as n from drizzle.__drizzle_migrations")) as unknown as { rows: { n: number }[] };
+    const r = (await db.execute("select count(*)::int as n from drizzle.__drizzle_migrations")) as unknown as {
+      rows: { n: number }[];
+    };
     const files = (await import("node:fs")).readdirSync("drizzle").filter((f) => f.endsWith(".sql")).length;
     expect(r.rows[0]!.n).toBe(files);
   } finally {

@@ -25,12 +25,22 @@ export async function person(db: Db, role: "member" | "moderator" | "admin") {
   const id = `cl-${role}-${n}-${Math.random().toString(36).slice(2, 8)}`;
   const email = `${id}@example.org`;
   await db.insert(schema.users).values({ id, name: `Cluster ${role} ${n}`, email, emailVerified: true, role });
-  await db.insert(schema.accounts).values({ id: `acct-${id}`, accountId: id, providerId: "credential", userId: id, password: await hashPassword(PASSWORD) });
+  await db.insert(schema.accounts).values({
+    id: `acct-${id}`,
+    accountId: id,
+    providerId: "credential",
+    userId: id,
+    password: await hashPassword(PASSWORD),
+  });
   return { id, email };
 }
 
 /** An HTTP call to one process, as a browser on its page would make it (Origin on changes). */
-export async function http(app: AppProcess, path: string, opts: { method?: string; body?: unknown; cookie?: string; form?: FormData; from?: string } = {}) {
+export async function http(
+  app: AppProcess,
+  path: string,
+  opts: { method?: string; body?: unknown; cookie?: string; form?: FormData; from?: string } = {},
+) {
   const method = opts.method ?? (opts.body !== undefined || opts.form ? "POST" : "GET");
   // The processes trust one proxy hop (TRUSTED_PROXY_HOPS=1), as behind the proxy of docs/operations.md: each test
   // speaks from its own address, so the per-address sign-in limit of one test does not spill into another.
@@ -45,6 +55,7 @@ export async function http(app: AppProcess, path: string, opts: { method?: strin
   }
   const res = await fetch(`${app.url}${path}`, { method, headers, body, redirect: "manual" });
   const buf = Buffer.from(await res.arrayBuffer());
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- parsed JSON of any endpoint, read by the assertions
   let json: any = null;
   try {
     json = JSON.parse(buf.toString("utf8"));
@@ -74,8 +85,22 @@ export function reportBody(over: Record<string, unknown> = {}) {
     conditionSlug: "white-spot",
     startedOn: "2026-11-02",
     water: { volume: 40, volumeUnit: "L", temperature: 25, temperatureUnit: "C", ph: 7.0, setting: "bare" },
-    treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, stockBasis: "w/v", amountMl: 40, doses: 3, intervalHours: 48 },
-    outcome: { fishLost: 0, lossCause: null, distress: "mild", condition: "cleared", observedDaysAfter: 7, notes: "Cluster test report." },
+    treatment: {
+      agentSlug: "hydrogen-peroxide",
+      stockPercent: 3,
+      stockBasis: "w/v",
+      amountMl: 40,
+      doses: 3,
+      intervalHours: 48,
+    },
+    outcome: {
+      fishLost: 0,
+      lossCause: null,
+      distress: "mild",
+      condition: "cleared",
+      observedDaysAfter: 7,
+      notes: "Cluster test report.",
+    },
     showName: false,
     ...over,
   };

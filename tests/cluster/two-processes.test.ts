@@ -53,7 +53,9 @@ describe("two processes on one database and one bucket", () => {
     const cookie = await signIn(A(), m.email);
     const created = await http(A(), "/api/reports", { cookie, body: reportBody() });
     expect(created.status).toBe(201);
-    const jpeg = await sharp({ create: { width: 640, height: 480, channels: 3, background: { r: 30, g: 110, b: 90 } } }).jpeg().toBuffer();
+    const jpeg = await sharp({ create: { width: 640, height: 480, channels: 3, background: { r: 30, g: 110, b: 90 } } })
+      .jpeg()
+      .toBuffer();
     const form = new FormData();
     form.set("file", new Blob([new Uint8Array(jpeg)], { type: "image/jpeg" }), "tank.jpg");
     form.set("stage", "before");
@@ -71,7 +73,14 @@ describe("two processes on one database and one bucket", () => {
     const statuses: number[] = [];
     for (let i = 0; i < 16; i++) {
       const app = i % 2 === 0 ? A() : B();
-      statuses.push((await http(app, "/api/auth/sign-in/email", { body: { email: m.email, password: "wrong-password-123" }, from: "203.0.113.77" })).status);
+      statuses.push(
+        (
+          await http(app, "/api/auth/sign-in/email", {
+            body: { email: m.email, password: "wrong-password-123" },
+            from: "203.0.113.77",
+          })
+        ).status,
+      );
     }
     // Eight attempts reached each process: below both limits (ten a minute per address, ten per account), so
     // the 429 comes only because the counts of A and B add up in the database.
@@ -90,7 +99,12 @@ describe("two processes on one database and one bucket", () => {
     const adminCookie = await signIn(B(), admin.email);
     const submitted = await http(A(), "/api/reports", { cookie: memberCookie, body: reportBody({ submit: true }) });
     expect(submitted.json?.status).toBe("awaiting_review");
-    const round = () => Promise.all([A(), B(), A(), B(), A(), B()].map((app) => http(app, "/api/admin/jobs", { cookie: adminCookie, body: { run: "moderator-digest" } })));
+    const round = () =>
+      Promise.all(
+        [A(), B(), A(), B(), A(), B()].map((app) =>
+          http(app, "/api/admin/jobs", { cookie: adminCookie, body: { run: "moderator-digest" } }),
+        ),
+      );
     for (const r of await round()) expect(r.status).toBe(200);
     for (const mod of [...mods, admin]) expect(await digestsTo(mod.email)).toBe(1);
     // A second report within the hour waits for the next digest.
@@ -99,7 +113,11 @@ describe("two processes on one database and one bucket", () => {
     for (const mod of [...mods, admin]) expect(await digestsTo(mod.email)).toBe(1);
     const jobs = await http(A(), "/api/admin/jobs", { cookie: adminCookie });
     expect(jobs.status).toBe(200);
-    expect(jobs.json.rounds.map((r: { kind: string }) => r.kind).sort()).toEqual(["moderator-digest", "nightly-backup", "reminders"]);
+    expect(jobs.json.rounds.map((r: { kind: string }) => r.kind).sort()).toEqual([
+      "moderator-digest",
+      "nightly-backup",
+      "reminders",
+    ]);
   });
 
   it("shows an accept made through A in B's summaries within 2 s", async () => {
@@ -113,7 +131,10 @@ describe("two processes on one database and one bucket", () => {
     };
     const before = await reportsOf();
     const sub = await http(B(), "/api/reports", { cookie: memberCookie, body: reportBody({ submit: true }) });
-    const decided = await http(A(), `/api/reports/${sub.json.id}/decision`, { cookie: modCookie, body: { decision: "accept", note: "" } });
+    const decided = await http(A(), `/api/reports/${sub.json.id}/decision`, {
+      cookie: modCookie,
+      body: { decision: "accept", note: "" },
+    });
     expect(decided.json?.status).toBe("accepted");
     const t0 = Date.now();
     let after = before;

@@ -52,20 +52,57 @@ beforeAll(async () => {
   for (const role of ["visitor", "member", "moderator", "admin"] as const) await signedInContext(role);
   const member = pages.member!;
   const report = {
-    speciesId: "paracheirodon-innesi", fishCount: 6, sizeClass: "adult", conditionSlug: "white-spot", startedOn: "2026-10-01",
+    speciesId: "paracheirodon-innesi",
+    fishCount: 6,
+    sizeClass: "adult",
+    conditionSlug: "white-spot",
+    startedOn: "2026-10-01",
     water: { volume: 60, volumeUnit: "L", temperature: 25, temperatureUnit: "C", ph: 7, setting: "bare" },
-    treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, stockBasis: "w/v", amountMl: 30, doses: 2, intervalHours: 48 },
-    outcome: { fishLost: 0, lossCause: null, distress: "mild", condition: "cleared", observedDaysAfter: 7, notes: "Accessibility walk report." },
+    treatment: {
+      agentSlug: "hydrogen-peroxide",
+      stockPercent: 3,
+      stockBasis: "w/v",
+      amountMl: 30,
+      doses: 2,
+      intervalHours: 48,
+    },
+    outcome: {
+      fishLost: 0,
+      lossCause: null,
+      distress: "mild",
+      condition: "cleared",
+      observedDaysAfter: 7,
+      notes: "Accessibility walk report.",
+    },
     showName: true,
   };
   submittedId = (await post(member, "/api/reports", { ...report, submit: true })).id;
   draftId = (await post(member, "/api/reports/drafts", report)).id;
-  courseId = (await post(member, "/api/reports/drafts", {
-    courseOpen: true, speciesId: "paracheirodon-innesi", fishCount: 6, water: { volume: 40, volumeUnit: "L" },
-    treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, stockBasis: "w/v", statedConcentration: 25, intervalHours: 48 },
-  })).id;
-  await post(member, `/api/reports/${courseId}/entries`, { kind: "dose", at: new Date(Date.now() - 3 * 86400_000).toISOString(), amountMl: 33 });
-  await post(member, `/api/reports/${courseId}/entries`, { kind: "dose", at: new Date(Date.now() - 3600_000).toISOString(), amountMl: 33 });
+  courseId = (
+    await post(member, "/api/reports/drafts", {
+      courseOpen: true,
+      speciesId: "paracheirodon-innesi",
+      fishCount: 6,
+      water: { volume: 40, volumeUnit: "L" },
+      treatment: {
+        agentSlug: "hydrogen-peroxide",
+        stockPercent: 3,
+        stockBasis: "w/v",
+        statedConcentration: 25,
+        intervalHours: 48,
+      },
+    })
+  ).id;
+  await post(member, `/api/reports/${courseId}/entries`, {
+    kind: "dose",
+    at: new Date(Date.now() - 3 * 86400_000).toISOString(),
+    amountMl: 33,
+  });
+  await post(member, `/api/reports/${courseId}/entries`, {
+    kind: "dose",
+    at: new Date(Date.now() - 3600_000).toISOString(),
+    amountMl: 33,
+  });
 }, 120_000);
 
 afterAll(async () => {
@@ -129,7 +166,10 @@ const visits: Record<Role, Visit[]> = {
     { name: "new report", url: () => "/reports/new" },
     { name: "a submitted report", url: () => `/reports/${submittedId}` },
     { name: "a draft report", url: () => `/reports/${draftId}` },
-    ...[0, 1, 2, 3, 4].map((step) => ({ name: `wizard step ${step + 1}`, url: () => `/reports/${draftId}/edit?step=${step}` })),
+    ...[0, 1, 2, 3, 4].map((step) => ({
+      name: `wizard step ${step + 1}`,
+      url: () => `/reports/${draftId}/edit?step=${step}`,
+    })),
     { name: "the course log", url: () => `/reports/${courseId}` },
     {
       name: "the course log's correction form",
@@ -146,7 +186,10 @@ const visits: Record<Role, Visit[]> = {
     { name: "review queue", url: () => "/review" },
     { name: "all reports", url: () => "/review/reports" },
     { name: "a report in review", url: () => `/review/${submittedId}` },
-    { name: "a decided report in review", url: () => firstLink(pages.moderator!, "/review/reports?status=accepted", /^\/review\/[\w-]+$/) },
+    {
+      name: "a decided report in review",
+      url: () => firstLink(pages.moderator!, "/review/reports?status=accepted", /^\/review\/[\w-]+$/),
+    },
     { name: "the member's report page", url: () => `/reports/${submittedId}` },
     { name: "planner with a result", url: () => "/planner?agent=hydrogen-peroxide", prepare: showPlannerResult },
   ],
@@ -164,13 +207,22 @@ const visits: Record<Role, Visit[]> = {
 };
 
 interface AxeResult {
-  violations: { id: string; impact: string | null; help: string; nodes: { target: unknown[]; failureSummary?: string }[] }[];
+  violations: {
+    id: string;
+    impact: string | null;
+    help: string;
+    nodes: { target: unknown[]; failureSummary?: string }[];
+  }[];
 }
 
 async function runAxe(page: Page): Promise<AxeResult> {
   if (!(await page.evaluate(() => "axe" in window))) await page.addScriptTag({ content: axeSource });
   return page.evaluate(
-    (tags) => (window as unknown as { axe: { run: (ctx: Document, opts: unknown) => Promise<AxeResult> } }).axe.run(document, { runOnly: { type: "tag", values: tags }, resultTypes: ["violations"] }),
+    (tags) =>
+      (window as unknown as { axe: { run: (ctx: Document, opts: unknown) => Promise<AxeResult> } }).axe.run(document, {
+        runOnly: { type: "tag", values: tags },
+        resultTypes: ["violations"],
+      }),
     WCAG_TAGS,
   ) as Promise<AxeResult>;
 }
@@ -180,7 +232,10 @@ const SNAKE = /\b[a-z][a-z0-9]*(?:_[a-z0-9]+)+\b/g;
 const FIELD_PATH = /\b[a-z][a-zA-Z]*\.[a-z][a-zA-Z]+\b/g;
 const ISO = /\b\d{4}-\d{2}-\d{2}(?:[T ]\d{2}:\d{2}(?::\d{2}(?:\.\d+)?)?(?:Z|[+-]\d{2}:?\d{2})?)?\b/g;
 // Text that is legitimately technical: e-mail addresses and domain names, and file names in the mail outbox.
-const ALWAYS_ALLOWED = [/\b[\w.+-]+@[\w-]+(?:\.[\w-]+)+\b/g, /\b[\w-]+\.(?:org|com|net|eml|csv|json|jpg|jpeg|png|webp)\b/gi];
+const ALWAYS_ALLOWED = [
+  /\b[\w.+-]+@[\w-]+(?:\.[\w-]+)+\b/g,
+  /\b[\w-]+\.(?:org|com|net|eml|csv|json|jpg|jpeg|png|webp)\b/gi,
+];
 
 function leaks(text: string, allow: RegExp[] = []): string[] {
   let scrubbed = text;
@@ -210,20 +265,31 @@ async function checkAtWidth(page: Page, where: string, visit: Visit, width: numb
   const result = await settled(page, () => runAxe(page));
   const at = `${where} · ${width} px (${page.url().replace(baseUrl(), "")})`;
   for (const v of result.violations) {
-    for (const n of v.nodes) problems.push(`${at}: [${v.id}] ${JSON.stringify(n.target)} — ${v.help}${n.failureSummary ? `\n      ${n.failureSummary.replace(/\n/g, " ")}` : ""}`);
+    for (const n of v.nodes)
+      problems.push(
+        `${at}: [${v.id}] ${JSON.stringify(n.target)} — ${v.help}${n.failureSummary ? `\n      ${n.failureSummary.replace(/\n/g, " ")}` : ""}`,
+      );
   }
   if (width === 390) {
     const { scroll, inner, culprits } = await settled(page, () =>
       page.evaluate(() => {
         const inner = window.innerWidth;
         // The innermost elements that stick out, to say where to look.
-        const out = Array.from(document.body.querySelectorAll("*")).filter((el) => el.getBoundingClientRect().right > inner + 0.5);
+        const out = Array.from(document.body.querySelectorAll("*")).filter(
+          (el) => el.getBoundingClientRect().right > inner + 0.5,
+        );
         const innermost = out.filter((el) => !out.some((o) => o !== el && el.contains(o)));
-        const culprits = innermost.slice(0, 4).map((el) => `${el.tagName.toLowerCase()}${el.id ? `#${el.id}` : ""}${typeof el.className === "string" && el.className ? `.${el.className.split(" ").slice(0, 4).join(".")}` : ""} "${(el.textContent ?? "").trim().slice(0, 40)}" (${Math.round(el.getBoundingClientRect().right)} px)`);
+        const culprits = innermost
+          .slice(0, 4)
+          .map(
+            (el) =>
+              `${el.tagName.toLowerCase()}${el.id ? `#${el.id}` : ""}${typeof el.className === "string" && el.className ? `.${el.className.split(" ").slice(0, 4).join(".")}` : ""} "${(el.textContent ?? "").trim().slice(0, 40)}" (${Math.round(el.getBoundingClientRect().right)} px)`,
+          );
         return { scroll: document.scrollingElement!.scrollWidth, inner, culprits };
       }),
     );
-    if (scroll > inner) problems.push(`${at}: scrolls sideways (${scroll} px wide in ${inner} px); look at: ${culprits.join("; ")}`);
+    if (scroll > inner)
+      problems.push(`${at}: scrolls sideways (${scroll} px wide in ${inner} px); look at: ${culprits.join("; ")}`);
   }
   const text = await settled(page, () => page.evaluate(() => document.body.innerText));
   const leaked = leaks(text, visit.allow);
@@ -270,12 +336,14 @@ describe("the checks themselves", () => {
     await page.goto(`${baseUrl()}/cautions`, { waitUntil: "load" });
     await page.evaluate(() => {
       document.documentElement.removeAttribute("lang");
-      document.body.insertAdjacentHTML("beforeend", '<img src="/favicon.ico"><button></button><p style="color:#bbb;background:#fff">pale text</p>');
+      document.body.insertAdjacentHTML(
+        "beforeend",
+        '<img src="/favicon.ico"><button></button><p style="color:#bbb;background:#fff">pale text</p>',
+      );
     });
     const ids = (await runAxe(page)).violations.map((v) => v.id);
     expect(ids).toEqual(expect.arrayContaining(["html-has-lang", "image-alt", "button-name", "color-contrast"]));
   });
-
 
   it("finds snake_case values, field paths and ISO times, and passes plain words and e-mail addresses", () => {
     expect(leaks("Status: awaiting_review")).toEqual(["awaiting_review"]);

@@ -11,7 +11,12 @@ function verificationLinkFor(to: string): string {
   const raw = fs
     .readdirSync(dir)
     .filter((f) => f.endsWith(".eml"))
-    .map((f) => fs.readFileSync(path.join(dir, f), "utf8").replace(/=\r?\n/g, "").replace(/=3D/g, "="))
+    .map((f) =>
+      fs
+        .readFileSync(path.join(dir, f), "utf8")
+        .replace(/=\r?\n/g, "")
+        .replace(/=3D/g, "="),
+    )
     .find((m) => new RegExp(`^To: .*${to.replace(/[.+]/g, "\\$&")}`, "mi").test(m) && m.includes("verify-email"));
   const link = raw?.match(/https?:\/\/\S+verify-email\S+/)?.[0];
   if (!link) throw new Error(`no verification mail for ${to}`);

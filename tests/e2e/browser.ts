@@ -9,7 +9,15 @@ export async function launch(): Promise<Browser> {
   return chromium.launch({
     executablePath: CHROMIUM,
     headless: true,
-    args: ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--no-first-run", "--disable-sync", "--disable-quic"],
+    args: [
+      "--no-sandbox",
+      "--disable-gpu",
+      "--disable-background-networking",
+      "--disable-component-update",
+      "--no-first-run",
+      "--disable-sync",
+      "--disable-quic",
+    ],
   });
 }
 

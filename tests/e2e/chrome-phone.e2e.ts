@@ -14,9 +14,21 @@ async function pageAt(b: Browser, viewport: { width: number; height: number }, e
 }
 
 /** How far the page can scroll sideways (0 when nothing is wider than the window). */
-const sidewaysScroll = (page: Page) => page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+const sidewaysScroll = (page: Page) =>
+  page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
 
-const adminLinks = ["Evidence", "Dose planner", "Cautions", "My reports", /^Review \(\d+\)$/, "Members", "Catalogue", "Club settings", "Import/export", "Mail outbox"];
+const adminLinks = [
+  "Evidence",
+  "Dose planner",
+  "Cautions",
+  "My reports",
+  /^Review \(\d+\)$/,
+  "Members",
+  "Catalogue",
+  "Club settings",
+  "Import/export",
+  "Mail outbox",
+];
 
 describe("the header", () => {
   it("under 640 px folds into a Menu that opens by keyboard, shows every link an officer has, and closes on Escape", async () => {
@@ -27,7 +39,8 @@ describe("the header", () => {
     expect(await button.getAttribute("aria-expanded")).toBe("false");
     // Reach the menu button from the top of the page with Tab alone, then open it with Enter.
     await page.locator("body").focus();
-    for (let i = 0; i < 8 && !(await button.evaluate((el) => el === document.activeElement)); i++) await page.keyboard.press("Tab");
+    for (let i = 0; i < 8 && !(await button.evaluate((el) => el === document.activeElement)); i++)
+      await page.keyboard.press("Tab");
     expect(await button.evaluate((el) => el === document.activeElement)).toBe(true);
     await page.keyboard.press("Enter");
     await expect.poll(() => button.getAttribute("aria-expanded")).toBe("true");
@@ -52,9 +65,14 @@ describe("the header", () => {
       const box = (await bar.boundingBox())!;
       expect(box.height, `header height at ${width} px`).toBeLessThan(64);
       const nav = page.getByTestId("nav-bar");
-      for (const name of adminLinks.slice(0, 5)) expect(await nav.getByRole("link", { name: name === "Dose planner" && width < 1024 ? "Planner" : name }).isVisible(), `${name} at ${width}`).toBe(true);
+      for (const name of adminLinks.slice(0, 5))
+        expect(
+          await nav.getByRole("link", { name: name === "Dose planner" && width < 1024 ? "Planner" : name }).isVisible(),
+          `${name} at ${width}`,
+        ).toBe(true);
       await nav.locator("summary", { hasText: "Admin" }).click();
-      for (const name of adminLinks.slice(5)) expect(await nav.getByRole("link", { name }).isVisible(), `${name} at ${width}`).toBe(true);
+      for (const name of adminLinks.slice(5))
+        expect(await nav.getByRole("link", { name }).isVisible(), `${name} at ${width}`).toBe(true);
       expect(await sidewaysScroll(page)).toBe(0);
       if (width === 1280) await page.screenshot({ path: "tests/e2e/.artifacts/header-1280.png" });
       await page.close();
@@ -70,7 +88,12 @@ describe("the review queue", () => {
     await card.waitFor();
     expect(await card.evaluate((el) => getComputedStyle(el).display)).toBe("grid");
     // Each cell is led by its column's name.
-    expect(await card.locator("td").nth(1).evaluate((el) => getComputedStyle(el, "::before").content)).toBe('"Group"');
+    expect(
+      await card
+        .locator("td")
+        .nth(1)
+        .evaluate((el) => getComputedStyle(el, "::before").content),
+    ).toBe('"Group"');
     const cardBox = (await card.boundingBox())!;
     expect(cardBox.width).toBeLessThanOrEqual(390);
     expect(await sidewaysScroll(page)).toBe(0);
@@ -105,7 +128,10 @@ describe("the review queue", () => {
     await page.getByTestId("review-queue-nav").waitFor();
     await page.keyboard.press("j");
     await page.waitForURL(`**${second}`);
-    await page.getByTestId("review-queue-nav").getByRole("link", { name: /Previous/ }).waitFor();
+    await page
+      .getByTestId("review-queue-nav")
+      .getByRole("link", { name: /Previous/ })
+      .waitFor();
     expect(await page.locator("input[type=radio]:checked").count()).toBe(0);
     await page.close();
   });
@@ -114,15 +140,25 @@ describe("the review queue", () => {
 describe("photo upload", () => {
   it("shows a file the server refuses in red with its reason and a Retry, and a good one in green", async () => {
     const page = await pageAt(browser(), phone, "member@example.org");
-    const draft = await page.request.post(`${baseUrl()}/api/reports/drafts`, { data: { speciesId: "paracheirodon-innesi", fishCount: 4 }, headers: { origin: baseUrl() } });
+    const draft = await page.request.post(`${baseUrl()}/api/reports/drafts`, {
+      data: { speciesId: "paracheirodon-innesi", fishCount: 4 },
+      headers: { origin: baseUrl() },
+    });
     expect(draft.status()).toBe(201);
     const id = (await draft.json()).id as string;
     await page.goto(`${baseUrl()}/reports/${id}/edit?step=4`);
     const posts: string[] = [];
-    page.on("request", (r) => r.method() === "POST" && r.url().endsWith(`/api/reports/${id}/photos`) && posts.push(r.url()));
+    page.on(
+      "request",
+      (r) => r.method() === "POST" && r.url().endsWith(`/api/reports/${id}/photos`) && posts.push(r.url()),
+    );
 
     // A text file with a photo's name: the server sniffs the bytes and refuses it.
-    await page.getByTestId("photo-input").setInputFiles({ name: "holiday.jpg", mimeType: "image/jpeg", buffer: Buffer.from("these are words, not pixels\n".repeat(40)) });
+    await page.getByTestId("photo-input").setInputFiles({
+      name: "holiday.jpg",
+      mimeType: "image/jpeg",
+      buffer: Buffer.from("these are words, not pixels\n".repeat(40)),
+    });
     const bad = page.getByTestId("upload-item").filter({ hasText: "holiday.jpg" });
     await bad.and(page.locator("[data-state=failed]")).waitFor();
     expect(await bad.textContent()).toContain("not added.");
@@ -132,7 +168,9 @@ describe("photo upload", () => {
     const retry = bad.getByRole("button", { name: "Retry holiday.jpg" });
     expect(await retry.isVisible()).toBe(true);
 
-    const good = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#2f7a63" } }).jpeg().toBuffer();
+    const good = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#2f7a63" } })
+      .jpeg()
+      .toBuffer();
     await page.getByTestId("photo-input").setInputFiles({ name: "tank.jpg", mimeType: "image/jpeg", buffer: good });
     const ok = page.getByTestId("upload-item").filter({ hasText: "tank.jpg" });
     await ok.and(page.locator("[data-state=done]")).waitFor();
@@ -166,7 +204,15 @@ describe("at 390 px", () => {
     };
     for (const path of ["/", "/evidence", "/cautions", "/sign-in"]) await check(visitor, path);
     for (const path of ["/", "/reports"]) await check(member, path);
-    for (const path of ["/review", "/review/reports", "/admin/members", "/admin/catalogue", "/admin/mail", "/admin/settings"]) await check(admin, path);
+    for (const path of [
+      "/review",
+      "/review/reports",
+      "/admin/members",
+      "/admin/catalogue",
+      "/admin/mail",
+      "/admin/settings",
+    ])
+      await check(admin, path);
     await admin.goto(`${baseUrl()}/review`);
     await admin.locator("a[data-row-link]").first().click();
     await admin.getByTestId("review-queue-nav").waitFor();

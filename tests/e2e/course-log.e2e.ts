@@ -9,15 +9,38 @@ describe("the course log on a phone", () => {
     await signInAs(page, "member@example.org");
     // An open course with one dose, made through the API from the page (same origin, the member's session).
     const id = await page.evaluate(async () => {
-      const post = (url: string, body: unknown) => fetch(url, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(body) }).then((r) => r.json());
+      const post = (url: string, body: unknown) =>
+        fetch(url, {
+          method: "POST",
+          headers: { "content-type": "application/json" },
+          body: JSON.stringify(body),
+        }).then((r) => r.json());
       const draft = await post("/api/reports/drafts", {
-        courseOpen: true, speciesId: "paracheirodon-innesi", fishCount: 6, water: { volume: 40, volumeUnit: "L" },
-        treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, stockBasis: "w/v", statedConcentration: 25, intervalHours: 48 },
+        courseOpen: true,
+        speciesId: "paracheirodon-innesi",
+        fishCount: 6,
+        water: { volume: 40, volumeUnit: "L" },
+        treatment: {
+          agentSlug: "hydrogen-peroxide",
+          stockPercent: 3,
+          stockBasis: "w/v",
+          statedConcentration: 25,
+          intervalHours: 48,
+        },
       });
       // In the demo club a tetra dose of 19.2 mg/L went badly, so 24.75 mg/L trips the guard rail: acknowledged here.
-      const first = await fetch(`/api/reports/${draft.id}/entries`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ kind: "dose", at: new Date(Date.now() - 3600_000).toISOString(), amountMl: 33 }) });
+      const first = await fetch(`/api/reports/${draft.id}/entries`, {
+        method: "POST",
+        headers: { "content-type": "application/json" },
+        body: JSON.stringify({ kind: "dose", at: new Date(Date.now() - 3600_000).toISOString(), amountMl: 33 }),
+      });
       if (first.status !== 422) throw new Error(`expected the guard rail to ask for confirmation, got ${first.status}`);
-      await post(`/api/reports/${draft.id}/entries`, { kind: "dose", at: new Date(Date.now() - 3600_000).toISOString(), amountMl: 33, confirm: true });
+      await post(`/api/reports/${draft.id}/entries`, {
+        kind: "dose",
+        at: new Date(Date.now() - 3600_000).toISOString(),
+        amountMl: 33,
+        confirm: true,
+      });
       return draft.id as string;
     });
     await page.goto(`${baseUrl()}/reports/${id}`);
@@ -29,8 +52,12 @@ describe("the course log on a phone", () => {
     expect(await next.textContent()).toMatch(/What to watch for/);
     expect(await page.getByTestId("entry-concentration").first().textContent()).toContain("24.75 mg/L");
     // The acknowledged warning stays on the entry, and the next dose (which repeats it) carries it too.
-    expect(await page.getByTestId("entry-warning").first().locator("li").first().getAttribute("data-code")).toBe("at_or_above_lowest_adverse");
-    expect(await page.getByTestId("next-dose-warnings").textContent()).toMatch(/already been lost or severely distressed/);
+    expect(await page.getByTestId("entry-warning").first().locator("li").first().getAttribute("data-code")).toBe(
+      "at_or_above_lowest_adverse",
+    );
+    expect(await page.getByTestId("next-dose-warnings").textContent()).toMatch(
+      /already been lost or severely distressed/,
+    );
     expect(await page.evaluate(() => document.scrollingElement!.scrollWidth <= window.innerWidth)).toBe(true);
 
     await page.getByRole("button", { name: "Correct or strike out" }).click();
@@ -44,7 +71,12 @@ describe("the course log on a phone", () => {
     const confirm = page.getByRole("button", { name: "Yes, it is right: save it" });
     await confirm.waitFor();
     expect(await editor.locator("p[role=alert]").textContent()).toMatch(/more than 3×/);
-    expect(await editor.getByTestId("entry-rails").locator("li").evaluateAll((els) => els.map((e) => (e as HTMLElement).dataset.code))).toContain("above_ceiling");
+    expect(
+      await editor
+        .getByTestId("entry-rails")
+        .locator("li")
+        .evaluateAll((els) => els.map((e) => (e as HTMLElement).dataset.code)),
+    ).toContain("above_ceiling");
     expect(await confirm.isDisabled()).toBe(true);
     expect(await page.evaluate(() => document.scrollingElement!.scrollWidth <= window.innerWidth)).toBe(true);
     // 30 mL (22.5 mg/L) is still above the dose that went badly: acknowledged, then saved.
@@ -55,7 +87,9 @@ describe("the course log on a phone", () => {
     await confirm.click();
     await page.getByTestId("next-dose-ml").filter({ hasText: "30 mL" }).waitFor();
     await page.getByTestId("history").getByText("corrected a course entry").waitFor();
-    expect(await page.getByTestId("history").textContent()).toContain("warnings acknowledged: at or above lowest adverse");
+    expect(await page.getByTestId("history").textContent()).toContain(
+      "warnings acknowledged: at or above lowest adverse",
+    );
 
     await page.goto(`${baseUrl()}/`);
     await page.getByTestId("home-courses").getByRole("link").first().waitFor();

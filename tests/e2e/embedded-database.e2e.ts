@@ -6,7 +6,8 @@ import { describe, expect, inject, it } from "vitest";
 // process, so a long import keeps that process busy and the app's event loop free.
 const base = () => inject("baseUrl");
 
-const header = "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after,notes";
+const header =
+  "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after,notes";
 /** One valid row; `n` makes each row's content (and so its fingerprint) different. */
 const line = (n: number) =>
   `accepted,member-e2e${n % 40},poecilia-reticulata,${3 + (n % 9)},adult,white-spot,2018-0${1 + (n % 9)}-1${n % 10},60,L,25,C,bare,hydrogen-peroxide,3,${20 + (n % 50)},1,0,,mild,cleared,7,"liveness probe row ${n}"`;
@@ -18,7 +19,10 @@ async function signIn(email: string): Promise<string> {
     body: JSON.stringify({ email, password: inject("demoPassword") }),
   });
   expect(res.status, `sign-in of ${email}`).toBe(200);
-  return res.headers.getSetCookie().map((c) => c.split(";")[0]!).join("; ");
+  return res.headers
+    .getSetCookie()
+    .map((c) => c.split(";")[0]!)
+    .join("; ");
 }
 
 /** Calls `url` one request after another until `done()`; returns every answer's status and wait in ms. */
@@ -36,44 +40,57 @@ async function probe(url: string, done: () => boolean): Promise<{ status: number
 
 describe("the embedded database in its own process", () => {
   it("is held by its own process, not the app's, and answers the app through the wire protocol", async () => {
-    const holder = JSON.parse(fs.readFileSync(path.join(inject("dataDir"), "pgdata.lock"), "utf8")) as { command: string };
+    const holder = JSON.parse(fs.readFileSync(path.join(inject("dataDir"), "pgdata.lock"), "utf8")) as {
+      command: string;
+    };
     expect(holder.command).toContain("database-process");
     const health = await fetch(`${base()}/api/health`);
     expect(await health.json()).toEqual({ status: "ok", database: "pglite" });
   });
 
-  it("keeps liveness under 0.5 s and the summaries answering during a 10,000-row import", { timeout: 600_000 }, async () => {
-    const admin = await signIn("admin@example.org");
-    const csv = [header, ...Array.from({ length: 10_000 }, (_, k) => line(k))].join("\n");
-    // Warm-up: the first request to a route loads its compiled module (seconds on a loaded machine), which is not
-    // what this measures. A dry run of one row writes nothing.
-    const warm = await fetch(`${base()}/api/import/reports?dryRun=1`, {
-      method: "POST",
-      headers: { cookie: admin, origin: base(), "content-type": "text/csv" },
-      body: [header, line(99_999)].join("\n"),
-    });
-    expect(warm.status).toBe(200);
-    for (const url of ["/api/health/live", "/api/summaries"]) await (await fetch(`${base()}${url}`)).arrayBuffer();
-    let finished = false;
-    const importing = fetch(`${base()}/api/import/reports`, {
-      method: "POST",
-      headers: { cookie: admin, origin: base(), "content-type": "text/csv" },
-      body: csv,
-    }).finally(() => (finished = true));
-    const [live, summaries, res] = await Promise.all([
-      probe(`${base()}/api/health/live`, () => finished),
-      probe(`${base()}/api/summaries`, () => finished),
-      importing,
-    ]);
-    const body = (await res.json()) as { imported: number };
-    expect(res.status).toBe(200);
-    expect(body.imported).toBe(10_000);
-    const longest = Math.max(...live.map((p) => p.ms));
-    const top = (xs: { ms: number }[]) => xs.map((p) => Math.round(p.ms)).sort((a, b) => b - a).slice(0, 5).join(", ");
-    console.log(`import: ${live.length} liveness probes, longest ${top(live)} ms; ${summaries.length} summaries answers, longest ${top(summaries)} ms`);
-    expect(live.every((p) => p.status === 200)).toBe(true);
-    expect(longest).toBeLessThan(500);
-    expect(summaries.length).toBeGreaterThan(1);
-    expect(summaries.every((p) => p.status === 200)).toBe(true);
-  });
+  it(
+    "keeps liveness under 0.5 s and the summaries answering during a 10,000-row import",
+    { timeout: 600_000 },
+    async () => {
+      const admin = await signIn("admin@example.org");
+      const csv = [header, ...Array.from({ length: 10_000 }, (_, k) => line(k))].join("\n");
+      // Warm-up: the first request to a route loads its compiled module (seconds on a loaded machine), which is not
+      // what this measures. A dry run of one row writes nothing.
+      const warm = await fetch(`${base()}/api/import/reports?dryRun=1`, {
+        method: "POST",
+        headers: { cookie: admin, origin: base(), "content-type": "text/csv" },
+        body: [header, line(99_999)].join("\n"),
+      });
+      expect(warm.status).toBe(200);
+      for (const url of ["/api/health/live", "/api/summaries"]) await (await fetch(`${base()}${url}`)).arrayBuffer();
+      let finished = false;
+      const importing = fetch(`${base()}/api/import/reports`, {
+        method: "POST",
+        headers: { cookie: admin, origin: base(), "content-type": "text/csv" },
+        body: csv,
+      }).finally(() => (finished = true));
+      const [live, summaries, res] = await Promise.all([
+        probe(`${base()}/api/health/live`, () => finished),
+        probe(`${base()}/api/summaries`, () => finished),
+        importing,
+      ]);
+      const body = (await res.json()) as { imported: number };
+      expect(res.status).toBe(200);
+      expect(body.imported).toBe(10_000);
+      const longest = Math.max(...live.map((p) => p.ms));
+      const top = (xs: { ms: number }[]) =>
+        xs
+          .map((p) => Math.round(p.ms))
+          .sort((a, b) => b - a)
+          .slice(0, 5)
+          .join(", ");
+      console.log(
+        `import: ${live.length} liveness probes, longest ${top(live)} ms; ${summaries.length} summaries answers, longest ${top(summaries)} ms`,
+      );
+      expect(live.every((p) => p.status === 200)).toBe(true);
+      expect(longest).toBeLessThan(500);
+      expect(summaries.length).toBeGreaterThan(1);
+      expect(summaries.every((p) => p.status === 200)).toBe(true);
+    },
+  );
 });

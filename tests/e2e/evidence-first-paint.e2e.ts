@@ -7,7 +7,12 @@ import { baseUrl, useBrowser } from "./browser";
 
 const browser = useBrowser();
 const GROUP_PAGE = "/evidence/livebearers?agent=hydrogen-peroxide";
-const SLOW_4G = { offline: false, latency: 150, downloadThroughput: (1.6 * 1024 * 1024) / 8, uploadThroughput: (750 * 1024) / 8 };
+const SLOW_4G = {
+  offline: false,
+  latency: 150,
+  downloadThroughput: (1.6 * 1024 * 1024) / 8,
+  uploadThroughput: (750 * 1024) / 8,
+};
 
 describe("a group page on a slow 4G phone", () => {
   it("has the risk chart's SVG in the server's HTML, with its BMD₁₀ marks and no chart script", async () => {
@@ -31,7 +36,11 @@ describe("a group page on a slow 4G phone", () => {
   });
 
   it("has the chart in the document by the first contentful paint", async () => {
-    const context = await browser().newContext({ viewport: { width: 390, height: 844 }, deviceScaleFactor: 2, isMobile: true });
+    const context = await browser().newContext({
+      viewport: { width: 390, height: 844 },
+      deviceScaleFactor: 2,
+      isMobile: true,
+    });
     const page = await context.newPage();
     try {
       const cdp = await context.newCDPSession(page);
@@ -45,7 +54,11 @@ describe("a group page on a slow 4G phone", () => {
         (window as unknown as { __paint: typeof t }).__paint = t;
         // Shown, not merely parsed: a drawing in a hidden (still streaming) part of the page does not count.
         new MutationObserver((_, observer) => {
-          if ([...document.querySelectorAll('[data-testid="risk-chart"] svg')].some((svg) => svg.getBoundingClientRect().width > 0)) {
+          if (
+            [...document.querySelectorAll('[data-testid="risk-chart"] svg')].some(
+              (svg) => svg.getBoundingClientRect().width > 0,
+            )
+          ) {
             t.chart = performance.now();
             observer.disconnect();
           }
@@ -55,9 +68,17 @@ describe("a group page on a slow 4G phone", () => {
         }).observe({ type: "paint", buffered: true });
       });
       await page.goto(`${baseUrl()}${GROUP_PAGE}`, { waitUntil: "load", timeout: 60_000 });
-      await page.waitForFunction(() => (window as unknown as { __paint: { fcp: number | null } }).__paint.fcp !== null, undefined, { timeout: 30_000 });
-      const t = await page.evaluate(() => (window as unknown as { __paint: { fcp: number; chart: number | null } }).__paint);
-      console.log(`slow 4G: first contentful paint at ${Math.round(t.fcp)} ms, risk chart in the document at ${t.chart === null ? "never" : `${Math.round(t.chart)} ms`}`);
+      await page.waitForFunction(
+        () => (window as unknown as { __paint: { fcp: number | null } }).__paint.fcp !== null,
+        undefined,
+        { timeout: 30_000 },
+      );
+      const t = await page.evaluate(
+        () => (window as unknown as { __paint: { fcp: number; chart: number | null } }).__paint,
+      );
+      console.log(
+        `slow 4G: first contentful paint at ${Math.round(t.fcp)} ms, risk chart in the document at ${t.chart === null ? "never" : `${Math.round(t.chart)} ms`}`,
+      );
       expect(t.chart).not.toBeNull();
       // In the first paint: the chart was in the document by then (a frame's leeway for the observer's delivery).
       expect(t.chart!).toBeLessThanOrEqual(t.fcp + 50);

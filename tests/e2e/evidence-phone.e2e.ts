@@ -8,19 +8,33 @@ import { baseUrl, useBrowser } from "./browser";
 const browser = useBrowser();
 
 const pages = [
-  { name: "the evidence index", path: "/evidence?agent=hydrogen-peroxide", table: "evidence-table", charts: ["groups-chart"] },
-  { name: "a group page", path: "/evidence/livebearers?agent=hydrogen-peroxide", table: "band-table", charts: ["dose-chart", "band-chart", "risk-chart"] },
+  {
+    name: "the evidence index",
+    path: "/evidence?agent=hydrogen-peroxide",
+    table: "evidence-table",
+    charts: ["groups-chart"],
+  },
+  {
+    name: "a group page",
+    path: "/evidence/livebearers?agent=hydrogen-peroxide",
+    table: "band-table",
+    charts: ["dose-chart", "band-chart", "risk-chart"],
+  },
 ];
 
 /** The smallest on-screen font size of the chart's text: its CSS size times how far the SVG is scaled. */
 async function smallestChartText(page: Page, testId: string): Promise<number> {
   return page.getByTestId(testId).evaluate((root) => {
     // Each chart is drawn at three widths and CSS shows one: measure the one on screen.
-    const sizes = [...root.querySelectorAll("svg")].filter((svg) => svg.getBoundingClientRect().width > 0).flatMap((svg) => {
-      const box = svg.viewBox.baseVal;
-      const scale = box && box.width ? svg.getBoundingClientRect().width / box.width : 1;
-      return [...svg.querySelectorAll("text")].filter((t) => (t.textContent ?? "").trim()).map((t) => parseFloat(getComputedStyle(t).fontSize) * scale);
-    });
+    const sizes = [...root.querySelectorAll("svg")]
+      .filter((svg) => svg.getBoundingClientRect().width > 0)
+      .flatMap((svg) => {
+        const box = svg.viewBox.baseVal;
+        const scale = box && box.width ? svg.getBoundingClientRect().width / box.width : 1;
+        return [...svg.querySelectorAll("text")]
+          .filter((t) => (t.textContent ?? "").trim())
+          .map((t) => parseFloat(getComputedStyle(t).fontSize) * scale);
+      });
     return sizes.length ? Math.min(...sizes) : Number.NaN;
   });
 }
@@ -35,7 +49,10 @@ describe("evidence pages on a phone and a desktop", () => {
           await page.goto(`${baseUrl()}${p.path}`);
           await page.getByTestId(p.table).waitFor();
           // The charts come drawn in the server's HTML: nothing to wait for.
-          const { scrollWidth, clientWidth } = await page.evaluate(() => ({ scrollWidth: document.documentElement.scrollWidth, clientWidth: document.documentElement.clientWidth }));
+          const { scrollWidth, clientWidth } = await page.evaluate(() => ({
+            scrollWidth: document.documentElement.scrollWidth,
+            clientWidth: document.documentElement.clientWidth,
+          }));
           expect(scrollWidth, `${p.path} at ${width} px`).toBeLessThanOrEqual(clientWidth);
           // On a phone the table's header row is hidden and each cell names its column (stacked cards).
           const headerShown = await page.getByTestId(p.table).locator("thead").isVisible();

@@ -16,7 +16,8 @@ function appPid(dataDir: string): number {
     try {
       const cmd = fs.readFileSync(`/proc/${entry}/cmdline`, "utf8");
       if (!cmd.includes("http-server.ts")) continue;
-      if (fs.readFileSync(`/proc/${entry}/environ`, "utf8").split("\0").includes(`DATA_DIR=${dataDir}`)) return Number(entry);
+      if (fs.readFileSync(`/proc/${entry}/environ`, "utf8").split("\0").includes(`DATA_DIR=${dataDir}`))
+        return Number(entry);
     } catch {
       // gone, or not ours to read
     }
@@ -28,11 +29,14 @@ const rssMb = (pid: number) => Number(/VmRSS:\s+(\d+)/.exec(fs.readFileSync(`/pr
 describe("the reports export", () => {
   it(`streams ${N} reports with the app server's memory flat (under 600 MB)`, { timeout: 1_200_000 }, async () => {
     const dataDir = inject("dataDir");
-    const client = new pg.Client({ connectionString: fs.readFileSync(path.join(dataDir, "pgdata.address"), "utf8").trim() });
+    const client = new pg.Client({
+      connectionString: fs.readFileSync(path.join(dataDir, "pgdata.address"), "utf8").trim(),
+    });
     await client.connect();
     try {
       const n = (await client.query<{ n: number }>("select count(*)::int as n from reports")).rows[0]!.n;
-      const author = (await client.query<{ id: string }>("select id from users where role = 'admin' limit 1")).rows[0]!.id;
+      const author = (await client.query<{ id: string }>("select id from users where role = 'admin' limit 1")).rows[0]!
+        .id;
       await client.query(
         `insert into reports (id, author_id, status, source, species_id, group_slug, fish_count, size_class, condition_slug, started_on,
                               water_volume, water_volume_unit, volume_l, temperature, temperature_unit, temperature_c, setting,
@@ -53,7 +57,10 @@ describe("the reports export", () => {
       headers: { "content-type": "application/json", origin: base() },
       body: JSON.stringify({ email: "admin@example.org", password: inject("demoPassword") }),
     });
-    const cookie = signIn.headers.getSetCookie().map((c) => c.split(";")[0]!).join("; ");
+    const cookie = signIn.headers
+      .getSetCookie()
+      .map((c) => c.split(";")[0]!)
+      .join("; ");
     const pid = appPid(dataDir);
     const dbPid = (JSON.parse(fs.readFileSync(path.join(dataDir, "pgdata.lock"), "utf8")) as { pid: number }).pid;
     const before = { app: rssMb(pid), db: rssMb(dbPid) };

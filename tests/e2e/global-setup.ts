@@ -5,7 +5,6 @@ import path from "node:path";
 import type { TestProject } from "vitest/node";
 import { freePort } from "../support/free-port";
 
-
 export default async function setup(project: TestProject) {
   const root = process.cwd();
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), "tanklore-e2e-"));
@@ -25,10 +24,18 @@ export default async function setup(project: TestProject) {
   // the server under test must behave as in production.
   delete (env as NodeJS.ProcessEnv).TEST;
   const tsx = ["--import", "tsx"];
-  const build = spawnSync(process.execPath, [...tsx, "-e", "const m = await import('./db/serve.ts'); m.buildIfNeeded();"], { cwd: root, env, stdio: "inherit" });
+  const build = spawnSync(
+    process.execPath,
+    [...tsx, "-e", "const m = await import('./db/serve.ts'); m.buildIfNeeded();"],
+    { cwd: root, env, stdio: "inherit" },
+  );
   if (build.status !== 0) throw new Error("next build failed");
   // Server modules import "server-only", which resolves to an empty module under this condition.
-  const seed = spawnSync(process.execPath, ["--conditions=react-server", ...tsx, "db/seed.ts"], { cwd: root, env, stdio: "inherit" });
+  const seed = spawnSync(process.execPath, ["--conditions=react-server", ...tsx, "db/seed.ts"], {
+    cwd: root,
+    env,
+    stdio: "inherit",
+  });
   if (seed.status !== 0) throw new Error("seeding the demo club failed");
 
   // `npm start` itself: the embedded database in its own process, migrations, then Next.js behind
@@ -45,7 +52,10 @@ export default async function setup(project: TestProject) {
   let ready = false;
   for (let i = 0; i < 120 && !ready; i++) {
     await new Promise((r) => setTimeout(r, 500));
-    ready = await fetch(`${base}/api/health`).then((r) => r.ok, () => false);
+    ready = await fetch(`${base}/api/health`).then(
+      (r) => r.ok,
+      () => false,
+    );
   }
   if (!ready) {
     server.kill("SIGKILL");

@@ -58,9 +58,14 @@ describe.skipIf(!hasPostgresServer())("processes started together on an empty Po
       children.push(child);
     });
     const answers = await Promise.all(ports.map((p, k) => healthy(`http://localhost:${p}`, () => logs[k]!)));
-    expect(answers).toEqual([{ status: "ok", database: "postgres" }, { status: "ok", database: "postgres" }]);
+    expect(answers).toEqual([
+      { status: "ok", database: "postgres" },
+      { status: "ok", database: "postgres" },
+    ]);
 
-    const journal = JSON.parse(fs.readFileSync(path.join(root, "drizzle", "meta", "_journal.json"), "utf8")) as { entries: { tag: string }[] };
+    const journal = JSON.parse(fs.readFileSync(path.join(root, "drizzle", "meta", "_journal.json"), "utf8")) as {
+      entries: { tag: string }[];
+    };
     const client = new pg.Client({ connectionString: server.url });
     await client.connect();
     try {
@@ -72,17 +77,25 @@ describe.skipIf(!hasPostgresServer())("processes started together on an empty Po
     }
   });
 
-  it("refuses to start with DATABASE_URL but no BETTER_AUTH_SECRET or BETTER_AUTH_URL, naming both", { timeout: 120_000 }, async () => {
-    const env: NodeJS.ProcessEnv = { ...process.env, DATABASE_URL: "postgres://nobody@127.0.0.1:1/none" };
-    delete env.BETTER_AUTH_SECRET;
-    delete env.BETTER_AUTH_URL;
-    const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "db/start.ts"], { cwd: root, env, stdio: ["ignore", "pipe", "pipe"] });
-    let out = "";
-    child.stdout?.on("data", (d) => (out += d));
-    child.stderr?.on("data", (d) => (out += d));
-    const code = await new Promise<number | null>((r) => child.once("exit", r));
-    expect(code).toBe(1);
-    expect(out).toMatch(/BETTER_AUTH_SECRET is required when DATABASE_URL is set/);
-    expect(out).toMatch(/BETTER_AUTH_URL is required when DATABASE_URL is set/);
-  });
+  it(
+    "refuses to start with DATABASE_URL but no BETTER_AUTH_SECRET or BETTER_AUTH_URL, naming both",
+    { timeout: 120_000 },
+    async () => {
+      const env: NodeJS.ProcessEnv = { ...process.env, DATABASE_URL: "postgres://nobody@127.0.0.1:1/none" };
+      delete env.BETTER_AUTH_SECRET;
+      delete env.BETTER_AUTH_URL;
+      const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "db/start.ts"], {
+        cwd: root,
+        env,
+        stdio: ["ignore", "pipe", "pipe"],
+      });
+      let out = "";
+      child.stdout?.on("data", (d) => (out += d));
+      child.stderr?.on("data", (d) => (out += d));
+      const code = await new Promise<number | null>((r) => child.once("exit", r));
+      expect(code).toBe(1);
+      expect(out).toMatch(/BETTER_AUTH_SECRET is required when DATABASE_URL is set/);
+      expect(out).toMatch(/BETTER_AUTH_URL is required when DATABASE_URL is set/);
+    },
+  );
 });

@@ -10,7 +10,8 @@ import { baseUrl, useBrowser } from "./browser";
 const browser = useBrowser();
 
 /** The page never scrolls sideways. */
-const noSidewaysScroll = (page: Page) => page.evaluate(() => document.scrollingElement!.scrollWidth <= window.innerWidth);
+const noSidewaysScroll = (page: Page) =>
+  page.evaluate(() => document.scrollingElement!.scrollWidth <= window.innerWidth);
 
 /** Pairs of visible form controls (inside `scope`) whose boxes overlap by more than a pixel each way. */
 async function overlappingControls(page: Page, scope: string): Promise<string[]> {
@@ -20,11 +21,13 @@ async function overlappingControls(page: Page, scope: string): Promise<string[]>
     const boxes = [...root.querySelectorAll("input:not([type=hidden]), select, textarea, button")]
       .map((el) => ({ el, r: el.getBoundingClientRect() }))
       .filter(({ r }) => r.width > 0 && r.height > 0);
-    const name = (el: Element) => `${el.tagName.toLowerCase()}#${el.id || (el as HTMLInputElement).name || el.textContent?.trim().slice(0, 20)}`;
+    const name = (el: Element) =>
+      `${el.tagName.toLowerCase()}#${el.id || (el as HTMLInputElement).name || el.textContent?.trim().slice(0, 20)}`;
     const out: string[] = [];
     for (let i = 0; i < boxes.length; i++) {
       for (let j = i + 1; j < boxes.length; j++) {
-        const a = boxes[i]!.r, b = boxes[j]!.r;
+        const a = boxes[i]!.r,
+          b = boxes[j]!.r;
         const w = Math.min(a.right, b.right) - Math.max(a.left, b.left);
         const h = Math.min(a.bottom, b.bottom) - Math.max(a.top, b.top);
         if (w > 1 && h > 1) out.push(`${name(boxes[i]!.el)} × ${name(boxes[j]!.el)}`);
@@ -34,7 +37,11 @@ async function overlappingControls(page: Page, scope: string): Promise<string[]>
   }, scope);
 }
 
-const codesIn = (page: Page, testId: string) => page.getByTestId(testId).locator("li").evaluateAll((els) => els.map((e) => (e as HTMLElement).dataset.code));
+const codesIn = (page: Page, testId: string) =>
+  page
+    .getByTestId(testId)
+    .locator("li")
+    .evaluateAll((els) => els.map((e) => (e as HTMLElement).dataset.code));
 
 describe("a newcomer's journey from the fish to an open course", () => {
   for (const width of [1280, 390]) {
@@ -61,7 +68,15 @@ describe("a newcomer's journey from the fish to an open course", () => {
         // First dose from the evidence: the API says it stays below the lowest adverse dose, and warns at the median.
         await page.getByRole("button", { name: "Plan from this" }).click();
         const target = await page.getByLabel("Target concentration (mg/L)").inputValue();
-        const api = await page.evaluate(async (t) => (await fetch(`/api/dose?agent=hydrogen-peroxide&stockFormId=h2o2-3&speciesId=paracheirodon-innesi&volume=40&volumeUnit=L&target=${t}`)).json(), target);
+        const api = await page.evaluate(
+          async (t) =>
+            (
+              await fetch(
+                `/api/dose?agent=hydrogen-peroxide&stockFormId=h2o2-3&speciesId=paracheirodon-innesi&volume=40&volumeUnit=L&target=${t}`,
+              )
+            ).json(),
+          target,
+        );
         expect(api.evidence.lowestAdverseDose).toBeLessThanOrEqual(api.evidence.toleratedDose.median);
         expect(api.suggestedFirstDose.concentration).toBeLessThan(api.evidence.lowestAdverseDose);
         expect(api.warnings.map((w: { code: string }) => w.code)).toContain("at_or_above_lowest_adverse");
@@ -86,10 +101,16 @@ describe("a newcomer's journey from the fish to an open course", () => {
         expect(await overlappingControls(page, "form[aria-label='Dose planner']")).toEqual([]);
 
         // The calendar file downloads and parses: 3 doses 48 h apart, the checks, the warnings in the descriptions.
-        const [download] = await Promise.all([page.waitForEvent("download"), page.getByRole("link", { name: "Add to my calendar (.ics)" }).click()]);
+        const [download] = await Promise.all([
+          page.waitForEvent("download"),
+          page.getByRole("link", { name: "Add to my calendar (.ics)" }).click(),
+        ]);
         const text = fs.readFileSync((await download.path())!, "utf8");
         const events = new ICAL.Component(ICAL.parse(text)).getAllSubcomponents("vevent").map((v) => new ICAL.Event(v));
-        const doses = events.filter((e) => /Dose \d of 3/.test(e.summary)).map((e) => e.startDate.toJSDate().getTime()).sort((a, b) => a - b);
+        const doses = events
+          .filter((e) => /Dose \d of 3/.test(e.summary))
+          .map((e) => e.startDate.toJSDate().getTime())
+          .sort((a, b) => a - b);
         expect(doses).toHaveLength(3);
         expect(doses[1]! - doses[0]!).toBe(48 * 3600_000);
         expect(doses[2]! - doses[1]!).toBe(48 * 3600_000);
@@ -106,9 +127,13 @@ describe("a newcomer's journey from the fish to an open course", () => {
         const plan = page.getByTestId("course-plan");
         await plan.waitFor();
         expect(await page.getByTestId("course-plan-fish").textContent()).toContain("Neon tetra");
-        expect(await page.getByTestId("course-plan-target").textContent()).toContain(`${Number(Number(target).toPrecision(3))} mg/L`);
+        expect(await page.getByTestId("course-plan-target").textContent()).toContain(
+          `${Number(Number(target).toPrecision(3))} mg/L`,
+        );
         expect(await page.getByTestId("course-plan-first").textContent()).toContain(firstMl.replace(/ mL$/, ""));
-        expect(await page.getByTestId("course-plan-warnings").textContent()).toContain("Warnings you acknowledged in the planner");
+        expect(await page.getByTestId("course-plan-warnings").textContent()).toContain(
+          "Warnings you acknowledged in the planner",
+        );
         expect(await codesIn(page, "course-plan-warnings")).toContain("at_or_above_lowest_adverse");
         expect(await page.locator("select[id$='-speciesId']").inputValue()).toBe("paracheirodon-innesi");
         expect(await noSidewaysScroll(page)).toBe(true);
@@ -171,7 +196,10 @@ describe("a newcomer's journey from the fish to an open course", () => {
       await page.getByTestId("dose-ml").filter({ hasText: "1,200 mL" }).waitFor();
       // Dry: the same 120 g, weighed on a kitchen scale; no stock strength is asked for.
       await page.getByLabel("Dry salt, weighed in grams").check();
-      await page.getByTestId("dose-grams").filter({ hasText: /^120 g$/ }).waitFor();
+      await page
+        .getByTestId("dose-grams")
+        .filter({ hasText: /^120 g$/ })
+        .waitFor();
       expect(await page.getByLabel("Stock strength", { exact: true }).count()).toBe(0);
       await page.getByLabel("What did my grams make?").check();
       await page.getByLabel("Grams of dry salt added").fill("50");
@@ -212,7 +240,8 @@ describe("a newcomer's journey from the fish to an open course", () => {
         await page.goto(`${baseUrl()}${p.path}`);
         await page.waitForLoadState("networkidle");
         expect(await noSidewaysScroll(page), p.path).toBe(true);
-        if (p.path.startsWith("/planner")) expect(await overlappingControls(page, "form[aria-label='Dose planner']")).toEqual([]);
+        if (p.path.startsWith("/planner"))
+          expect(await overlappingControls(page, "form[aria-label='Dose planner']")).toEqual([]);
       } finally {
         await context.close();
       }

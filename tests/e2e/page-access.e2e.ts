@@ -42,7 +42,11 @@ async function signIn(email: string): Promise<string> {
 async function api(who: Who, method: string, url: string, body?: unknown): Promise<any> {
   const res = await fetch(`${base()}${url}`, {
     method,
-    headers: { origin: base(), ...(cookies[who] ? { cookie: cookies[who]! } : {}), ...(body ? { "content-type": "application/json" } : {}) },
+    headers: {
+      origin: base(),
+      ...(cookies[who] ? { cookie: cookies[who]! } : {}),
+      ...(body ? { "content-type": "application/json" } : {}),
+    },
     body: body ? JSON.stringify(body) : undefined,
   });
   const text = await res.text();
@@ -59,7 +63,8 @@ async function page(who: Who, url: string): Promise<{ status: number; text: stri
   const html = await fetch(`${base()}${url}`, { headers, redirect: "manual" });
   let rsc = await fetch(`${base()}${url}`, { headers: { ...headers, rsc: "1" }, redirect: "manual" });
   const hop = rsc.headers.get("location");
-  if (rsc.status === 307 && hop?.includes("_rsc")) rsc = await fetch(new URL(hop, base()), { headers: { ...headers, rsc: "1" }, redirect: "manual" });
+  if (rsc.status === 307 && hop?.includes("_rsc"))
+    rsc = await fetch(new URL(hop, base()), { headers: { ...headers, rsc: "1" }, redirect: "manual" });
   const body = await html.text();
   const text = `${body}\n${await rsc.text()}`;
   expect(html.status, `${url} as ${who}`).toBeLessThan(500);
@@ -77,12 +82,22 @@ function caughtMail(): { id: string; raw: string }[] {
     .readdirSync(dir)
     .filter((f) => f.endsWith(".eml"))
     .sort()
-    .map((id) => ({ id, raw: fs.readFileSync(path.join(dir, id), "utf8").replace(/=\r?\n/g, "").replace(/=3D/g, "=") }));
+    .map((id) => ({
+      id,
+      raw: fs
+        .readFileSync(path.join(dir, id), "utf8")
+        .replace(/=\r?\n/g, "")
+        .replace(/=3D/g, "="),
+    }));
 }
 
 function resetTokensFor(email: string): string[] {
   return caughtMail()
-    .filter((m) => new RegExp(`^To: .*${email.replace(/[.+]/g, "\\$&")}`, "mi").test(m.raw) && /Subject: Choose a new Tanklore password/.test(m.raw))
+    .filter(
+      (m) =>
+        new RegExp(`^To: .*${email.replace(/[.+]/g, "\\$&")}`, "mi").test(m.raw) &&
+        /Subject: Choose a new Tanklore password/.test(m.raw),
+    )
     .map((m) => m.raw.match(/\/api\/auth\/reset-password\/([A-Za-z0-9_-]+)/)![1]!);
 }
 
@@ -90,10 +105,21 @@ beforeAll(async () => {
   for (const who of Object.keys(accounts) as (keyof typeof accounts)[]) cookies[who] = await signIn(accounts[who]);
   // Member A files one report for review and keeps one draft, each with notes only this test writes.
   const body = {
-    speciesId: "paracheirodon-innesi", fishCount: 5, sizeClass: "adult", conditionSlug: "white-spot", startedOn: "2026-10-01",
+    speciesId: "paracheirodon-innesi",
+    fishCount: 5,
+    sizeClass: "adult",
+    conditionSlug: "white-spot",
+    startedOn: "2026-10-01",
     water: { volume: 60, volumeUnit: "L", temperature: 25, temperatureUnit: "C", ph: 7, setting: "bare" },
     treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, stockBasis: "w/v", amountMl: 30, doses: 1 },
-    outcome: { fishLost: 0, lossCause: null, distress: "none", condition: "cleared", observedDaysAfter: 7, notes: SUBMITTED_NOTES },
+    outcome: {
+      fishLost: 0,
+      lossCause: null,
+      distress: "none",
+      condition: "cleared",
+      observedDaysAfter: 7,
+      notes: SUBMITTED_NOTES,
+    },
     showName: false,
   };
   submittedId = (await api("memberA", "POST", "/api/reports", { ...body, submit: true })).id;
@@ -104,8 +130,12 @@ beforeAll(async () => {
   await api("admin", "PATCH", `/api/admin/members/${keeper.id}`, { role: "member" });
   await api("admin", "POST", "/api/admin/catalogue/conditions", { slug: CONDITION_KEY, name: "Page access condition" });
   // A reset mail for the admin in the outbox, asked by a visitor (the takeover path's first step).
-  await api("visitor", "POST", "/api/auth/request-password-reset", { email: "admin@example.org", redirectTo: "/reset-password" });
-  for (let i = 0; i < 50 && resetTokensFor("admin@example.org").length === 0; i++) await new Promise((r) => setTimeout(r, 100));
+  await api("visitor", "POST", "/api/auth/request-password-reset", {
+    email: "admin@example.org",
+    redirectTo: "/reset-password",
+  });
+  for (let i = 0; i < 50 && resetTokensFor("admin@example.org").length === 0; i++)
+    await new Promise((r) => setTimeout(r, 100));
 }, 120_000);
 
 /** What each page shows, and to whom. `secret` must be absent for everyone not in `allowed`, and present for those in it. */
@@ -120,29 +150,100 @@ const cases: PageCase[] = [
   { route: "/", url: () => "/", allowed: everyone, secrets: () => [] },
   { route: "/cautions", url: () => "/cautions", allowed: everyone, secrets: () => [] },
   { route: "/evidence", url: () => "/evidence", allowed: everyone, secrets: () => [] },
-  { route: "/evidence/[group]", url: () => "/evidence/tetras?agent=hydrogen-peroxide", allowed: everyone, secrets: () => [] },
+  {
+    route: "/evidence/[group]",
+    url: () => "/evidence/tetras?agent=hydrogen-peroxide",
+    allowed: everyone,
+    secrets: () => [],
+  },
   { route: "/forbidden", url: () => "/forbidden", allowed: everyone, secrets: () => [] },
   { route: "/forgot-password", url: () => "/forgot-password", allowed: everyone, secrets: () => [] },
   { route: "/planner", url: () => "/planner", allowed: everyone, secrets: () => [] },
   { route: "/reset-password", url: () => "/reset-password", allowed: everyone, secrets: () => [] },
   { route: "/sign-in", url: () => "/sign-in", allowed: everyone, secrets: () => [] },
   { route: "/sign-up", url: () => "/sign-up", allowed: everyone, secrets: () => [] },
-  { route: "/reports", url: () => "/reports", allowed: ["memberA", "memberB", "moderator", "admin"], secrets: () => ["Every treatment you have reported"] },
-  { route: "/reports/new", url: () => "/reports/new", allowed: ["memberA", "memberB", "moderator", "admin"], secrets: () => ["paracheirodon-innesi"] },
-  { route: "/reports/[id]", url: () => `/reports/${submittedId}`, allowed: ["memberA", "moderator", "admin"], secrets: () => [SUBMITTED_NOTES] },
-  { route: "/reports/[id] (draft)", url: () => `/reports/${draftId}`, allowed: ["memberA"], secrets: () => [DRAFT_NOTES] },
-  { route: "/reports/[id]/edit", url: () => `/reports/${draftId}/edit`, allowed: ["memberA"], secrets: () => [DRAFT_NOTES] },
-  { route: "/review", url: () => "/review", allowed: ["moderator", "admin"], secrets: () => ["waiting. Reports count only once"] },
-  { route: "/review/reports", url: () => "/review/reports", allowed: ["moderator", "admin"], secrets: () => ["submitted reports in the club"] },
-  { route: "/review/[id]", url: () => `/review/${submittedId}`, allowed: ["moderator", "admin"], secrets: () => [SUBMITTED_NOTES] },
-  { route: "/admin/catalogue", url: () => "/admin/catalogue", allowed: ["admin"], secrets: () => ["Recent changes", CONDITION_KEY] },
-  { route: "/admin/exchange", url: () => "/admin/exchange", allowed: ["admin"], secrets: () => ["Import historical reports"] },
-  { route: "/admin/members", url: () => "/admin/members", allowed: ["admin"], secrets: () => [ROLE_CHANGED_NAME, "Recent role changes"] },
-  { route: "/admin/settings", url: () => "/admin/settings", allowed: ["admin"], secrets: () => ["Confidence level of intervals"] },
-  { route: "/admin/mail", url: () => "/admin/mail", allowed: ["admin"], secrets: () => ["Choose a new Tanklore password", "admin@example.org"] },
+  {
+    route: "/reports",
+    url: () => "/reports",
+    allowed: ["memberA", "memberB", "moderator", "admin"],
+    secrets: () => ["Every treatment you have reported"],
+  },
+  {
+    route: "/reports/new",
+    url: () => "/reports/new",
+    allowed: ["memberA", "memberB", "moderator", "admin"],
+    secrets: () => ["paracheirodon-innesi"],
+  },
+  {
+    route: "/reports/[id]",
+    url: () => `/reports/${submittedId}`,
+    allowed: ["memberA", "moderator", "admin"],
+    secrets: () => [SUBMITTED_NOTES],
+  },
+  {
+    route: "/reports/[id] (draft)",
+    url: () => `/reports/${draftId}`,
+    allowed: ["memberA"],
+    secrets: () => [DRAFT_NOTES],
+  },
+  {
+    route: "/reports/[id]/edit",
+    url: () => `/reports/${draftId}/edit`,
+    allowed: ["memberA"],
+    secrets: () => [DRAFT_NOTES],
+  },
+  {
+    route: "/review",
+    url: () => "/review",
+    allowed: ["moderator", "admin"],
+    secrets: () => ["waiting. Reports count only once"],
+  },
+  {
+    route: "/review/reports",
+    url: () => "/review/reports",
+    allowed: ["moderator", "admin"],
+    secrets: () => ["submitted reports in the club"],
+  },
+  {
+    route: "/review/[id]",
+    url: () => `/review/${submittedId}`,
+    allowed: ["moderator", "admin"],
+    secrets: () => [SUBMITTED_NOTES],
+  },
+  {
+    route: "/admin/catalogue",
+    url: () => "/admin/catalogue",
+    allowed: ["admin"],
+    secrets: () => ["Recent changes", CONDITION_KEY],
+  },
+  {
+    route: "/admin/exchange",
+    url: () => "/admin/exchange",
+    allowed: ["admin"],
+    secrets: () => ["Import historical reports"],
+  },
+  {
+    route: "/admin/members",
+    url: () => "/admin/members",
+    allowed: ["admin"],
+    secrets: () => [ROLE_CHANGED_NAME, "Recent role changes"],
+  },
+  {
+    route: "/admin/settings",
+    url: () => "/admin/settings",
+    allowed: ["admin"],
+    secrets: () => ["Confidence level of intervals"],
+  },
+  {
+    route: "/admin/mail",
+    url: () => "/admin/mail",
+    allowed: ["admin"],
+    secrets: () => ["Choose a new Tanklore password", "admin@example.org"],
+  },
   {
     route: "/admin/mail/[id]",
-    url: () => `/admin/mail/${encodeURIComponent(caughtMail().find((m) => /Subject: Choose a new Tanklore password/.test(m.raw))!.id)}`,
+    url: () =>
+      `/admin/mail/${encodeURIComponent(caughtMail().find((m) => /Subject: Choose a new Tanklore password/.test(m.raw))!.id)}`,
     allowed: ["admin"],
     secrets: () => ["Choose a new Tanklore password", "admin@example.org", "/api/auth/reset-password/•••"],
   },
@@ -162,7 +263,14 @@ function appPages(dir = path.join(process.cwd(), "app"), prefix = ""): string[] 
 }
 
 /** Every demo account's address but the caller's own. */
-const othersEmails = (who: Who) => ["admin@example.org", "moderator@example.org", "member@example.org", "member2@example.org", "keeper3@example.org"].filter((e) => e !== (who === "visitor" ? "" : accounts[who]));
+const othersEmails = (who: Who) =>
+  [
+    "admin@example.org",
+    "moderator@example.org",
+    "member@example.org",
+    "member2@example.org",
+    "keeper3@example.org",
+  ].filter((e) => e !== (who === "visitor" ? "" : accounts[who]));
 
 describe("every page, as every kind of caller", () => {
   it("covers every page under app/", () => {
@@ -188,7 +296,8 @@ describe("every page, as every kind of caller", () => {
           for (const e of othersEmails(who)) expect(text, `${c.route} as ${who} shows ${e}`).not.toContain(e);
         }
         // No page ever holds a live reset token.
-        for (const t of resetTokensFor("admin@example.org")) expect(text, `${c.route} as ${who} holds a reset token`).not.toContain(t);
+        for (const t of resetTokensFor("admin@example.org"))
+          expect(text, `${c.route} as ${who} holds a reset token`).not.toContain(t);
         // The role-change and catalogue-change logs name the admin who made the change.
         if (who !== "admin" && c.route.startsWith("/admin")) expect(text).not.toContain("Orla Quillfeather");
       }
@@ -205,7 +314,8 @@ describe("taking over the admin account through the outbox", () => {
     });
     expect(ask.status).toBe(200);
     // The mail catcher stores the message as it arrives; wait until it is there.
-    for (let i = 0; i < 50 && resetTokensFor("admin@example.org").length === 0; i++) await new Promise((r) => setTimeout(r, 100));
+    for (let i = 0; i < 50 && resetTokensFor("admin@example.org").length === 0; i++)
+      await new Promise((r) => setTimeout(r, 100));
     const tokens = resetTokensFor("admin@example.org");
     expect(tokens.length).toBeGreaterThan(0);
 

@@ -24,9 +24,18 @@ describe("the dose planner", () => {
     const carried = new URL(course!, baseUrl());
     expect(carried.pathname).toBe("/reports/new");
     expect(Object.fromEntries(carried.searchParams)).toEqual({
-      course: "1", agentSlug: "hydrogen-peroxide", stockFormId: "h2o2-3", stockPercent: "3", stockBasis: "w/v", volume: "1", volumeUnit: "gal_us", amountMl: "3", intervalHours: "48",
+      course: "1",
+      agentSlug: "hydrogen-peroxide",
+      stockFormId: "h2o2-3",
+      stockPercent: "3",
+      stockBasis: "w/v",
+      volume: "1",
+      volumeUnit: "gal_us",
+      amountMl: "3",
+      intervalHours: "48",
       // The plan itself: the target and the first-dose share (no fish chosen, no warnings here).
-      target: "50", fraction: "0.5",
+      target: "50",
+      fraction: "0.5",
     });
 
     // "What did my mL make?"
@@ -49,7 +58,9 @@ describe("the dose planner", () => {
     expect(await page.getByLabel("Water volume", { exact: true }).getAttribute("aria-invalid")).toBe("true");
     await page.reload();
     await page.getByText("Before you treat").waitFor();
-    await page.waitForFunction(() => (document.querySelector("select[id$='-volumeUnit']") as HTMLSelectElement | null)?.value === "gal_imp");
+    await page.waitForFunction(
+      () => (document.querySelector("select[id$='-volumeUnit']") as HTMLSelectElement | null)?.value === "gal_imp",
+    );
     await page.close();
   });
 
@@ -87,10 +98,15 @@ describe("the dose planner", () => {
     await page.getByLabel("Unit").selectOption("L");
     await page.getByLabel("Target concentration (mg/L)").fill("0.2");
     await page.getByLabel("First dose", { exact: true }).selectOption("1");
-    const api = await (await fetch(`${baseUrl()}/api/dose?agent=copper&stockPercent=1&basis=w/v&volume=100&volumeUnit=L&target=0.2`)).json();
+    const api = await (
+      await fetch(`${baseUrl()}/api/dose?agent=copper&stockPercent=1&basis=w/v&volume=100&volumeUnit=L&target=0.2`)
+    ).json();
     expect(api.doseMl).toBeCloseTo(2, 12);
     // 0.2 mg/L × 100 L / 10 mg/mL (1 % w/v read as Cu²⁺) = 2 mL, on the 0.2 mL marks of a 10 mL syringe.
-    await page.getByTestId("dose-ml").filter({ hasText: /^2 mL$/ }).waitFor();
+    await page
+      .getByTestId("dose-ml")
+      .filter({ hasText: /^2 mL$/ })
+      .waitFor();
     await page.getByLabel("Stock strength", { exact: true }).selectOption("cu-sulfate-1");
     // 20 mg of Cu²⁺ / 2.545 mg/mL (IUPAC atomic weights) = 7.86 mL, rounded down to 7.8 mL.
     await page.getByTestId("dose-ml").filter({ hasText: "7.8 mL" }).waitFor();
@@ -112,7 +128,10 @@ describe("the dose planner", () => {
       await page.getByRole("button", { name: "Plan from this" }).click();
       // In the demo club a tetra report went badly below the group's usual dose: the plan must stop the keeper.
       await page.getByTestId("dose-warnings").waitFor();
-      const codes = await page.getByTestId("dose-warnings").locator("li").evaluateAll((els) => els.map((e) => (e as HTMLElement).dataset.code));
+      const codes = await page
+        .getByTestId("dose-warnings")
+        .locator("li")
+        .evaluateAll((els) => els.map((e) => (e as HTMLElement).dataset.code));
       expect(codes).toContain("at_or_above_lowest_adverse");
       expect(await page.getByTestId("dose-ml").count()).toBe(0);
       await page.getByLabel("I have read these warnings").check();

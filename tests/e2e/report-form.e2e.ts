@@ -45,7 +45,9 @@ describe("filing a report", () => {
     await page.getByRole("button", { name: "Save and continue" }).click();
     await page.waitForURL(/step=4/);
 
-    const photo = await sharp({ create: { width: 800, height: 600, channels: 3, background: "#2f7a63" } }).jpeg().toBuffer();
+    const photo = await sharp({ create: { width: 800, height: 600, channels: 3, background: "#2f7a63" } })
+      .jpeg()
+      .toBuffer();
     await page.getByTestId("photo-input").setInputFiles({ name: "tank.jpg", mimeType: "image/jpeg", buffer: photo });
     await page.getByText("tank.jpg: added").waitFor();
     await page.getByTestId("photo-list").locator("img").first().waitFor();
@@ -74,7 +76,13 @@ describe("an incomplete draft", () => {
       // The fish step only: water, treatment and outcome are missing.
       const draft = await page.request.post(`${baseUrl()}/api/reports/drafts`, {
         headers: { origin: baseUrl() },
-        data: { speciesId: "paracheirodon-innesi", fishCount: 4, sizeClass: "adult", conditionSlug: "white-spot", startedOn: "2026-11-10" },
+        data: {
+          speciesId: "paracheirodon-innesi",
+          fishCount: 4,
+          sizeClass: "adult",
+          conditionSlug: "white-spot",
+          startedOn: "2026-11-10",
+        },
       });
       expect(draft.status()).toBe(201);
       const { id } = (await draft.json()) as { id: string };

@@ -7,7 +7,11 @@ const browser = useBrowser();
 async function api(page: Page, path: string, method: string, body?: unknown) {
   return page.evaluate(
     async ({ path, method, body }) => {
-      const r = await fetch(path, { method, headers: body ? { "content-type": "application/json" } : {}, body: body ? JSON.stringify(body) : undefined });
+      const r = await fetch(path, {
+        method,
+        headers: body ? { "content-type": "application/json" } : {},
+        body: body ? JSON.stringify(body) : undefined,
+      });
       return { status: r.status, body: await r.json() };
     },
     { path, method, body },
@@ -19,11 +23,16 @@ describe("review", () => {
     const member = await browser().newPage();
     await signInAs(member, "member@example.org");
     const created = await api(member, "/api/reports", "POST", {
-      speciesId: "betta-splendens", fishCount: 1, sizeClass: "adult", conditionSlug: "fin-rot", startedOn: "2026-11-15",
+      speciesId: "betta-splendens",
+      fishCount: 1,
+      sizeClass: "adult",
+      conditionSlug: "fin-rot",
+      startedOn: "2026-11-15",
       water: { volume: 20, volumeUnit: "L", temperature: 26, temperatureUnit: "C", setting: "bare" },
       treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, amountMl: 10, doses: 1 },
       outcome: { fishLost: 0, lossCause: null, distress: "none", condition: "improved", observedDaysAfter: 7 },
-      showName: true, submit: true,
+      showName: true,
+      submit: true,
     });
     expect(created.status).toBe(201);
     const id = created.body.id as string;

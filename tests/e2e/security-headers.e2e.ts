@@ -9,7 +9,17 @@ import { baseUrl, signInAs, useBrowser } from "./browser";
 
 const browser = useBrowser();
 
-const pages = ["/", "/planner", "/evidence?agent=hydrogen-peroxide", "/evidence/livebearers?agent=hydrogen-peroxide", "/cautions", "/sign-in", "/sign-up", "/forgot-password", "/no-such-page"];
+const pages = [
+  "/",
+  "/planner",
+  "/evidence?agent=hydrogen-peroxide",
+  "/evidence/livebearers?agent=hydrogen-peroxide",
+  "/cautions",
+  "/sign-in",
+  "/sign-up",
+  "/forgot-password",
+  "/no-such-page",
+];
 const apis = [
   "/api/health",
   "/api/health/live",
@@ -26,7 +36,8 @@ const apis = [
 function expectCommonHeaders(res: Response, where: string) {
   const h = res.headers;
   const csp = h.get("content-security-policy") ?? "";
-  for (const directive of ["object-src 'none'", "base-uri 'none'", "frame-ancestors 'none'"]) expect(csp, `${where}: ${directive}`).toContain(directive);
+  for (const directive of ["object-src 'none'", "base-uri 'none'", "frame-ancestors 'none'"])
+    expect(csp, `${where}: ${directive}`).toContain(directive);
   expect(h.get("x-content-type-options"), where).toBe("nosniff");
   expect(h.get("referrer-policy"), where).toBe("same-origin");
   expect(h.get("permissions-policy"), where).toMatch(/camera=\(\)/);
@@ -94,16 +105,27 @@ describe("headers on a production build", () => {
       body: JSON.stringify({ email: "member@example.org", password: inject("demoPassword") }),
     });
     expect(signIn.status).toBe(200);
-    const cookie = signIn.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
+    const cookie = signIn.headers
+      .getSetCookie()
+      .map((c) => c.split(";")[0])
+      .join("; ");
     const draft = (headers: Record<string, string>) =>
-      fetch(`${baseUrl()}/api/reports/drafts`, { method: "POST", headers: { "content-type": "application/json", cookie, ...headers }, body: JSON.stringify({ fishCount: 1 }) });
+      fetch(`${baseUrl()}/api/reports/drafts`, {
+        method: "POST",
+        headers: { "content-type": "application/json", cookie, ...headers },
+        body: JSON.stringify({ fishCount: 1 }),
+      });
     const bare = await draft({});
     expect(bare.status).toBe(403);
     expect((await bare.json()).error.code).toBe("forbidden");
     expect((await draft({ origin: "https://elsewhere.example.org" })).status).toBe(403);
     expect((await draft({ origin: baseUrl() })).status).toBe(201);
     const signOut = (origin: string) =>
-      fetch(`${baseUrl()}/api/auth/sign-out`, { method: "POST", headers: { "content-type": "application/json", cookie, origin }, body: "{}" });
+      fetch(`${baseUrl()}/api/auth/sign-out`, {
+        method: "POST",
+        headers: { "content-type": "application/json", cookie, origin },
+        body: "{}",
+      });
     expect((await signOut("https://elsewhere.example.org")).status).toBe(403);
     expect((await signOut(baseUrl())).status).toBe(200);
   });
@@ -113,11 +135,14 @@ describe("headers on a production build", () => {
 async function watch(page: Page): Promise<string[]> {
   const violations: string[] = [];
   page.on("console", (m) => {
-    if (/Content Security Policy|Refused to (load|execute|apply|connect|frame)/i.test(m.text())) violations.push(`${page.url()}: ${m.text()}`);
+    if (/Content Security Policy|Refused to (load|execute|apply|connect|frame)/i.test(m.text()))
+      violations.push(`${page.url()}: ${m.text()}`);
   });
   page.on("pageerror", (e) => violations.push(`page error: ${e.message}`));
   await page.addInitScript(() => {
-    document.addEventListener("securitypolicyviolation", (e) => console.error(`Content Security Policy violation: ${e.violatedDirective} ${e.blockedURI}`));
+    document.addEventListener("securitypolicyviolation", (e) =>
+      console.error(`Content Security Policy violation: ${e.violatedDirective} ${e.blockedURI}`),
+    );
   });
   return violations;
 }
@@ -131,7 +156,11 @@ describe("pages under the policy in Chromium", () => {
     // Observable Plot's charts come drawn by the server (three widths, one shown), with their own styles.
     await page.getByTestId("dose-chart").locator("svg").filter({ visible: true }).waitFor();
     expect(await page.getByTestId("dose-chart").locator("circle").count()).toBeGreaterThan(3);
-    const chartStyle = await page.getByTestId("dose-chart").locator("svg").filter({ visible: true }).evaluate((svg) => getComputedStyle(svg).fontFamily);
+    const chartStyle = await page
+      .getByTestId("dose-chart")
+      .locator("svg")
+      .filter({ visible: true })
+      .evaluate((svg) => getComputedStyle(svg).fontFamily);
     expect(chartStyle).not.toBe("");
 
     // The planner answers as one types: hydrated React under the nonce policy.

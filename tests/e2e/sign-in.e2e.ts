@@ -56,7 +56,10 @@ describe("signing in", () => {
     await counter.waitFor();
     expect(Number((await counter.textContent())!.split(" ")[0])).toBeGreaterThanOrEqual(12);
     await page.getByRole("button", { name: /^E-mail/ }).click();
-    await page.getByRole("columnheader", { name: /E-mail/ }).and(page.locator("[aria-sort=ascending]")).waitFor();
+    await page
+      .getByRole("columnheader", { name: /E-mail/ })
+      .and(page.locator("[aria-sort=ascending]"))
+      .waitFor();
     // Sorted by name, Ade Okonrin leads; by e-mail, the admin account does (once the page arrives).
     await page.locator("tbody tr").first().filter({ hasText: "admin@example.org" }).waitFor();
     expect(await page.locator("tbody tr").first().textContent()).toContain("Orla Quillfeather");
@@ -73,7 +76,12 @@ function mailsFor(to: string, subject: RegExp): string[] {
     .readdirSync(dir)
     .filter((f) => f.endsWith(".eml"))
     .sort()
-    .map((f) => fs.readFileSync(path.join(dir, f), "utf8").replace(/=\r?\n/g, "").replace(/=3D/g, "="))
+    .map((f) =>
+      fs
+        .readFileSync(path.join(dir, f), "utf8")
+        .replace(/=\r?\n/g, "")
+        .replace(/=3D/g, "="),
+    )
     .filter((m) => new RegExp(`^To: .*${to.replace(/[.+]/g, "\\$&")}`, "mi").test(m) && subject.test(m));
 }
 
@@ -108,14 +116,21 @@ describe("the confirmation and reset links say what happened", () => {
       const page = await context.newPage();
       const signUp = await page.request.post(`${baseUrl()}/api/auth/sign-up/email`, {
         headers: { origin: baseUrl() },
-        data: { name: `Link Tester ${width}`, email, password: "a-long-enough-password", callbackURL: "/sign-in?verified=1" },
+        data: {
+          name: `Link Tester ${width}`,
+          email,
+          password: "a-long-enough-password",
+          callbackURL: "/sign-in?verified=1",
+        },
       });
       expect(signUp.status()).toBe(200);
       const good = await newestLink(email, /Subject: Confirm your e-mail address/, /https?:\/\/\S+verify-email\S+/);
 
       // Expired first (the address is still unconfirmed), then invalid, then the good link.
       const callback = encodeURIComponent("/sign-in?verified=1");
-      await page.goto(`${baseUrl()}/api/auth/verify-email?token=${expiredVerificationToken(email)}&callbackURL=${callback}`);
+      await page.goto(
+        `${baseUrl()}/api/auth/verify-email?token=${expiredVerificationToken(email)}&callbackURL=${callback}`,
+      );
       await page.waitForURL(/error=/);
       let outcome = page.getByTestId("verification-outcome");
       await outcome.waitFor();
@@ -133,7 +148,10 @@ describe("the confirmation and reset links say what happened", () => {
       await page.waitForURL(/verified=1/);
       expect(page.url()).not.toMatch(/error=/);
       await page.getByTestId("verification-outcome").filter({ hasText: "Address confirmed" }).waitFor();
-      await page.getByTestId("signed-in-as").filter({ hasText: `Link Tester ${width}` }).waitFor();
+      await page
+        .getByTestId("signed-in-as")
+        .filter({ hasText: `Link Tester ${width}` })
+        .waitFor();
       expect(await page.evaluate(() => document.scrollingElement!.scrollWidth <= window.innerWidth)).toBe(true);
       await context.close();
     });
@@ -142,15 +160,26 @@ describe("the confirmation and reset links say what happened", () => {
       const email = `linktest-${width}@example.org`;
       const context = await browser().newContext({ viewport: { width, height: 844 } });
       const page = await context.newPage();
-      const asked = await page.request.post(`${baseUrl()}/api/auth/request-password-reset`, { headers: { origin: baseUrl() }, data: { email, redirectTo: "/reset-password" } });
+      const asked = await page.request.post(`${baseUrl()}/api/auth/request-password-reset`, {
+        headers: { origin: baseUrl() },
+        data: { email, redirectTo: "/reset-password" },
+      });
       expect(asked.status()).toBe(200);
-      const good = await newestLink(email, /Subject: Choose a new Tanklore password/, /https?:\/\/\S+\/api\/auth\/reset-password\/\S+/);
+      const good = await newestLink(
+        email,
+        /Subject: Choose a new Tanklore password/,
+        /https?:\/\/\S+\/api\/auth\/reset-password\/\S+/,
+      );
 
       // An invalid link: the form is not offered, and the page says the password did not change and what to do.
-      await page.goto(`${baseUrl()}/api/auth/reset-password/not-a-token?callbackURL=${encodeURIComponent("/reset-password")}`);
+      await page.goto(
+        `${baseUrl()}/api/auth/reset-password/not-a-token?callbackURL=${encodeURIComponent("/reset-password")}`,
+      );
       await page.waitForURL(/\/reset-password\?error=/);
       await page.getByRole("heading", { name: "This reset link does not work" }).waitFor();
-      expect(await page.getByTestId("reset-outcome").textContent()).toMatch(/password was not changed.*expired.*already used.*ask for a new reset link/is);
+      expect(await page.getByTestId("reset-outcome").textContent()).toMatch(
+        /password was not changed.*expired.*already used.*ask for a new reset link/is,
+      );
       expect(await page.getByLabel("New password", { exact: true }).count()).toBe(0);
       expect(await page.locator("main").innerText()).not.toMatch(PLAIN);
 

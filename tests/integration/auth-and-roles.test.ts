@@ -18,7 +18,9 @@ describe("sign-up, verification and sign-in", () => {
     expect(signUp.status).toBe(200);
 
     // Before confirming, sign-in is refused with a 403 that says to verify.
-    const early = await call(authRoute.POST, "/api/auth/sign-in/email", { body: { email, password: "a-long-password-1" } });
+    const early = await call(authRoute.POST, "/api/auth/sign-in/email", {
+      body: { email, password: "a-long-password-1" },
+    });
     expect(early.status).toBe(403);
 
     await settleBackgroundMail(); // mail goes out after the answer
@@ -35,7 +37,9 @@ describe("sign-up, verification and sign-in", () => {
     expect(u?.emailVerified).toBe(true);
     expect(u?.role).toBe("member");
 
-    const signIn = await call(authRoute.POST, "/api/auth/sign-in/email", { body: { email, password: "a-long-password-1" } });
+    const signIn = await call(authRoute.POST, "/api/auth/sign-in/email", {
+      body: { email, password: "a-long-password-1" },
+    });
     expect(signIn.status).toBe(200);
     const session = await call(authRoute.GET, "/api/auth/get-session", { cookie: cookieFrom(signIn.res) });
     expect(session.body.user.name).toBe("Nell Newcomer");
@@ -43,7 +47,9 @@ describe("sign-up, verification and sign-in", () => {
 
   it("resets a forgotten password through the link in the reset mail", async () => {
     const user = await signedInUser("member");
-    const ask = await call(authRoute.POST, "/api/auth/request-password-reset", { body: { email: user.email, redirectTo: "/reset-password" } });
+    const ask = await call(authRoute.POST, "/api/auth/request-password-reset", {
+      body: { email: user.email, redirectTo: "/reset-password" },
+    });
     expect(ask.status).toBe(200);
     await settleBackgroundMail();
     const mail = mailTo(user.email).find((m) => /Subject: Choose a new Tanklore password/.test(m));
@@ -55,11 +61,17 @@ describe("sign-up, verification and sign-in", () => {
     const landing = new URL(hop.res.headers.get("location")!, "http://localhost:3000");
     expect(landing.pathname).toBe("/reset-password");
     const token = landing.searchParams.get("token")!;
-    const reset = await call(authRoute.POST, "/api/auth/reset-password", { body: { newPassword: "a-brand-new-password", token } });
+    const reset = await call(authRoute.POST, "/api/auth/reset-password", {
+      body: { newPassword: "a-brand-new-password", token },
+    });
     expect(reset.status).toBe(200);
-    const old = await call(authRoute.POST, "/api/auth/sign-in/email", { body: { email: user.email, password: "correct-horse-battery" } });
+    const old = await call(authRoute.POST, "/api/auth/sign-in/email", {
+      body: { email: user.email, password: "correct-horse-battery" },
+    });
     expect(old.status).toBe(401);
-    const fresh = await call(authRoute.POST, "/api/auth/sign-in/email", { body: { email: user.email, password: "a-brand-new-password" } });
+    const fresh = await call(authRoute.POST, "/api/auth/sign-in/email", {
+      body: { email: user.email, password: "a-brand-new-password" },
+    });
     expect(fresh.status).toBe(200);
   });
 });
@@ -77,7 +89,10 @@ describe("role gating on admin routes", () => {
     expect(refused.body.error.message).toMatch(/role/);
 
     const patch = await call(memberRoute.PATCH, `/api/admin/members/${member.id}`, {
-      method: "PATCH", cookie: member.cookie, body: { role: "admin" }, params: { id: member.id },
+      method: "PATCH",
+      cookie: member.cookie,
+      body: { role: "admin" },
+      params: { id: member.id },
     });
     expect(patch.status).toBe(403);
 
@@ -89,7 +104,9 @@ describe("role gating on admin routes", () => {
   it("lets an admin list, filter, sort and page members and change a role, recording the change", async () => {
     const admin = await signedInUser("admin", "Alma Admin");
     const target = await signedInUser("member", "Zed Target");
-    const list = await call(membersRoute.GET, "/api/admin/members?sort=name&dir=desc&pageSize=1", { cookie: admin.cookie });
+    const list = await call(membersRoute.GET, "/api/admin/members?sort=name&dir=desc&pageSize=1", {
+      cookie: admin.cookie,
+    });
     expect(list.status).toBe(200);
     expect(list.body.members).toHaveLength(1);
     expect(list.body.members[0].name).toBe("Zed Target");
@@ -103,13 +120,19 @@ describe("role gating on admin routes", () => {
     expect(bad.body.error.issues.map((i: { path: string }) => i.path).sort()).toEqual(["pageSize", "role"]);
 
     const badRole = await call(memberRoute.PATCH, `/api/admin/members/${target.id}`, {
-      method: "PATCH", cookie: admin.cookie, body: { role: "owner" }, params: { id: target.id },
+      method: "PATCH",
+      cookie: admin.cookie,
+      body: { role: "owner" },
+      params: { id: target.id },
     });
     expect(badRole.status).toBe(422);
     expect(badRole.body.error.issues[0].path).toBe("role");
 
     const ok = await call(memberRoute.PATCH, `/api/admin/members/${target.id}`, {
-      method: "PATCH", cookie: admin.cookie, body: { role: "moderator" }, params: { id: target.id },
+      method: "PATCH",
+      cookie: admin.cookie,
+      body: { role: "moderator" },
+      params: { id: target.id },
     });
     expect(ok.status).toBe(200);
     expect(ok.body.member.role).toBe("moderator");
@@ -119,7 +142,10 @@ describe("role gating on admin routes", () => {
     expect(changes).toMatchObject([{ actorId: admin.id, fromRole: "member", toRole: "moderator" }]);
 
     const missing = await call(memberRoute.PATCH, "/api/admin/members/nobody", {
-      method: "PATCH", cookie: admin.cookie, body: { role: "member" }, params: { id: "nobody" },
+      method: "PATCH",
+      cookie: admin.cookie,
+      body: { role: "member" },
+      params: { id: "nobody" },
     });
     expect(missing.status).toBe(404);
   });
@@ -129,7 +155,10 @@ describe("role gating on admin routes", () => {
     await db.update(schema.users).set({ role: "member" }).where(eq(schema.users.role, "admin"));
     const admin = await signedInUser("admin");
     const r = await call(memberRoute.PATCH, `/api/admin/members/${admin.id}`, {
-      method: "PATCH", cookie: admin.cookie, body: { role: "member" }, params: { id: admin.id },
+      method: "PATCH",
+      cookie: admin.cookie,
+      body: { role: "member" },
+      params: { id: admin.id },
     });
     expect(r.status).toBe(409);
     const [u] = await db.select().from(schema.users).where(eq(schema.users.id, admin.id));
@@ -139,7 +168,10 @@ describe("role gating on admin routes", () => {
   it("refuses a cross-site request that would change data", async () => {
     const admin = await signedInUser("admin");
     const r = await call(memberRoute.PATCH, `/api/admin/members/${admin.id}`, {
-      method: "PATCH", cookie: admin.cookie, body: { role: "member" }, params: { id: admin.id },
+      method: "PATCH",
+      cookie: admin.cookie,
+      body: { role: "member" },
+      params: { id: admin.id },
       headers: { origin: "https://elsewhere.example.net" },
     });
     expect(r.status).toBe(403);

@@ -46,7 +46,8 @@ describe("backup and restore on a PostgreSQL server", () => {
     "select * from evidence_summaries order by group_slug, agent_slug, condition_slug",
     "select * from club_settings",
   ];
-  const rowsOf = async (db: { execute: (q: SQL) => Promise<unknown> }, q: string) => ((await db.execute(sql.raw(q))) as { rows: unknown[] }).rows;
+  const rowsOf = async (db: { execute: (q: SQL) => Promise<unknown> }, q: string) =>
+    ((await db.execute(sql.raw(q))) as { rows: unknown[] }).rows;
 
   it("dumps a consistent snapshot while reports are filed, and restores it into an empty database", async () => {
     const admin = await signIn("admin@example.org", "pg-backup-password");
@@ -55,9 +56,13 @@ describe("backup and restore on a PostgreSQL server", () => {
     const before = await Promise.all(tables.map((q) => rowsOf(db, q)));
 
     const writes = Array.from({ length: 6 }, (_, i) =>
-      new Promise((r) => setTimeout(r, i * 30)).then(() => call(reportsRoute.POST, "/api/reports", { body: reportBody({ submit: true }), cookie: member })),
+      new Promise((r) => setTimeout(r, i * 30)).then(() =>
+        call(reportsRoute.POST, "/api/reports", { body: reportBody({ submit: true }), cookie: member }),
+      ),
     );
-    const res = await backupRoute.GET(new Request(`${BASE}/api/admin/backup`, { headers: { cookie: admin } }), { params: Promise.resolve({}) });
+    const res = await backupRoute.GET(new Request(`${BASE}/api/admin/backup`, { headers: { cookie: admin } }), {
+      params: Promise.resolve({}),
+    });
     expect(res.status).toBe(200);
     const file = path.join(scratch, "pg.tar.gz");
     await pipeline(Readable.fromWeb(res.body as NodeReadableStream), fs.createWriteStream(file));
@@ -70,7 +75,11 @@ describe("backup and restore on a PostgreSQL server", () => {
     const restoredUrl = url.replace(/\/postgres$/, "/restored");
 
     const target = path.join(scratch, "data");
-    const result = await restoreBackup(file, { dataDir: target, databaseUrl: restoredUrl, authSecretEnv: process.env.BETTER_AUTH_SECRET });
+    const result = await restoreBackup(file, {
+      dataDir: target,
+      databaseUrl: restoredUrl,
+      authSecretEnv: process.env.BETTER_AUTH_SECRET,
+    });
     expect(result.manifest.database).toEqual({ kind: "postgres", file: "database/tanklore.pgdump" });
     expect(result.counts.reports).toBeGreaterThanOrEqual(before[0]!.length);
     expect(result.counts.reports).toBeLessThanOrEqual(before[0]!.length + 6);
@@ -84,7 +93,10 @@ describe("backup and restore on a PostgreSQL server", () => {
       for (const r of before[0] as { id: string }[]) expect(ids.has(r.id)).toBe(true);
       const live = new Map(((await rowsOf(db, tables[0]!)) as { id: string }[]).map((r) => [r.id, r]));
       for (const r of restoredReports) expect(r).toEqual(live.get(r.id));
-      const orphans = await rowsOf(restored, "select r.id from reports r where not exists (select 1 from report_events e where e.report_id = r.id)");
+      const orphans = await rowsOf(
+        restored,
+        "select r.id from reports r where not exists (select 1 from report_events e where e.report_id = r.id)",
+      );
       expect(orphans).toEqual([]);
       expect(await rowsOf(restored, tables[2]!)).toEqual(before[2]);
       expect(await rowsOf(restored, tables[3]!)).toEqual(before[3]);
@@ -93,6 +105,8 @@ describe("backup and restore on a PostgreSQL server", () => {
     }
 
     // The club's own database is not empty: a restore into it is refused.
-    await expect(restoreBackup(file, { dataDir: path.join(scratch, "other"), databaseUrl: url })).rejects.toThrow(/database at DATABASE_URL is not empty/);
+    await expect(restoreBackup(file, { dataDir: path.join(scratch, "other"), databaseUrl: url })).rejects.toThrow(
+      /database at DATABASE_URL is not empty/,
+    );
   }, 300_000);
 });

@@ -22,13 +22,21 @@ import { getDb, schema } from "@/db/client";
 import { seedDemo } from "@/db/seed";
 import { dataDir } from "@/features/shared/env";
 import { drainEvidenceOutbox } from "@/features/evidence/server";
-import { pruneBackups, restoreBackup, RestoreRefusedError, runNightlyBackupIfDue, type BackupManifest } from "@/features/exchange/server";
+import {
+  pruneBackups,
+  restoreBackup,
+  RestoreRefusedError,
+  runNightlyBackupIfDue,
+  type BackupManifest,
+} from "@/features/exchange/server";
 import { BASE, call } from "../support/http";
 import { reportBody, signIn } from "../support/factories";
 
 const exec = promisify(execFile);
 const PASSWORD = "backup-demo-pass";
-let admin = "", moderator = "", member = "";
+let admin = "",
+  moderator = "",
+  member = "";
 const scratch = fs.mkdtempSync(path.join(os.tmpdir(), "tanklore-backup-test-"));
 let photoId = "";
 
@@ -42,16 +50,29 @@ beforeAll(async () => {
   // A draft with a photo, and a freshly accepted report, on top of the demo club's summaries.
   const draft = await call(reportsRoute.POST, "/api/reports", { body: reportBody(), cookie: member });
   const form = new FormData();
-  const jpeg = await sharp({ create: { width: 400, height: 300, channels: 3, background: { r: 20, g: 90, b: 120 } } }).jpeg().toBuffer();
+  const jpeg = await sharp({ create: { width: 400, height: 300, channels: 3, background: { r: 20, g: 90, b: 120 } } })
+    .jpeg()
+    .toBuffer();
   form.set("file", new Blob([new Uint8Array(jpeg)], { type: "image/jpeg" }), "tank.jpg");
   form.set("stage", "before");
-  const up = await photosRoute.POST(new Request(`${BASE}/api/reports/${draft.body.id}/photos`, { method: "POST", body: form, headers: { cookie: member, origin: BASE } }), {
-    params: Promise.resolve({ id: draft.body.id }),
-  });
+  const up = await photosRoute.POST(
+    new Request(`${BASE}/api/reports/${draft.body.id}/photos`, {
+      method: "POST",
+      body: form,
+      headers: { cookie: member, origin: BASE },
+    }),
+    {
+      params: Promise.resolve({ id: draft.body.id }),
+    },
+  );
   expect(up.status).toBe(201);
   photoId = (await up.json()).id;
   const filed = await call(reportsRoute.POST, "/api/reports", { body: reportBody({ submit: true }), cookie: member });
-  const accepted = await call(decisionRoute.POST, `/api/reports/${filed.body.id}/decision`, { params: { id: filed.body.id }, cookie: moderator, body: { decision: "accept" } });
+  const accepted = await call(decisionRoute.POST, `/api/reports/${filed.body.id}/decision`, {
+    params: { id: filed.body.id },
+    cookie: moderator,
+    body: { decision: "accept" },
+  });
   expect(accepted.body.status).toBe("accepted");
   // The decision queued its recompute; no worker runs in tests, so drain it before the club is compared.
   await drainEvidenceOutbox();
@@ -59,7 +80,9 @@ beforeAll(async () => {
 
 /** Takes a backup through the route handler as `cookie` and saves it to a file. */
 async function downloadBackup(cookie: string, name: string): Promise<string> {
-  const res = await backupRoute.GET(new Request(`${BASE}/api/admin/backup`, { headers: { cookie } }), { params: Promise.resolve({}) });
+  const res = await backupRoute.GET(new Request(`${BASE}/api/admin/backup`, { headers: { cookie } }), {
+    params: Promise.resolve({}),
+  });
   expect(res.status).toBe(200);
   expect(res.headers.get("content-type")).toBe("application/gzip");
   expect(res.headers.get("content-disposition")).toMatch(/^attachment; filename="tanklore-backup-.+\.tar\.gz"$/);
@@ -103,7 +126,10 @@ async function liveRows(query: string): Promise<unknown[]> {
 }
 
 /** Opens a restored data directory through Drizzle, as the app would, so its rows read like the live ones. */
-async function withRestored<T>(dir: string, fn: (rows: (query: string) => Promise<unknown[]>) => Promise<T>): Promise<T> {
+async function withRestored<T>(
+  dir: string,
+  fn: (rows: (query: string) => Promise<unknown[]>) => Promise<T>,
+): Promise<T> {
   const client = await PGlite.create(path.join(dir, "pgdata"));
   const db = drizzle({ client, schema, casing: "snake_case" });
   try {
@@ -119,7 +145,11 @@ function listing(dir: string): string[] {
 
 describe("GET /api/admin/backup", () => {
   it("gives visitors 401 and members and moderators 403, with no archive and nothing left behind", async () => {
-    for (const [cookie, status] of [[undefined, 401], [member, 403], [moderator, 403]] as const) {
+    for (const [cookie, status] of [
+      [undefined, 401],
+      [member, 403],
+      [moderator, 403],
+    ] as const) {
       const r = await call(backupRoute.GET, "/api/admin/backup", { cookie });
       expect(r.status).toBe(status);
       expect(r.res.headers.get("content-type")).toMatch(/application\/json/);
@@ -133,7 +163,11 @@ describe("GET /api/admin/backup", () => {
     const entries = await entriesOf(file);
     expect(entries[0]!.name).toBe("manifest.json");
     const manifest = JSON.parse(entries[0]!.data.toString("utf8")) as BackupManifest;
-    const [reports, events, summaries, photos] = await Promise.all(["reports", "report_events", "evidence_summaries", "photos"].map(async (t) => (await liveRows(`select * from ${t}`)).length));
+    const [reports, events, summaries, photos] = await Promise.all(
+      ["reports", "report_events", "evidence_summaries", "photos"].map(
+        async (t) => (await liveRows(`select * from ${t}`)).length,
+      ),
+    );
     expect(manifest).toMatchObject({
       format: "tanklore-backup",
       formatVersion: 1,
@@ -169,7 +203,12 @@ describe("GET /api/admin/backup", () => {
     const before = (await liveRows("select id from reports")).length;
     // Writes start before the backup and go on while it is taken; none may fail or be half in the archive.
     const writes = Array.from({ length: 8 }, (_, i) =>
-      new Promise((r) => setTimeout(r, i * 40)).then(() => call(reportsRoute.POST, "/api/reports", { body: reportBody({ submit: true, fishCount: 3 + i }), cookie: member })),
+      new Promise((r) => setTimeout(r, i * 40)).then(() =>
+        call(reportsRoute.POST, "/api/reports", {
+          body: reportBody({ submit: true, fishCount: 3 + i }),
+          cookie: member,
+        }),
+      ),
     );
     const file = await downloadBackup(admin, "busy.tar.gz");
     const results = await Promise.all(writes);
@@ -177,10 +216,14 @@ describe("GET /api/admin/backup", () => {
     expect((await liveRows("select id from reports")).length).toBe(before + 8);
 
     const target = path.join(scratch, "restored-busy");
-    const cli = await exec(path.resolve("node_modules/.bin/tsx"), ["--conditions=react-server", "db/restore.ts", file], {
-      env: { ...process.env, DATA_DIR: target, DATABASE_URL: "" },
-      timeout: 180_000,
-    });
+    const cli = await exec(
+      path.resolve("node_modules/.bin/tsx"),
+      ["--conditions=react-server", "db/restore.ts", file],
+      {
+        env: { ...process.env, DATA_DIR: target, DATABASE_URL: "" },
+        timeout: 180_000,
+      },
+    );
     expect(cli.stdout).toMatch(/^Restored busy\.tar\.gz .*every checksum matched/);
     expect(cli.stdout).toMatch(/\d+ reports, \d+ report events, \d+ evidence summaries/);
 
@@ -188,10 +231,18 @@ describe("GET /api/admin/backup", () => {
     expect(manifest.counts.reports).toBeGreaterThanOrEqual(before);
     expect(manifest.counts.reports).toBeLessThanOrEqual(before + 8);
     await withRestored(target, async (read) => {
-      const rows = (await read("select r.id, r.status, (select count(*)::int from report_events e where e.report_id = r.id) as events from reports r order by r.id")) as { id: string }[];
+      const rows = (await read(
+        "select r.id, r.status, (select count(*)::int from report_events e where e.report_id = r.id) as events from reports r order by r.id",
+      )) as { id: string }[];
       expect(rows).toHaveLength(manifest.counts.reports);
       // Each report in the archive is whole: the rows of one change are all there or not at all.
-      const live = new Map((await liveRows("select r.id, r.status, (select count(*)::int from report_events e where e.report_id = r.id) as events from reports r")).map((r) => [(r as { id: string }).id, r]));
+      const live = new Map(
+        (
+          await liveRows(
+            "select r.id, r.status, (select count(*)::int from report_events e where e.report_id = r.id) as events from reports r",
+          )
+        ).map((r) => [(r as { id: string }).id, r]),
+      );
       for (const r of rows) expect(r).toEqual(live.get(r.id));
     });
   }, 300_000);
@@ -208,11 +259,17 @@ describe("npm run restore refuses what it must not do", () => {
     fs.mkdirSync(path.join(target, "uploads"), { recursive: true });
     fs.writeFileSync(path.join(target, "notes.txt"), "keep me");
     await expect(restoreBackup(file, { dataDir: target })).rejects.toThrow(RestoreRefusedError);
-    await expect(restoreBackup(file, { dataDir: target })).rejects.toThrow(/is not empty \(it holds notes\.txt, uploads\).*Nothing was restored/);
+    await expect(restoreBackup(file, { dataDir: target })).rejects.toThrow(
+      /is not empty \(it holds notes\.txt, uploads\).*Nothing was restored/,
+    );
     expect(listing(target)).toEqual(["notes.txt", "uploads"]);
     expect(fs.readFileSync(path.join(target, "notes.txt"), "utf8")).toBe("keep me");
 
-    const cli = await exec(path.resolve("node_modules/.bin/tsx"), ["--conditions=react-server", "db/restore.ts", file], { env: { ...process.env, DATA_DIR: target, DATABASE_URL: "" } }).catch((e) => e);
+    const cli = await exec(
+      path.resolve("node_modules/.bin/tsx"),
+      ["--conditions=react-server", "db/restore.ts", file],
+      { env: { ...process.env, DATA_DIR: target, DATABASE_URL: "" } },
+    ).catch((e) => e);
     expect(cli.code).toBe(1);
     expect(cli.stderr).toMatch(/is not empty/);
   }, 120_000);
@@ -226,24 +283,31 @@ describe("npm run restore refuses what it must not do", () => {
     const tampered = path.join(scratch, "tampered.tar.gz");
     await repack(entries, tampered);
     const target = path.join(scratch, "from-tampered");
-    await expect(restoreBackup(tampered, { dataDir: target })).rejects.toThrow(/does not match its checksum.*Nothing was restored/);
+    await expect(restoreBackup(tampered, { dataDir: target })).rejects.toThrow(
+      /does not match its checksum.*Nothing was restored/,
+    );
     expect(listing(target)).toEqual([]);
   }, 120_000);
 
   it("refuses a file that is not a backup, and an archive with an entry outside its layout", async () => {
     const junk = path.join(scratch, "junk.tar.gz");
     fs.writeFileSync(junk, "not an archive at all");
-    await expect(restoreBackup(junk, { dataDir: path.join(scratch, "from-junk") })).rejects.toThrow(/could not be read.*Nothing was restored/);
+    await expect(restoreBackup(junk, { dataDir: path.join(scratch, "from-junk") })).rejects.toThrow(
+      /could not be read.*Nothing was restored/,
+    );
     const entries = await entriesOf(file);
     const extra = path.join(scratch, "extra.tar.gz");
     await repack([...entries, { name: "../escape.txt", data: Buffer.from("x") }], extra);
-    await expect(restoreBackup(extra, { dataDir: path.join(scratch, "from-extra") })).rejects.toThrow(/unexpected entry/);
+    await expect(restoreBackup(extra, { dataDir: path.join(scratch, "from-extra") })).rejects.toThrow(
+      /unexpected entry/,
+    );
     expect(fs.existsSync(path.join(scratch, "escape.txt"))).toBe(false);
   }, 120_000);
 });
 
 describe("PATCH /api/admin/settings", () => {
-  const patch = (cookie: string | undefined, body: unknown) => call(settingsRoute.PATCH, "/api/admin/settings", { method: "PATCH", cookie, body });
+  const patch = (cookie: string | undefined, body: unknown) =>
+    call(settingsRoute.PATCH, "/api/admin/settings", { method: "PATCH", cookie, body });
   const current = async () => (await (await getDb()).select().from(schema.clubSettings))[0]!;
 
   it("lets only admins change settings (401, 403), before reading the body", async () => {
@@ -265,8 +329,12 @@ describe("PATCH /api/admin/settings", () => {
     const unknown = await patch(admin, { nightlyBakup: true });
     expect(unknown.status).toBe(422);
     expect(unknown.body.error.issues.map((i: { message: string }) => i.message).join(" ")).toMatch(/nightlyBakup/);
-    expect((await patch(admin, {})).body.error.issues).toEqual([{ path: "(body)", message: "Send at least one setting to change." }]);
-    expect((await patch(admin, { confidenceLevel: 97 })).body.error.issues[0]).toMatchObject({ path: "confidenceLevel" });
+    expect((await patch(admin, {})).body.error.issues).toEqual([
+      { path: "(body)", message: "Send at least one setting to change." },
+    ]);
+    expect((await patch(admin, { confidenceLevel: 97 })).body.error.issues[0]).toMatchObject({
+      path: "confidenceLevel",
+    });
     expect((await patch(admin, "{not json")).status).toBe(400);
     expect(await current()).toEqual(was);
   });
@@ -275,9 +343,26 @@ describe("PATCH /api/admin/settings", () => {
     const was = await current();
     const r = await patch(admin, { nightlyBackup: true });
     expect(r.status).toBe(200);
-    expect(r.body.settings).toMatchObject({ nightlyBackup: true, name: was.name, confidenceLevel: was.confidenceLevel, minReports: was.minReports });
-    const [change] = await (await getDb()).select().from(schema.catalogueChanges).where(eq(schema.catalogueChanges.entity, "club_settings")).orderBy(desc(schema.catalogueChanges.id)).limit(1);
-    expect(change).toMatchObject({ entityKey: "1", action: "update", before: expect.objectContaining({ nightlyBackup: false }), after: { nightlyBackup: true } });
+    expect(r.body.settings).toMatchObject({
+      nightlyBackup: true,
+      name: was.name,
+      confidenceLevel: was.confidenceLevel,
+      minReports: was.minReports,
+    });
+    const [change] = await (
+      await getDb()
+    )
+      .select()
+      .from(schema.catalogueChanges)
+      .where(eq(schema.catalogueChanges.entity, "club_settings"))
+      .orderBy(desc(schema.catalogueChanges.id))
+      .limit(1);
+    expect(change).toMatchObject({
+      entityKey: "1",
+      action: "update",
+      before: expect.objectContaining({ nightlyBackup: false }),
+      after: { nightlyBackup: true },
+    });
     const off = await patch(admin, { nightlyBackup: false });
     expect(off.body.settings.nightlyBackup).toBe(false);
   });
@@ -288,7 +373,10 @@ describe("nightly backup", () => {
     const db = await getDb();
     const dir = path.join(dataDir(), "backups");
     const night = new Date(2026, 11, 3, 3, 30);
-    await db.update(schema.clubSettings).set({ nightlyBackup: false, lastNightlyBackupAt: null }).where(eq(schema.clubSettings.id, 1));
+    await db
+      .update(schema.clubSettings)
+      .set({ nightlyBackup: false, lastNightlyBackupAt: null })
+      .where(eq(schema.clubSettings.id, 1));
     expect(await runNightlyBackupIfDue(night)).toBeNull();
 
     await db.update(schema.clubSettings).set({ nightlyBackup: true }).where(eq(schema.clubSettings.id, 1));
@@ -307,7 +395,10 @@ describe("nightly backup", () => {
     // The claim lives in the database: a later tick the same night (or a restarted process) does nothing.
     expect(await runNightlyBackupIfDue(new Date(2026, 11, 3, 4, 10))).toBeNull();
     expect(await runNightlyBackupIfDue(new Date(2026, 11, 4, 2, 59))).toBeNull();
-    const [row] = await db.select().from(schema.clubSettings).where(and(eq(schema.clubSettings.id, 1)));
+    const [row] = await db
+      .select()
+      .from(schema.clubSettings)
+      .where(and(eq(schema.clubSettings.id, 1)));
     expect(row!.lastNightlyBackupAt?.getTime()).toBe(night.getTime());
     await db.update(schema.clubSettings).set({ nightlyBackup: false }).where(eq(schema.clubSettings.id, 1));
   }, 240_000);

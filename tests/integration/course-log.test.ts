@@ -28,16 +28,37 @@ beforeAll(async () => {
 async function openCourse(): Promise<string> {
   const d = await call(draftsRoute.POST, "/api/reports/drafts", {
     cookie: owner.cookie,
-    body: { courseOpen: true, speciesId: "paracheirodon-innesi", fishCount: 6, water: { volume: 40, volumeUnit: "L" }, treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, stockBasis: "w/v", statedConcentration: 25, intervalHours: 48 } },
+    body: {
+      courseOpen: true,
+      speciesId: "paracheirodon-innesi",
+      fishCount: 6,
+      water: { volume: 40, volumeUnit: "L" },
+      treatment: {
+        agentSlug: "hydrogen-peroxide",
+        stockPercent: 3,
+        stockBasis: "w/v",
+        statedConcentration: 25,
+        intervalHours: 48,
+      },
+    },
   });
   expect(d.status).toBe(201);
   return d.body.id as string;
 }
 
 const logDose = (id: string, at: Date, amountMl: number, extra: Record<string, unknown> = {}) =>
-  call(entriesRoute.POST, `/api/reports/${id}/entries`, { params: { id }, cookie: owner.cookie, body: { kind: "dose", at: at.toISOString(), amountMl, ...extra } });
+  call(entriesRoute.POST, `/api/reports/${id}/entries`, {
+    params: { id },
+    cookie: owner.cookie,
+    body: { kind: "dose", at: at.toISOString(), amountMl, ...extra },
+  });
 const patch = (id: string, entryId: number | string, body: unknown, cookie: string | null = owner.cookie) =>
-  call(entryRoute.PATCH, `/api/reports/${id}/entries/${entryId}`, { method: "PATCH", params: { id, entryId: String(entryId) }, cookie: cookie ?? undefined, body });
+  call(entryRoute.PATCH, `/api/reports/${id}/entries/${entryId}`, {
+    method: "PATCH",
+    params: { id, entryId: String(entryId) },
+    cookie: cookie ?? undefined,
+    body,
+  });
 
 describe("the next dose of an open course", () => {
   it("gives the time, mL and mg/L of the next dose, checked against a hand computation", async () => {
@@ -70,7 +91,10 @@ describe("correcting and striking out course entries", () => {
     // 10,000 mL against a planned 33.33 mL: refused until confirmed.
     const typo = await logDose(id, t0, 10_000);
     expect(typo.status).toBe(422);
-    expect(typo.body.error.issues[0]).toMatchObject({ path: "amountMl", message: expect.stringMatching(/more than 3× the planned dose.*confirm: true/) });
+    expect(typo.body.error.issues[0]).toMatchObject({
+      path: "amountMl",
+      message: expect.stringMatching(/more than 3× the planned dose.*confirm: true/),
+    });
     const confirmed = await logDose(id, t0, 10_000, { confirm: true });
     expect(confirmed.status).toBe(201);
     const entryId = confirmed.body.id as number;
@@ -85,7 +109,10 @@ describe("correcting and striking out course entries", () => {
     const report = await call(reportRoute.GET, `/api/reports/${id}`, { params: { id }, cookie: owner.cookie });
     expect(report.body.treatment).toMatchObject({ doses: 1, amountMl: 33 });
     expect(report.body.concentration).toBeCloseTo((33 * 30) / 40, 9);
-    const history = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: owner.cookie });
+    const history = await call(historyRoute.GET, `/api/reports/${id}/history`, {
+      params: { id },
+      cookie: owner.cookie,
+    });
     const corrected = history.body.events.find((e: { action: string }) => e.action === "entry_corrected");
     expect(corrected.note).toMatch(/amount 10000 mL → 33 mL.*Typed an extra zero/);
   });
@@ -96,7 +123,10 @@ describe("correcting and striking out course entries", () => {
     const future = new Date(Date.now() + 5 * 24 * HOUR).toISOString();
     const refused = await patch(id, e.body.id, { at: future });
     expect(refused.status).toBe(422);
-    expect(refused.body.error.issues[0]).toMatchObject({ path: "at", message: expect.stringMatching(/future.*confirm: true/) });
+    expect(refused.body.error.issues[0]).toMatchObject({
+      path: "at",
+      message: expect.stringMatching(/future.*confirm: true/),
+    });
     const unchanged = await getCourse(actorOf(owner), id);
     expect(unchanged.entries[0]!.at).toBe(e.body.at);
     const ok = await patch(id, e.body.id, { at: future, confirm: true });
@@ -121,8 +151,13 @@ describe("correcting and striking out course entries", () => {
 
     const again = await patch(id, b.body.id, { amountMl: 31 });
     expect(again.status).toBe(409);
-    const history = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: owner.cookie });
-    expect(history.body.events.find((e: { action: string }) => e.action === "entry_struck").note).toMatch(/struck out the dose of 30 mL.*Logged twice/);
+    const history = await call(historyRoute.GET, `/api/reports/${id}/history`, {
+      params: { id },
+      cookie: owner.cookie,
+    });
+    expect(history.body.events.find((e: { action: string }) => e.action === "entry_struck").note).toMatch(
+      /struck out the dose of 30 mL.*Logged twice/,
+    );
   });
 
   it("refuses bad requests in the envelope and changes nothing", async () => {
@@ -133,7 +168,11 @@ describe("correcting and striking out course entries", () => {
     expect(both.status).toBe(422);
     expect(both.body.error.issues[0].path).toBe("struck");
     expect((await patch(id, e.body.id, { struck: false })).body.error.issues[0].path).toBe("struck");
-    const note = await call(entriesRoute.POST, `/api/reports/${id}/entries`, { params: { id }, cookie: owner.cookie, body: { kind: "observation", at: new Date().toISOString(), text: "Calm." } });
+    const note = await call(entriesRoute.POST, `/api/reports/${id}/entries`, {
+      params: { id },
+      cookie: owner.cookie,
+      body: { kind: "observation", at: new Date().toISOString(), text: "Calm." },
+    });
     expect((await patch(id, note.body.id, { text: "  " })).body.error.issues[0].path).toBe("text");
     expect((await patch(id, note.body.id, { amountMl: 3 })).body.error.issues[0].path).toBe("amountMl");
     expect((await patch(id, "not-a-number", { amountMl: 20 })).status).toBe(404);
@@ -160,14 +199,23 @@ describe("the course log's guard rails, shared with the planner", () => {
     const body = reportBody({
       speciesId,
       treatment: { statedConcentration: dose, doses: 1 },
-      outcome: { fishLost: adverse ? 2 : 0, lossCause: adverse ? "treatment" : null, distress: adverse ? "severe" : "mild", condition: "improved" },
+      outcome: {
+        fishLost: adverse ? 2 : 0,
+        lossCause: adverse ? "treatment" : null,
+        distress: adverse ? "severe" : "mild",
+        condition: "improved",
+      },
       submit: true,
     });
     delete body.treatment.amountMl;
     delete body.treatment.intervalHours;
     const r = await call(reportsRoute.POST, "/api/reports", { body, cookie: other.cookie });
     expect(r.status).toBe(201);
-    const d = await call(decisionRoute.POST, `/api/reports/${r.body.id}/decision`, { params: { id: r.body.id }, cookie: mod.cookie, body: { decision: "accept" } });
+    const d = await call(decisionRoute.POST, `/api/reports/${r.body.id}/decision`, {
+      params: { id: r.body.id },
+      cookie: mod.cookie,
+      body: { decision: "accept" },
+    });
     expect(d.body.status).toBe("accepted");
   }
 
@@ -183,7 +231,19 @@ describe("the course log's guard rails, shared with the planner", () => {
   async function corydorasCourse(): Promise<string> {
     const d = await call(draftsRoute.POST, "/api/reports/drafts", {
       cookie: owner.cookie,
-      body: { courseOpen: true, speciesId: "corydoras-paleatus", fishCount: 4, water: { volume: 40, volumeUnit: "L" }, treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, stockBasis: "w/v", statedConcentration: 10, intervalHours: 48 } },
+      body: {
+        courseOpen: true,
+        speciesId: "corydoras-paleatus",
+        fishCount: 4,
+        water: { volume: 40, volumeUnit: "L" },
+        treatment: {
+          agentSlug: "hydrogen-peroxide",
+          stockPercent: 3,
+          stockBasis: "w/v",
+          statedConcentration: 10,
+          intervalHours: 48,
+        },
+      },
     });
     expect(d.status).toBe(201);
     return d.body.id as string;
@@ -197,13 +257,21 @@ describe("the course log's guard rails, shared with the planner", () => {
     const refused = await logDose(id, at, 20);
     expect(refused.status).toBe(422);
     expect(codes(refused.body.error.issues)).toEqual(["at_or_above_lowest_adverse"]);
-    expect(refused.body.error.issues[0]).toMatchObject({ path: "amountMl", message: expect.stringMatching(/12 mg\/L.*confirm: true/) });
+    expect(refused.body.error.issues[0]).toMatchObject({
+      path: "amountMl",
+      message: expect.stringMatching(/12 mg\/L.*confirm: true/),
+    });
     expect((await getCourse(actorOf(owner), id)).entries).toHaveLength(0);
 
     const confirmed = await logDose(id, at, 20, { confirm: true });
     expect(confirmed.status).toBe(201);
-    const history = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: owner.cookie });
-    expect(history.body.events.find((e: { action: string }) => e.action === "dose_logged").note).toBe("20 mL; warnings acknowledged: at or above lowest adverse");
+    const history = await call(historyRoute.GET, `/api/reports/${id}/history`, {
+      params: { id },
+      cookie: owner.cookie,
+    });
+    expect(history.body.events.find((e: { action: string }) => e.action === "dose_logged").note).toBe(
+      "20 mL; warnings acknowledged: at or above lowest adverse",
+    );
 
     // The log shows the warning on the entry and on the next dose, which repeats it.
     const course = await getCourse(actorOf(owner), id, { loadEvidence: groupSummary });
@@ -235,7 +303,12 @@ describe("the course log's guard rails, shared with the planner", () => {
     expect((await getCourse(actorOf(owner), id)).entries[0]!.amountMl).toBe(8);
     const ok = await patch(id, e.body.id, { amountMl: 45, confirm: true, note: "Measured twice." });
     expect(ok.status).toBe(200);
-    const history = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: owner.cookie });
-    expect(history.body.events.find((ev: { action: string }) => ev.action === "entry_corrected").note).toMatch(/amount 8 mL → 45 mL; warnings acknowledged: at or above lowest adverse, above highest tolerated — Measured twice\./);
+    const history = await call(historyRoute.GET, `/api/reports/${id}/history`, {
+      params: { id },
+      cookie: owner.cookie,
+    });
+    expect(history.body.events.find((ev: { action: string }) => ev.action === "entry_corrected").note).toMatch(
+      /amount 8 mL → 45 mL; warnings acknowledged: at or above lowest adverse, above highest tolerated — Measured twice\./,
+    );
   });
 });

@@ -2,11 +2,31 @@ import { settleBackgroundMail } from "@/features/members/server";
 import { beforeAll, describe, expect, it } from "vitest";
 import * as authRoute from "@/app/api/auth/[...all]/route";
 import { getDb } from "@/db/client";
-import { createCatalogueEntry, getCatalogueChanges, getClubSettingsForEdit, seedCatalogue, updateClubSettings, getClubSettings } from "@/features/catalogue/server";
+import {
+  createCatalogueEntry,
+  getCatalogueChanges,
+  getClubSettingsForEdit,
+  seedCatalogue,
+  updateClubSettings,
+  getClubSettings,
+} from "@/features/catalogue/server";
 import { getExchangeOverview } from "@/features/exchange/server";
 import { listCaughtMail, maskLinks, readCaughtMail } from "@/features/mail/server";
-import { changeMemberRole, getActor, getMemberById, getMembers, getRoleChangesByUserId } from "@/features/members/server";
-import { createDraft, createReport, getReportById, getReportFormCatalogue, getReportHistory, getReportsByAuthorId } from "@/features/reports/server";
+import {
+  changeMemberRole,
+  getActor,
+  getMemberById,
+  getMembers,
+  getRoleChangesByUserId,
+} from "@/features/members/server";
+import {
+  createDraft,
+  createReport,
+  getReportById,
+  getReportFormCatalogue,
+  getReportHistory,
+  getReportsByAuthorId,
+} from "@/features/reports/server";
 import { countAwaitingReview, getGroupContext, getReviewPage, getReviewQueue } from "@/features/review/server";
 import { listMembersQuerySchema } from "@/features/members";
 import { listMineQuerySchema } from "@/features/reports";
@@ -48,27 +68,48 @@ async function outcomes(run: (actor: Actor | null) => Promise<unknown>): Promise
   return out;
 }
 
-const adminOnly = { visitor: "unauthenticated", memberA: "forbidden", memberB: "forbidden", moderator: "forbidden", admin: "ok" };
-const reviewersOnly = { visitor: "unauthenticated", memberA: "forbidden", memberB: "forbidden", moderator: "ok", admin: "ok" };
+const adminOnly = {
+  visitor: "unauthenticated",
+  memberA: "forbidden",
+  memberB: "forbidden",
+  moderator: "forbidden",
+  admin: "ok",
+};
+const reviewersOnly = {
+  visitor: "unauthenticated",
+  memberA: "forbidden",
+  memberB: "forbidden",
+  moderator: "ok",
+  admin: "ok",
+};
 
 beforeAll(async () => {
   await seedCatalogue(await getDb());
-  const [a, b, m, ad] = await Promise.all([signedInUser("member", "Ada Testmember"), signedInUser("member", "Bram Testmember"), signedInUser("moderator"), signedInUser("admin")]);
+  const [a, b, m, ad] = await Promise.all([
+    signedInUser("member", "Ada Testmember"),
+    signedInUser("member", "Bram Testmember"),
+    signedInUser("moderator"),
+    signedInUser("admin"),
+  ]);
   actors.visitor = null;
   actors.memberA = await actorFor(a.cookie);
   actors.memberB = await actorFor(b.cookie);
   actors.moderator = await actorFor(m.cookie);
   actors.admin = await actorFor(ad.cookie);
 
-  submittedId = (await createReport(actors.memberA, reportBody({ submit: true, outcome: { notes: NOTES_A } }) as never)).id;
-  draftId = (await createDraft(actors.memberA, { fishCount: 3, outcome: { notes: "A private draft note." } } as never)).id;
+  submittedId = (await createReport(actors.memberA, reportBody({ submit: true, outcome: { notes: NOTES_A } }) as never))
+    .id;
+  draftId = (await createDraft(actors.memberA, { fishCount: 3, outcome: { notes: "A private draft note." } } as never))
+    .id;
   // Two role changes for the log, and one catalogue change.
   await changeMemberRole(actors.admin, actors.memberB!.id, "moderator");
   await changeMemberRole(actors.admin, actors.memberB!.id, "member");
   await createCatalogueEntry(actors.admin, "conditions", { slug: "test-condition", name: "Test condition" } as never);
 
   // The takeover path's first step: anyone may ask a reset for the admin's address.
-  const ask = await call(authRoute.POST, "/api/auth/request-password-reset", { body: { email: ad.email, redirectTo: "/reset-password" } });
+  const ask = await call(authRoute.POST, "/api/auth/request-password-reset", {
+    body: { email: ad.email, redirectTo: "/reset-password" },
+  });
   expect(ask.status).toBe(200);
   await settleBackgroundMail();
   const mail = mailTo(ad.email).find((x) => /Subject: Choose a new Tanklore password/.test(x))!;
@@ -96,15 +137,19 @@ describe("the mail outbox", () => {
   });
 
   it("masks query values, fragments and long path segments but keeps report ids readable", () => {
-    expect(maskLinks("Open https://club.example.org/api/auth/verify-email?token=eyJhbGciOi.x.y&callbackURL=%2F now")).toBe(
-      "Open https://club.example.org/api/auth/verify-email?token=•••&callbackURL=••• now",
-    );
-    expect(maskLinks("https://club.example.org/api/auth/reset-password/Q2x1YlRva2VuMTIzNDU2Nzg5?callbackURL=%2Freset-password")).toBe(
-      "https://club.example.org/api/auth/reset-password/•••?callbackURL=•••",
-    );
+    expect(
+      maskLinks("Open https://club.example.org/api/auth/verify-email?token=eyJhbGciOi.x.y&callbackURL=%2F now"),
+    ).toBe("Open https://club.example.org/api/auth/verify-email?token=•••&callbackURL=••• now");
+    expect(
+      maskLinks(
+        "https://club.example.org/api/auth/reset-password/Q2x1YlRva2VuMTIzNDU2Nzg5?callbackURL=%2Freset-password",
+      ),
+    ).toBe("https://club.example.org/api/auth/reset-password/•••?callbackURL=•••");
     const report = "https://club.example.org/reports/0f8fad5b-d9cb-469f-a165-70867728950e";
     expect(maskLinks(`See ${report}`)).toBe(`See ${report}`);
-    expect(maskLinks('<a href="https://club.example.org/x#secret-part">x</a>')).toBe('<a href="https://club.example.org/x#•••">x</a>');
+    expect(maskLinks('<a href="https://club.example.org/x#secret-part">x</a>')).toBe(
+      '<a href="https://club.example.org/x#•••">x</a>',
+    );
   });
 });
 
@@ -121,7 +166,11 @@ describe("members and the role-change log", () => {
 
   it("shows a member their own account and no one else's", async () => {
     expect(await outcomes((actor) => getMemberById({ actor }, actors.memberA!.id))).toEqual({
-      visitor: "unauthenticated", memberA: "ok", memberB: "forbidden", moderator: "forbidden", admin: "ok",
+      visitor: "unauthenticated",
+      memberA: "ok",
+      memberB: "forbidden",
+      moderator: "forbidden",
+      admin: "ok",
     });
   });
 });
@@ -137,7 +186,13 @@ describe("catalogue, settings and exchange pages", () => {
 
   it("lets only admins change the settings, whoever calls the function", async () => {
     const current = await getClubSettings();
-    const input = { name: current.name, confidenceLevel: current.confidenceLevel, minReports: current.minReports, defaultVolumeUnit: current.defaultVolumeUnit, defaultTemperatureUnit: current.defaultTemperatureUnit };
+    const input = {
+      name: current.name,
+      confidenceLevel: current.confidenceLevel,
+      minReports: current.minReports,
+      defaultVolumeUnit: current.defaultVolumeUnit,
+      defaultTemperatureUnit: current.defaultTemperatureUnit,
+    };
     expect(await outcomes((actor) => updateClubSettings(actor, input as never))).toEqual(adminOnly);
   });
 });
@@ -146,7 +201,9 @@ describe("review", () => {
   it("gives the queue, its count, the dose context and the review page to moderators and admins only", async () => {
     expect(await outcomes((actor) => countAwaitingReview({ actor }))).toEqual(reviewersOnly);
     expect(await outcomes((actor) => getReviewQueue(actor))).toEqual(reviewersOnly);
-    expect(await outcomes((actor) => getGroupContext({ actor }, "tetras", "hydrogen-peroxide", 10))).toEqual(reviewersOnly);
+    expect(await outcomes((actor) => getGroupContext({ actor }, "tetras", "hydrogen-peroxide", 10))).toEqual(
+      reviewersOnly,
+    );
     expect(await outcomes((actor) => getReviewPage({ actor }, submittedId))).toEqual(reviewersOnly);
     const page = await getReviewPage({ actor: actors.moderator }, submittedId);
     expect(page.report.outcome.notes).toBe(NOTES_A);
@@ -161,16 +218,28 @@ describe("review", () => {
 describe("reports", () => {
   it("show a submitted report to its author and the reviewers; to anyone else it does not exist", async () => {
     expect(await outcomes((actor) => getReportById(actor, submittedId))).toEqual({
-      visitor: "not_found", memberA: "ok", memberB: "not_found", moderator: "ok", admin: "ok",
+      visitor: "not_found",
+      memberA: "ok",
+      memberB: "not_found",
+      moderator: "ok",
+      admin: "ok",
     });
     expect(await outcomes((actor) => getReportHistory(actor, submittedId))).toEqual({
-      visitor: "not_found", memberA: "ok", memberB: "not_found", moderator: "ok", admin: "ok",
+      visitor: "not_found",
+      memberA: "ok",
+      memberB: "not_found",
+      moderator: "ok",
+      admin: "ok",
     });
   });
 
   it("keep a draft to its author", async () => {
     expect(await outcomes((actor) => getReportById(actor, draftId))).toEqual({
-      visitor: "not_found", memberA: "ok", memberB: "not_found", moderator: "not_found", admin: "not_found",
+      visitor: "not_found",
+      memberA: "ok",
+      memberB: "not_found",
+      moderator: "not_found",
+      admin: "not_found",
     });
   });
 

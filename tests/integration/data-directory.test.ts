@@ -69,16 +69,37 @@ describe("the embedded database's data directory", () => {
 
   it("applies every migration to a fresh directory", async () => {
     const dir = fs.mkdtempSync(path.join(os.tmpdir(), "tanklore-fresh-"));
-    const r = spawnSync(node, [...tsxArgs, "db/migrate.ts"], { env: { ...process.env, DATA_DIR: dir }, encoding: "utf8", timeout: 90_000 });
+    const r = spawnSync(node, [...tsxArgs, "db/migrate.ts"], {
+      env: { ...process.env, DATA_DIR: dir },
+      encoding: "utf8",
+      timeout: 90_000,
+    });
     expect(r.stderr).toBe("");
     expect(r.stdout).toContain("Migrations applied (pglite)");
     const previous = process.env.DATA_DIR;
     process.env.DATA_DIR = dir;
     try {
       const db = await getDb();
-      const tables = await db.execute(sql`select table_name from information_schema.tables where table_schema = 'public' order by 1`);
+      const tables = await db.execute(
+        sql`select table_name from information_schema.tables where table_schema = 'public' order by 1`,
+      );
       const names = rowsOf(tables).map((t) => t.table_name);
-      for (const t of ["users", "sessions", "accounts", "verifications", "club_settings", "species_groups", "species", "agents", "stock_forms", "conditions", "reports", "report_events", "photos", "role_changes"]) {
+      for (const t of [
+        "users",
+        "sessions",
+        "accounts",
+        "verifications",
+        "club_settings",
+        "species_groups",
+        "species",
+        "agents",
+        "stock_forms",
+        "conditions",
+        "reports",
+        "report_events",
+        "photos",
+        "role_changes",
+      ]) {
         expect(names).toContain(t);
       }
       const applied = await db.execute(sql`select count(*)::int as n from drizzle.__drizzle_migrations`);

@@ -19,11 +19,22 @@ describe("the demo club", () => {
     expect(users.length).toBe(12);
     expect(users.every((u) => u.email.endsWith("@example.org") && u.isDemo && u.emailVerified)).toBe(true);
 
-    const byStatus = await db.select({ status: schema.reports.status, n: count() }).from(schema.reports).groupBy(schema.reports.status);
+    const byStatus = await db
+      .select({ status: schema.reports.status, n: count() })
+      .from(schema.reports)
+      .groupBy(schema.reports.status);
     expect(Object.fromEntries(byStatus.map((r) => [r.status, r.n]))).toEqual({
-      accepted: 110, awaiting_review: 14, draft: 10, declined: 6, returned: 5, retracted: 5,
+      accepted: 110,
+      awaiting_review: 14,
+      draft: 10,
+      declined: 6,
+      returned: 5,
+      retracted: 5,
     });
-    const notDemo = await db.select({ n: count() }).from(schema.reports).where(sql`${schema.reports.source} <> 'demo' or ${schema.reports.notes} not like 'Demo report%'`);
+    const notDemo = await db
+      .select({ n: count() })
+      .from(schema.reports)
+      .where(sql`${schema.reports.source} <> 'demo' or ${schema.reports.notes} not like 'Demo report%'`);
     expect(notDemo[0]?.n).toBe(0);
 
     // Every report has a trail that ends in its status.
@@ -65,7 +76,11 @@ describe("the demo club", () => {
     const r = await call(openapiRoute.GET, "/api/openapi.json");
     expect(r.body.openapi).toBe("3.1.0");
     const patch = r.body.paths["/api/admin/members/{id}"].patch;
-    expect(patch.requestBody.content["application/json"].schema.properties.role.enum).toEqual(["member", "moderator", "admin"]);
+    expect(patch.requestBody.content["application/json"].schema.properties.role.enum).toEqual([
+      "member",
+      "moderator",
+      "admin",
+    ]);
     const list = r.body.paths["/api/admin/members"].get;
     expect(list.parameters.find((p: { name: string }) => p.name === "pageSize").schema.maximum).toBe(100);
   });

@@ -18,18 +18,37 @@ describe("GET /api/dose", () => {
     expect(r.status).toBe(200);
     // 50 mg/L × 3.785411784 L / 30 mg/mL (NIST SP 811 gallon; % w/v definition) = 6.309 mL.
     expect(r.body.doseMl).toBeCloseTo(6.309, 3);
-    expect(r.body).toMatchObject({ agent: "hydrogen-peroxide", unit: "mg/L", stockMgPerMl: 30, target: 50, concentration: 50 });
+    expect(r.body).toMatchObject({
+      agent: "hydrogen-peroxide",
+      unit: "mg/L",
+      stockMgPerMl: 30,
+      target: 50,
+      concentration: 50,
+    });
     expect(r.body.volumeL).toBeCloseTo(3.785411784, 9);
     expect(r.body.firstDose).toBeUndefined();
 
-    const made = await get({ agent: "hydrogen-peroxide", stockPercent: 3, volume: 1, volumeUnit: "gal_us", addedMl: 6.5 });
+    const made = await get({
+      agent: "hydrogen-peroxide",
+      stockPercent: 3,
+      volume: 1,
+      volumeUnit: "gal_us",
+      addedMl: 6.5,
+    });
     expect(made.status).toBe(200);
     expect(Math.abs(made.body.concentration - 50) / 50).toBeLessThan(0.05);
     expect(made.body.target).toBeNull();
   });
 
   it("offers a first dose as a fraction and the label strength's range", async () => {
-    const r = await get({ agent: "hydrogen-peroxide", stockPercent: 3, volume: 80, volumeUnit: "L", target: 30, fraction: 0.5 });
+    const r = await get({
+      agent: "hydrogen-peroxide",
+      stockPercent: 3,
+      volume: 80,
+      volumeUnit: "L",
+      target: 30,
+      fraction: 0.5,
+    });
     expect(r.body.firstDose).toMatchObject({ fraction: 0.5, concentration: 15 });
     expect(r.body.firstDose.doseMl).toBeCloseTo(40, 9);
     expect(r.body.strengthRange).toMatchObject({ concentrationLow: 25, concentrationHigh: 35 });
@@ -50,10 +69,29 @@ describe("GET /api/dose", () => {
   it("takes density and active fraction from a named preset, and never guesses one from a bare percentage", async () => {
     // Before: 35 % w/w without a stockFormId was matched to the h2o2-35 preset by its number. A percentage alone no
     // longer picks a preset (two bottles of the same percentage can hold different things), so w/w needs a density.
-    const w = await get({ agent: "hydrogen-peroxide", stockFormId: "h2o2-35", volume: 100, volumeUnit: "L", target: 30 });
-    expect(w.body.stock).toMatchObject({ percent: 35, basis: "w/w", densityGPerMl: 1.13, of: "agent", presetId: "h2o2-35" });
+    const w = await get({
+      agent: "hydrogen-peroxide",
+      stockFormId: "h2o2-35",
+      volume: 100,
+      volumeUnit: "L",
+      target: 30,
+    });
+    expect(w.body.stock).toMatchObject({
+      percent: 35,
+      basis: "w/w",
+      densityGPerMl: 1.13,
+      of: "agent",
+      presetId: "h2o2-35",
+    });
     expect(w.body.stockMgPerMl).toBeCloseTo(395.5, 9);
-    const bare = await get({ agent: "hydrogen-peroxide", stockPercent: 35, basis: "w/w", volume: 100, volumeUnit: "L", target: 30 });
+    const bare = await get({
+      agent: "hydrogen-peroxide",
+      stockPercent: 35,
+      basis: "w/w",
+      volume: 100,
+      volumeUnit: "L",
+      target: 30,
+    });
     expect(bare.status).toBe(422);
     expect(bare.body.error.issues.map((i: { path: string }) => i.path)).toContain("densityGPerMl");
     const cu = await get({ agent: "copper", stockFormId: "cu-sulfate-1", volume: 100, volumeUnit: "L", target: 0.2 });
@@ -82,8 +120,30 @@ describe("GET /api/dose", () => {
   });
 
   it("never answers 500, whatever the query", async () => {
-    const keys = ["agent", "stockPercent", "basis", "densityGPerMl", "volume", "volumeUnit", "length", "width", "depth", "lengthUnit", "displacementPercent", "target", "addedMl", "fraction", "stockFormId", "speciesId", "group"];
-    const value = fc.oneof(fc.string({ maxLength: 8 }), fc.double().map(String), fc.constantFrom("hydrogen-peroxide", "L", "in", "w/w", "1e308", "-0", "NaN", "Infinity"));
+    const keys = [
+      "agent",
+      "stockPercent",
+      "basis",
+      "densityGPerMl",
+      "volume",
+      "volumeUnit",
+      "length",
+      "width",
+      "depth",
+      "lengthUnit",
+      "displacementPercent",
+      "target",
+      "addedMl",
+      "fraction",
+      "stockFormId",
+      "speciesId",
+      "group",
+    ];
+    const value = fc.oneof(
+      fc.string({ maxLength: 8 }),
+      fc.double().map(String),
+      fc.constantFrom("hydrogen-peroxide", "L", "in", "w/w", "1e308", "-0", "NaN", "Infinity"),
+    );
     await fc.assert(
       fc.asyncProperty(fc.dictionary(fc.constantFrom(...keys), value, { maxKeys: 8 }), async (q) => {
         const r = await get(q);

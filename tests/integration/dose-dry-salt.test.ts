@@ -6,7 +6,8 @@ import { getDb } from "@/db/client";
 import { seedCatalogue } from "@/features/catalogue/server";
 import { call } from "../support/http";
 
-const qs = (q: Record<string, string | number>) => new URLSearchParams(Object.entries(q).map(([k, v]) => [k, String(v)]));
+const qs = (q: Record<string, string | number>) =>
+  new URLSearchParams(Object.entries(q).map(([k, v]) => [k, String(v)]));
 const get = (q: Record<string, string | number>) => call(doseRoute.GET, `/api/dose?${qs(q)}`);
 
 beforeAll(async () => {
@@ -20,7 +21,16 @@ describe("GET /api/dose with form=dry: salt in grams", () => {
     // 3 g/L × 40 L = 120 g (mass concentration = mass ÷ volume, SI Brochure 9th ed.).
     const r = await get({ ...dry, target: 3, fraction: 0.5 });
     expect(r.status).toBe(200);
-    expect(r.body).toMatchObject({ agent: "salt", unit: "g/L", form: "dry", concentration: 3, doseMl: null, stock: null, measured: null, warnings: [] });
+    expect(r.body).toMatchObject({
+      agent: "salt",
+      unit: "g/L",
+      form: "dry",
+      concentration: 3,
+      doseMl: null,
+      stock: null,
+      measured: null,
+      warnings: [],
+    });
     expect(r.body.doseGrams).toBeCloseTo(120, 9);
     expect(r.body.weighed).toMatchObject({ grams: 120, step: 1 });
     expect(r.body.firstDose.doseGrams).toBeCloseTo(60, 9);
@@ -54,7 +64,10 @@ describe("GET /api/dose with form=dry: salt in grams", () => {
   });
 
   it("writes grams into the calendar file's dose events", async () => {
-    const r = await call(icsRoute.GET, `/api/dose/plan.ics?${qs({ ...dry, target: 3, fraction: 0.5, start: "2026-12-02T18:00:00Z", doses: 1 })}`);
+    const r = await call(
+      icsRoute.GET,
+      `/api/dose/plan.ics?${qs({ ...dry, target: 3, fraction: 0.5, start: "2026-12-02T18:00:00Z", doses: 1 })}`,
+    );
     expect(r.status).toBe(200);
     const text = typeof r.body === "string" ? r.body : await r.res.text();
     const events = new ICAL.Component(ICAL.parse(text)).getAllSubcomponents("vevent").map((v) => new ICAL.Event(v));

@@ -14,7 +14,8 @@ import { reportBody, signedInUser } from "../support/factories";
 
 type U = Awaited<ReturnType<typeof signedInUser>>;
 let member: U, mod: U;
-const qs = (q: Record<string, string | number>) => new URLSearchParams(Object.entries(q).map(([k, v]) => [k, String(v)]));
+const qs = (q: Record<string, string | number>) =>
+  new URLSearchParams(Object.entries(q).map(([k, v]) => [k, String(v)]));
 const get = (q: Record<string, string | number>) => call(doseRoute.GET, `/api/dose?${qs(q)}`);
 const ics = (q: Record<string, string | number>) => call(icsRoute.GET, `/api/dose/plan.ics?${qs(q)}`);
 
@@ -23,14 +24,23 @@ async function accepted(speciesId: string, dose: number, adverse = false) {
   const body = reportBody({
     speciesId,
     treatment: { statedConcentration: dose, doses: 1 },
-    outcome: { fishLost: adverse ? 2 : 0, lossCause: adverse ? "treatment" : null, distress: adverse ? "severe" : "mild", condition: "improved" },
+    outcome: {
+      fishLost: adverse ? 2 : 0,
+      lossCause: adverse ? "treatment" : null,
+      distress: adverse ? "severe" : "mild",
+      condition: "improved",
+    },
     submit: true,
   });
   delete body.treatment.amountMl;
   delete body.treatment.intervalHours;
   const r = await call(reportsRoute.POST, "/api/reports", { body, cookie: member.cookie });
   expect(r.status).toBe(201);
-  const d = await call(decisionRoute.POST, `/api/reports/${r.body.id}/decision`, { params: { id: r.body.id }, cookie: mod.cookie, body: { decision: "accept" } });
+  const d = await call(decisionRoute.POST, `/api/reports/${r.body.id}/decision`, {
+    params: { id: r.body.id },
+    cookie: mod.cookie,
+    body: { decision: "accept" },
+  });
   expect(d.body.status).toBe("accepted");
 }
 
@@ -51,7 +61,13 @@ describe("GET /api/dose with a species or group", () => {
   it("answers the group's evidence, a first dose below the lowest adverse dose, and warns at the median", async () => {
     const r = await get({ ...base, speciesId: "corydoras-sterbai", target: 20 });
     expect(r.status).toBe(200);
-    expect(r.body.evidence).toMatchObject({ group: { slug: "corydoras" }, reports: 6, tolerated: 5, lowestAdverseDose: 12, sparse: false });
+    expect(r.body.evidence).toMatchObject({
+      group: { slug: "corydoras" },
+      reports: 6,
+      tolerated: 5,
+      lowestAdverseDose: 12,
+      sparse: false,
+    });
     expect(r.body.evidence.toleratedDose).toMatchObject({ median: 20, max: 30 });
     // ½ × 20 = 10 mg/L, below 12; 10 mg/L × 40 L / 30 mg/mL (3 % w/v) = 13.33 mL.
     expect(r.body.suggestedFirstDose).toMatchObject({ fraction: 0.5, concentration: 10, limitedBy: "median" });
@@ -62,7 +78,14 @@ describe("GET /api/dose with a species or group", () => {
     expect(codes).toContain("lowest_adverse_at_or_below_median");
     expect(r.body.warnings.every((w: { message: string }) => w.message.length > 20)).toBe(true);
     // The existing fields are unchanged.
-    expect(r.body).toMatchObject({ agent: "hydrogen-peroxide", unit: "mg/L", volumeL: 40, stockMgPerMl: 30, target: 20, concentration: 20 });
+    expect(r.body).toMatchObject({
+      agent: "hydrogen-peroxide",
+      unit: "mg/L",
+      volumeL: 40,
+      stockMgPerMl: 30,
+      target: 20,
+      concentration: 20,
+    });
   });
 
   it("answers the same by group slug, and warns above the highest tolerated dose", async () => {
@@ -114,7 +137,15 @@ describe("how /api/dose reads a stock strength", () => {
     expect(r.status).toBe(200);
     expect(r.body.stockMgPerMl).toBe(10);
     expect(r.body.doseMl).toBeCloseTo(2, 12);
-    expect(r.body.stock).toEqual({ percent: 1, basis: "w/v", densityGPerMl: null, of: "agent", compound: null, activeFraction: 1, presetId: null });
+    expect(r.body.stock).toEqual({
+      percent: 1,
+      basis: "w/v",
+      densityGPerMl: null,
+      of: "agent",
+      compound: null,
+      activeFraction: 1,
+      presetId: null,
+    });
   });
 
   it("applies the copper sulfate preset's fraction only when it is named", async () => {
@@ -130,7 +161,15 @@ describe("how /api/dose reads a stock strength", () => {
 describe("GET /api/dose/plan.ics", () => {
   it("holds 3 dose events 48 h apart from start, plus the checks, and parses as iCalendar", async () => {
     const start = "2026-12-02T18:00:00.000Z";
-    const r = await ics({ ...base, target: 20, fraction: 0.5, speciesId: "corydoras-sterbai", start, doses: 3, intervalHours: 48 });
+    const r = await ics({
+      ...base,
+      target: 20,
+      fraction: 0.5,
+      speciesId: "corydoras-sterbai",
+      start,
+      doses: 3,
+      intervalHours: 48,
+    });
     expect(r.status).toBe(200);
     expect(r.res.headers.get("content-type")).toMatch(/^text\/calendar/);
     const text = typeof r.body === "string" ? r.body : await r.res.text();
@@ -156,9 +195,20 @@ describe("GET /api/dose/plan.ics", () => {
   it("uses the agent's redosing interval when none is given, and asks for one where the agent has none", async () => {
     const r = await ics({ ...base, target: 20, start: "2026-12-02T18:00:00Z", doses: 2 });
     const text = typeof r.body === "string" ? r.body : await r.res.text();
-    const events = new ICAL.Component(ICAL.parse(text)).getAllSubcomponents("vevent").map((v) => new ICAL.Event(v)).filter((e) => /Dose/.test(e.summary));
+    const events = new ICAL.Component(ICAL.parse(text))
+      .getAllSubcomponents("vevent")
+      .map((v) => new ICAL.Event(v))
+      .filter((e) => /Dose/.test(e.summary));
     expect(events[1]!.startDate.toJSDate().getTime() - events[0]!.startDate.toJSDate().getTime()).toBe(48 * 3600_000);
-    const salt = await ics({ agent: "salt", stockFormId: "brine-10", volume: 40, volumeUnit: "L", target: 3, start: "2026-12-02T18:00:00Z", doses: 3 });
+    const salt = await ics({
+      agent: "salt",
+      stockFormId: "brine-10",
+      volume: 40,
+      volumeUnit: "L",
+      target: 3,
+      start: "2026-12-02T18:00:00Z",
+      doses: 3,
+    });
     expect(salt.status).toBe(422);
     expect(salt.body.error.issues.map((i: { path: string }) => i.path)).toContain("intervalHours");
     const bad = await ics({ ...base, target: 20, start: "tomorrow", doses: 3 });
@@ -172,23 +222,40 @@ describe("the OpenAPI document", () => {
     const r = await call(openapiRoute.GET, "/api/openapi.json");
     const dose = r.body.paths["/api/dose"].get;
     const props = dose.responses["200"].content["application/json"].schema.properties;
-    expect(props.warnings.items.properties.code.enum).toEqual(expect.arrayContaining(["above_ceiling", "at_or_above_lowest_adverse", "above_highest_tolerated", "sparse_evidence", "no_evidence"]));
+    expect(props.warnings.items.properties.code.enum).toEqual(
+      expect.arrayContaining([
+        "above_ceiling",
+        "at_or_above_lowest_adverse",
+        "above_highest_tolerated",
+        "sparse_evidence",
+        "no_evidence",
+      ]),
+    );
     expect(props.evidence.properties.lowestAdverseDose).toBeDefined();
-    expect(Object.keys(props.suggestedFirstDose.anyOf?.[0]?.properties ?? props.suggestedFirstDose.properties)).toEqual(expect.arrayContaining(["fraction", "concentration", "doseMl"]));
+    expect(Object.keys(props.suggestedFirstDose.anyOf?.[0]?.properties ?? props.suggestedFirstDose.properties)).toEqual(
+      expect.arrayContaining(["fraction", "concentration", "doseMl"]),
+    );
     // stock is null for salt weighed dry (form=dry), so the document gives it as anyOf [object, null].
     expect((props.stock.anyOf?.[0] ?? props.stock).properties.of.enum).toEqual(["compound", "agent"]);
     expect(props.form.enum).toEqual(["stock", "dry"]);
     expect(props.doseGrams).toBeDefined();
-    expect(dose.parameters.map((p: { name: string }) => p.name)).toEqual(expect.arrayContaining(["speciesId", "group", "form", "addedGrams"]));
+    expect(dose.parameters.map((p: { name: string }) => p.name)).toEqual(
+      expect.arrayContaining(["speciesId", "group", "form", "addedGrams"]),
+    );
     const ics = r.body.paths["/api/dose/plan.ics"].get;
     expect(Object.keys(ics.responses["200"].content)).toEqual(["text/calendar"]);
-    expect(ics.parameters.map((p: { name: string }) => p.name)).toEqual(expect.arrayContaining(["start", "doses", "intervalHours"]));
+    expect(ics.parameters.map((p: { name: string }) => p.name)).toEqual(
+      expect.arrayContaining(["start", "doses", "intervalHours"]),
+    );
   });
 });
 
 describe("how a report's concentration reads its stock strength", () => {
   const copper = (treatment: Record<string, unknown>) =>
-    reportBody({ water: { volume: 100, volumeUnit: "L" }, treatment: { agentSlug: "copper", stockPercent: 1, stockBasis: "w/v", amountMl: 2, doses: 1, ...treatment } });
+    reportBody({
+      water: { volume: 100, volumeUnit: "L" },
+      treatment: { agentSlug: "copper", stockPercent: 1, stockBasis: "w/v", amountMl: 2, doses: 1, ...treatment },
+    });
 
   it("reads a bare 1 % w/v copper as Cu²⁺, like /api/dose: 2 mL in 100 L makes 0.2 mg/L", async () => {
     const body = copper({});
@@ -219,7 +286,10 @@ describe("how a report's concentration reads its stock strength", () => {
 describe("the club's first-dose share", () => {
   it("offers ⅓ of the usual dose once the club chooses it, and never more than the keeper's own fraction", async () => {
     const db = await getDb();
-    await db.update(schema.clubSettings).set({ firstDoseFraction: 1 / 3 }).where(eq(schema.clubSettings.id, 1));
+    await db
+      .update(schema.clubSettings)
+      .set({ firstDoseFraction: 1 / 3 })
+      .where(eq(schema.clubSettings.id, 1));
     try {
       const third = await get({ ...base, group: "corydoras", target: 10 });
       // ⅓ × 20 (the corydoras median) = 6.67 mg/L, below the lowest adverse 12.

@@ -27,7 +27,9 @@ beforeAll(async () => {
 /** Files and accepts one report dosed by stated concentration, so its dose is exactly `dose`. */
 async function accepted(author: U, speciesId: string, dose: number, adverse: boolean, condition: string) {
   const body = reportBody({
-    speciesId, fishCount: 5, conditionSlug: condition,
+    speciesId,
+    fishCount: 5,
+    conditionSlug: condition,
     treatment: { statedConcentration: dose, doses: 1 },
     // Adverse as statistics.md defines it: here, severe distress.
     outcome: { fishLost: 0, lossCause: null, distress: adverse ? "severe" : "mild", condition: "improved" },
@@ -37,12 +39,20 @@ async function accepted(author: U, speciesId: string, dose: number, adverse: boo
   delete body.treatment.intervalHours;
   const r = await call(reportsRoute.POST, "/api/reports", { body, cookie: author.cookie });
   expect(r.status).toBe(201);
-  const d = await call(decisionRoute.POST, `/api/reports/${r.body.id}/decision`, { params: { id: r.body.id }, cookie: mod.cookie, body: { decision: "accept" } });
+  const d = await call(decisionRoute.POST, `/api/reports/${r.body.id}/decision`, {
+    params: { id: r.body.id },
+    cookie: mod.cookie,
+    body: { decision: "accept" },
+  });
   expect(d.body.status).toBe("accepted");
 }
 
-const detail = async (group: string, q = "") => (await drainEvidenceOutbox(), await call(summaryRoute.GET, `/api/summaries/${group}?agent=hydrogen-peroxide${q}`, { params: { groupSlug: group } })).body;
-const trialsOf = (rs: { dose: number; adverse: boolean }[]): Trial[] => rs.map((r) => ({ dose: r.dose, n: 1, adverse: r.adverse ? 1 : 0 }));
+const detail = async (group: string, q = "") =>
+  (await drainEvidenceOutbox(),
+  await call(summaryRoute.GET, `/api/summaries/${group}?agent=hydrogen-peroxide${q}`, { params: { groupSlug: group } }))
+    .body;
+const trialsOf = (rs: { dose: number; adverse: boolean }[]): Trial[] =>
+  rs.map((r) => ({ dose: r.dose, n: 1, adverse: r.adverse ? 1 : 0 }));
 
 describe("the dose–response fit through the API", () => {
   // The same generated reports as the reference test's independent fit (known logistic curve, seeded).
@@ -50,7 +60,8 @@ describe("the dose–response fit through the API", () => {
   const condition = (i: number) => (i % 2 === 0 ? "white-spot" : "gill-flukes");
 
   it("answers for accepted corydoras reports the fit the pure code makes of them", { timeout: 300_000 }, async () => {
-    for (const [i, r] of reports.entries()) await accepted(members[i % 3]!, "corydoras-paleatus", r.dose, r.adverse, condition(i));
+    for (const [i, r] of reports.entries())
+      await accepted(members[i % 3]!, "corydoras-paleatus", r.dose, r.adverse, condition(i));
     const s = await detail("corydoras");
     expect(s.reports).toBe(48);
     const expected = fitDoseResponse(trialsOf(reports), 95);
@@ -63,7 +74,9 @@ describe("the dose–response fit through the API", () => {
     }
     // Per condition too, from the same one aggregate.
     const ws = await detail("corydoras", "&condition=white-spot");
-    expect(ws.doseResponse).toEqual(fitDoseResponse(trialsOf(reports.filter((_, i) => condition(i) === "white-spot")), 95));
+    expect(ws.doseResponse).toEqual(
+      fitDoseResponse(trialsOf(reports.filter((_, i) => condition(i) === "white-spot")), 95),
+    );
 
     const list = await call(summariesRoute.GET, "/api/summaries?agent=hydrogen-peroxide");
     const cory = list.body.groups.find((g: { group: { slug: string } }) => g.group.slug === "corydoras");
@@ -87,7 +100,11 @@ describe("the dose–response fit through the API", () => {
     await accepted(members[2]!, "paracheirodon-innesi", 40, true, "white-spot");
     const s = await detail("tetras");
     expect(s.reports).toBe(3);
-    expect(s.doseResponse).toEqual({ model: "logit-log10", fit: null, reason: expect.stringMatching(/Only 3 reports.*at least 10/) });
+    expect(s.doseResponse).toEqual({
+      model: "logit-log10",
+      fit: null,
+      reason: expect.stringMatching(/Only 3 reports.*at least 10/),
+    });
   });
 
   it("answers no curve from separated data", async () => {
@@ -95,7 +112,11 @@ describe("the dose–response fit through the API", () => {
     for (let i = 0; i < 12; i++) await accepted(members[i % 3]!, "betta-splendens", 5 * (i + 1), i >= 6, "white-spot");
     const s = await detail("anabantoids");
     expect(s.reports).toBe(12);
-    expect(s.doseResponse).toEqual({ model: "logit-log10", fit: null, reason: expect.stringMatching(/split cleanly by dose/) });
+    expect(s.doseResponse).toEqual({
+      model: "logit-log10",
+      fit: null,
+      reason: expect.stringMatching(/split cleanly by dose/),
+    });
     expect(s.doseResponse.curve).toBeUndefined();
   });
 
@@ -104,21 +125,40 @@ describe("the dose–response fit through the API", () => {
     const schema = r.body.paths["/api/summaries/{groupSlug}"].get.responses["200"].content["application/json"].schema;
     const shapes = schema.properties.doseResponse.anyOf;
     expect(shapes).toHaveLength(2);
-    expect(Object.keys(shapes[0].properties)).toEqual(["model", "a", "b", "seA", "seB", "covAB", "bmr", "bmd", "bmdl", "bmdu", "deviance", "df", "curve"]);
+    expect(Object.keys(shapes[0].properties)).toEqual([
+      "model",
+      "a",
+      "b",
+      "seA",
+      "seB",
+      "covAB",
+      "bmr",
+      "bmd",
+      "bmdl",
+      "bmdu",
+      "deviance",
+      "df",
+      "curve",
+    ]);
     expect(shapes[1].properties.fit).toEqual({ type: "null" });
     expect(schema.required).toContain("doseResponse");
   });
 
   it("recomputes summaries stored by an older method when asked at start", async () => {
     const db = await getDb();
-    const where = and(eq(schema.evidenceSummaries.groupSlug, "corydoras"), eq(schema.evidenceSummaries.conditionSlug, ""));
+    const where = and(
+      eq(schema.evidenceSummaries.groupSlug, "corydoras"),
+      eq(schema.evidenceSummaries.conditionSlug, ""),
+    );
     const [before] = await db.select().from(schema.evidenceSummaries).where(where);
     const { doseResponse: _dr, ...old } = before!.summary as Record<string, unknown>;
     await db.update(schema.evidenceSummaries).set({ methodVersion: "2026.12-1", summary: old }).where(where);
     expect(await recomputeStale(db)).toBeGreaterThan(0);
     const [after] = await db.select().from(schema.evidenceSummaries).where(where);
     expect(after!.methodVersion).toBe(METHOD_VERSION);
-    expect((after!.summary as { doseResponse: unknown }).doseResponse).toEqual((before!.summary as { doseResponse: unknown }).doseResponse);
+    expect((after!.summary as { doseResponse: unknown }).doseResponse).toEqual(
+      (before!.summary as { doseResponse: unknown }).doseResponse,
+    );
     expect(await recomputeStale(db)).toBe(0);
   });
 });

@@ -6,7 +6,8 @@ import { seedCatalogue } from "@/features/catalogue/server";
 import { recomputeGroupAgent } from "@/features/evidence/server";
 import { call } from "../support/http";
 
-const qs = (q: Record<string, string | number>) => new URLSearchParams(Object.entries(q).map(([k, v]) => [k, String(v)]));
+const qs = (q: Record<string, string | number>) =>
+  new URLSearchParams(Object.entries(q).map(([k, v]) => [k, String(v)]));
 const get = (q: Record<string, string | number>) => call(doseRoute.GET, `/api/dose?${qs(q)}`);
 const base = { agent: "hydrogen-peroxide", stockPercent: 3, volume: 40, volumeUnit: "L" };
 
@@ -30,7 +31,13 @@ async function insertRising(group: string) {
 beforeAll(async () => {
   const db = await getDb();
   await seedCatalogue(db);
-  await db.insert(schema.users).values({ id: "risk-author", name: "Risk Author", email: "risk-author@example.org", emailVerified: true, role: "member" });
+  await db.insert(schema.users).values({
+    id: "risk-author",
+    name: "Risk Author",
+    email: "risk-author@example.org",
+    emailVerified: true,
+    role: "member",
+  });
   await insertRising("tetras");
   // Loaches: three reports, too few for a curve.
   await db.execute(sql`

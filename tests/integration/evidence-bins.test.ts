@@ -6,7 +6,8 @@ import { seedCatalogue } from "@/features/catalogue/server";
 import { recomputeGroupAgent } from "@/features/evidence/server";
 import { call } from "../support/http";
 
-const detail = async (group: string) => call(summaryRoute.GET, `/api/summaries/${group}?agent=hydrogen-peroxide`, { params: { groupSlug: group } });
+const detail = async (group: string) =>
+  call(summaryRoute.GET, `/api/summaries/${group}?agent=hydrogen-peroxide`, { params: { groupSlug: group } });
 
 /**
  * `n` accepted peroxide reports in `group`, written straight into the table (the route would take minutes at this
@@ -25,7 +26,8 @@ async function insertAccepted(group: string, n: number) {
 
 /** The expected counts, worked out from the same rule as the insert. */
 function expected(n: number) {
-  let tolerated = 0, cleared = 0;
+  let tolerated = 0,
+    cleared = 0;
   for (let i = 1; i <= n; i++) {
     if (i % 7 !== 0) tolerated++;
     if (i % 3 === 0) cleared++;
@@ -38,7 +40,13 @@ type Bin = { from: number; to: number; reports: number; tolerated: number; clear
 beforeAll(async () => {
   const db = await getDb();
   await seedCatalogue(db);
-  await db.insert(schema.users).values({ id: "bins-author", name: "Bin Author", email: "bins-author@example.org", emailVerified: true, role: "member" });
+  await db.insert(schema.users).values({
+    id: "bins-author",
+    name: "Bin Author",
+    email: "bins-author@example.org",
+    emailVerified: true,
+    role: "member",
+  });
   await insertAccepted("tetras", 301);
   await insertAccepted("loaches", 300);
 }, 120_000);

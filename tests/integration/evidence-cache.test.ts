@@ -7,7 +7,12 @@ import * as summariesRoute from "@/app/api/summaries/route";
 import * as catalogueKeyRoute from "@/app/api/admin/catalogue/[kind]/[key]/route";
 import { closeDb, getDb } from "@/db/client";
 import { seedCatalogue } from "@/features/catalogue/server";
-import { drainEvidenceOutbox, evidenceCacheVersion, recomputeGroupAgent, replacePairFigures } from "@/features/evidence/server";
+import {
+  drainEvidenceOutbox,
+  evidenceCacheVersion,
+  recomputeGroupAgent,
+  replacePairFigures,
+} from "@/features/evidence/server";
 import { resetAuthForTests } from "@/features/members/server/auth";
 import { call } from "../support/http";
 import { reportBody, signedInUser } from "../support/factories";
@@ -20,12 +25,20 @@ import { hasPostgresServer, startPostgres } from "../support/pg-server";
 type U = Awaited<ReturnType<typeof signedInUser>>;
 
 async function acceptOne(member: U, moderator: U, dose: number): Promise<void> {
-  const body = reportBody({ speciesId: "corydoras-paleatus", treatment: { statedConcentration: dose, doses: 1 }, submit: true });
+  const body = reportBody({
+    speciesId: "corydoras-paleatus",
+    treatment: { statedConcentration: dose, doses: 1 },
+    submit: true,
+  });
   delete body.treatment.amountMl;
   delete body.treatment.intervalHours;
   const r = await call(reportsRoute.POST, "/api/reports", { body, cookie: member.cookie });
   expect(r.status).toBe(201);
-  const d = await call(decisionRoute.POST, `/api/reports/${r.body.id}/decision`, { params: { id: r.body.id }, cookie: moderator.cookie, body: { decision: "accept", note: "" } });
+  const d = await call(decisionRoute.POST, `/api/reports/${r.body.id}/decision`, {
+    params: { id: r.body.id },
+    cookie: moderator.cookie,
+    body: { decision: "accept", note: "" },
+  });
   expect(d.body.status).toBe("accepted");
 }
 
@@ -38,7 +51,11 @@ describe("the evidence cache version (PGlite, one process)", () => {
   let member: U, moderator: U, admin: U;
   beforeAll(async () => {
     await seedCatalogue(await getDb());
-    [member, moderator, admin] = [await signedInUser("member"), await signedInUser("moderator"), await signedInUser("admin")];
+    [member, moderator, admin] = [
+      await signedInUser("member"),
+      await signedInUser("moderator"),
+      await signedInUser("admin"),
+    ];
   });
 
   it("stays put while nothing changes, so the cache is used at all", async () => {
@@ -62,7 +79,11 @@ describe("the evidence cache version (PGlite, one process)", () => {
 
   it("changes when an admin renames a group, even one without reports", async () => {
     const v0 = await evidenceCacheVersion();
-    const r = await call(catalogueKeyRoute.PATCH, "/api/admin/catalogue/groups/plecos", { params: { kind: "groups", key: "plecos" }, cookie: admin.cookie, body: { name: "Suckermouth catfish" } });
+    const r = await call(catalogueKeyRoute.PATCH, "/api/admin/catalogue/groups/plecos", {
+      params: { kind: "groups", key: "plecos" },
+      cookie: admin.cookie,
+      body: { name: "Suckermouth catfish" },
+    });
     expect(r.status).toBe(200);
     expect(await evidenceCacheVersion()).not.toBe(v0);
   });
@@ -106,11 +127,20 @@ describe("the evidence cache version across two processes on one PostgreSQL serv
 
   it("process B's version changes within a second of a recompute committed by process A, by NOTIFY alone", async () => {
     const root = process.cwd();
-    child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", path.join(root, "tests/support/evidence-cache-child.ts")], {
-      cwd: root,
-      env: { ...process.env, DATABASE_URL: url, BETTER_AUTH_SECRET: "evidence-cache-test-secret-0123456789", BETTER_AUTH_URL: "http://localhost:3000" },
-      stdio: ["ignore", "pipe", "pipe"],
-    });
+    child = spawn(
+      process.execPath,
+      ["--conditions=react-server", "--import", "tsx", path.join(root, "tests/support/evidence-cache-child.ts")],
+      {
+        cwd: root,
+        env: {
+          ...process.env,
+          DATABASE_URL: url,
+          BETTER_AUTH_SECRET: "evidence-cache-test-secret-0123456789",
+          BETTER_AUTH_URL: "http://localhost:3000",
+        },
+        stdio: ["ignore", "pipe", "pipe"],
+      },
+    );
     child.stdout!.on("data", (d) => (out += d));
     child.stderr!.on("data", (d) => (out += d));
     await waitFor(/listening\nversion (\S+)\n/, 0, 60_000);

@@ -9,22 +9,36 @@ import { call } from "../support/http";
 // The test's own code path: raw rows from the database, statistics written here independently.
 const Z95 = 1.959963984540054; // NIST/SEMATECH e-Handbook 1.3.6.7.1: z(0.975) = 1.95996
 const wilson = (k: number, n: number) => {
-  const p = k / n, z2 = Z95 * Z95;
+  const p = k / n,
+    z2 = Z95 * Z95;
   const c = (p + z2 / (2 * n)) / (1 + z2 / n);
   const h = (Z95 / (1 + z2 / n)) * Math.sqrt((p * (1 - p)) / n + z2 / (4 * n * n));
   return [c - h, c + h];
 };
 const q7 = (s: number[], p: number) => {
-  const j = Math.floor((s.length - 1) * p), g = (s.length - 1) * p - j;
+  const j = Math.floor((s.length - 1) * p),
+    g = (s.length - 1) * p - j;
   return j + 1 < s.length ? s[j]! + g * (s[j + 1]! - s[j]!) : s[j]!;
 };
 const binomCdf = (n: number, k: number) => {
-  let c = 1n, sum = 0n;
-  for (let i = 0; i <= k; i++) { sum += c; c = (c * BigInt(n - i)) / BigInt(i + 1); }
+  let c = 1n,
+    sum = 0n;
+  for (let i = 0; i <= k; i++) {
+    sum += c;
+    c = (c * BigInt(n - i)) / BigInt(i + 1);
+  }
   return Number((sum * 10n ** 18n) / 2n ** BigInt(n)) / 1e18;
 };
 
-interface Raw { group_slug: string; author_id: string; fish_count: number; concentration: number; fish_lost: number; loss_cause: string | null; distress: string }
+interface Raw {
+  group_slug: string;
+  author_id: string;
+  fish_count: number;
+  concentration: number;
+  fish_lost: number;
+  loss_cause: string | null;
+  distress: string;
+}
 
 beforeAll(async () => {
   await seedDemo(await getDb(), { password: "demo-password-evidence" });
@@ -33,7 +47,9 @@ beforeAll(async () => {
 describe("the demo club's summaries", () => {
   it("equal figures computed independently from the accepted reports", async () => {
     const db = await getDb();
-    const raw = (await db.execute(sql`select group_slug, author_id, fish_count, concentration, fish_lost, loss_cause, distress from reports where status = 'accepted' and agent_slug = 'hydrogen-peroxide'`)) as unknown as { rows: Raw[] };
+    const raw = (await db.execute(
+      sql`select group_slug, author_id, fish_count, concentration, fish_lost, loss_cause, distress from reports where status = 'accepted' and agent_slug = 'hydrogen-peroxide'`,
+    )) as unknown as { rows: Raw[] };
     const byGroup = new Map<string, Raw[]>();
     for (const r of raw.rows) byGroup.set(r.group_slug, [...(byGroup.get(r.group_slug) ?? []), r]);
     expect(byGroup.size).toBeGreaterThanOrEqual(8);
@@ -44,7 +60,10 @@ describe("the demo club's summaries", () => {
       const rows = byGroup.get(g.group.slug) ?? [];
       expect(g.reports, g.group.slug).toBe(rows.length);
       if (!rows.length) continue;
-      const tol = rows.filter((r) => !(r.fish_lost > 0 && ["treatment", "unknown"].includes(r.loss_cause ?? "unknown")) && r.distress !== "severe");
+      const tol = rows.filter(
+        (r) =>
+          !(r.fish_lost > 0 && ["treatment", "unknown"].includes(r.loss_cause ?? "unknown")) && r.distress !== "severe",
+      );
       const adverse = rows.filter((r) => !tol.includes(r));
       expect(g.members).toBe(new Set(rows.map((r) => r.author_id)).size);
       expect(g.fish).toBe(rows.reduce((s, r) => s + r.fish_count, 0));
@@ -74,7 +93,9 @@ describe("the demo club's summaries", () => {
   });
 
   it("gives each group's chart one point per accepted report", async () => {
-    const r = await call(summaryRoute.GET, "/api/summaries/livebearers?agent=hydrogen-peroxide", { params: { groupSlug: "livebearers" } });
+    const r = await call(summaryRoute.GET, "/api/summaries/livebearers?agent=hydrogen-peroxide", {
+      params: { groupSlug: "livebearers" },
+    });
     expect(r.body.points.length).toBe(r.body.reports);
     expect(r.body.bands.reduce((s: number, b: { reports: number }) => s + b.reports, 0)).toBe(r.body.reports);
   });

@@ -16,28 +16,52 @@ let a: U, b: U, c: U, mod: U;
 
 beforeAll(async () => {
   await seedCatalogue(await getDb());
-  [a, b, c, mod] = [await signedInUser("member"), await signedInUser("member"), await signedInUser("member"), await signedInUser("moderator")];
+  [a, b, c, mod] = [
+    await signedInUser("member"),
+    await signedInUser("member"),
+    await signedInUser("member"),
+    await signedInUser("moderator"),
+  ];
 });
 
 /** A corydoras report dosed by stated concentration (no amount), so its dose is exactly `dose`. */
-async function accepted(author: U, dose: number, opts: { lost?: number; severe?: boolean; cleared?: boolean; condition?: string } = {}) {
+async function accepted(
+  author: U,
+  dose: number,
+  opts: { lost?: number; severe?: boolean; cleared?: boolean; condition?: string } = {},
+) {
   const body = reportBody({
-    speciesId: "corydoras-paleatus", fishCount: 4, conditionSlug: opts.condition ?? "white-spot",
+    speciesId: "corydoras-paleatus",
+    fishCount: 4,
+    conditionSlug: opts.condition ?? "white-spot",
     treatment: { statedConcentration: dose, doses: 1 },
-    outcome: { fishLost: opts.lost ?? 0, lossCause: opts.lost ? "treatment" : null, distress: opts.severe ? "severe" : "mild", condition: opts.cleared ? "cleared" : "improved" },
+    outcome: {
+      fishLost: opts.lost ?? 0,
+      lossCause: opts.lost ? "treatment" : null,
+      distress: opts.severe ? "severe" : "mild",
+      condition: opts.cleared ? "cleared" : "improved",
+    },
     submit: true,
   });
   delete body.treatment.amountMl;
   delete body.treatment.intervalHours;
   const r = await call(reportsRoute.POST, "/api/reports", { body, cookie: author.cookie });
   expect(r.status).toBe(201);
-  const d = await call(decisionRoute.POST, `/api/reports/${r.body.id}/decision`, { params: { id: r.body.id }, cookie: mod.cookie, body: { decision: "accept" } });
+  const d = await call(decisionRoute.POST, `/api/reports/${r.body.id}/decision`, {
+    params: { id: r.body.id },
+    cookie: mod.cookie,
+    body: { decision: "accept" },
+  });
   expect(d.body).toEqual({ id: r.body.id, status: "accepted" });
   return r.body.id as string;
 }
 
 // Decisions queue their recompute; the evidence worker is not running in tests, so drain before reading.
-const detail = async (q = "") => (await drainEvidenceOutbox(), await call(summaryRoute.GET, `/api/summaries/corydoras?agent=hydrogen-peroxide${q}`, { params: { groupSlug: "corydoras" } })).body;
+const detail = async (q = "") =>
+  (await drainEvidenceOutbox(),
+  await call(summaryRoute.GET, `/api/summaries/corydoras?agent=hydrogen-peroxide${q}`, {
+    params: { groupSlug: "corydoras" },
+  })).body;
 
 describe("a fixture club worked out by hand", () => {
   let retractable = "";
@@ -55,13 +79,29 @@ describe("a fixture club worked out by hand", () => {
     const s = await detail();
     expect(s.anecdotal).toBe(true);
     expect(s.notice).toMatch(/Anecdotal/);
-    expect(s).toMatchObject({ reports: 8, members: 3, fish: 32, tolerated: 6, lowestAdverseDose: 28, sparse: false, confidenceLevel: 95 });
+    expect(s).toMatchObject({
+      reports: 8,
+      members: 3,
+      fish: 32,
+      tolerated: 6,
+      lowestAdverseDose: 28,
+      sparse: false,
+      confidenceLevel: 95,
+    });
     // Wilson 95 %, 6 of 8: z = 1.959964; centre (0.75 + z²/16)/(1 + z²/8) = 0.66890, half-width 0.25962 → [0.40928, 0.92852].
     expect(s.toleratedShare.value).toBe(0.75);
     expect(s.toleratedShare.low).toBeCloseTo(0.409275, 5);
     expect(s.toleratedShare.high).toBeCloseTo(0.928521, 5);
     // Type 7 over 10, 15, 20, 25, 30, 35 (h = 5p): p10 → 12.5; p25 → 16.25; median → 22.5; p75 → 28.75; p90 → 32.5.
-    expect(s.toleratedDose).toMatchObject({ min: 10, p10: 12.5, p25: 16.25, median: 22.5, p75: 28.75, p90: 32.5, max: 35 });
+    expect(s.toleratedDose).toMatchObject({
+      min: 10,
+      p10: 12.5,
+      p25: 16.25,
+      median: 22.5,
+      p75: 28.75,
+      p90: 32.5,
+      max: 35,
+    });
     // n = 6: r = 1 since P(B ≤ 0) = 1/64 ≤ 0.025 < P(B ≤ 1) = 7/64 → (x₍₁₎, x₍₆₎) = (10, 35), coverage 1 − 2/64.
     expect(s.toleratedDose.medianInterval).toEqual({ low: 10, high: 35, coverage: 0.96875 });
     // Bands [from, to): [10,20) 10,15 → 2 of 2 tolerated, 0 cleared; [20,30) 20,25,28 → 2 of 3 tolerated, 3 cleared;
@@ -78,7 +118,9 @@ describe("a fixture club worked out by hand", () => {
     expect(s.points).toHaveLength(8);
     expect(s.points[0]).toEqual({ dose: 10, tolerated: true, cleared: false });
     expect(JSON.stringify(s.points)).not.toMatch(/author|member|email/);
-    expect(s.species).toEqual([{ id: "corydoras-paleatus", commonName: "Peppered corydoras", scientificName: "Corydoras paleatus", reports: 8 }]);
+    expect(s.species).toEqual([
+      { id: "corydoras-paleatus", commonName: "Peppered corydoras", scientificName: "Corydoras paleatus", reports: 8 },
+    ]);
 
     // Filtered by condition: the two gill-fluke reports only.
     const gf = await detail("&condition=gill-flukes");
@@ -87,7 +129,11 @@ describe("a fixture club worked out by hand", () => {
   });
 
   it("answers medianInterval null with five tolerated doses once one is retracted, and recomputes", async () => {
-    const r = await call(decisionRoute.POST, `/api/reports/${retractable}/decision`, { params: { id: retractable }, cookie: mod.cookie, body: { decision: "retract", note: "Entered twice." } });
+    const r = await call(decisionRoute.POST, `/api/reports/${retractable}/decision`, {
+      params: { id: retractable },
+      cookie: mod.cookie,
+      body: { decision: "retract", note: "Entered twice." },
+    });
     expect(r.body.status).toBe("retracted");
     const s = await detail();
     expect(s.tolerated).toBe(5);
@@ -123,9 +169,15 @@ describe("a fixture club worked out by hand", () => {
 
   it("reads stored summaries: no recompute on a read", async () => {
     const db = await getDb();
-    const [row] = await db.select().from(schema.evidenceSummaries).where(and(eq(schema.evidenceSummaries.groupSlug, "corydoras"), eq(schema.evidenceSummaries.conditionSlug, "")));
+    const [row] = await db
+      .select()
+      .from(schema.evidenceSummaries)
+      .where(and(eq(schema.evidenceSummaries.groupSlug, "corydoras"), eq(schema.evidenceSummaries.conditionSlug, "")));
     await detail();
-    const [again] = await db.select().from(schema.evidenceSummaries).where(and(eq(schema.evidenceSummaries.groupSlug, "corydoras"), eq(schema.evidenceSummaries.conditionSlug, "")));
+    const [again] = await db
+      .select()
+      .from(schema.evidenceSummaries)
+      .where(and(eq(schema.evidenceSummaries.groupSlug, "corydoras"), eq(schema.evidenceSummaries.conditionSlug, "")));
     expect(again!.computedAt.getTime()).toBe(row!.computedAt.getTime());
   });
 });

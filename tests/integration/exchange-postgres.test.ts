@@ -34,7 +34,13 @@ describe("exchange and Idempotency-Key on a PostgreSQL server", () => {
   it("creates one report for the same key sent eight times at once", async () => {
     const member = await signedInUser("member");
     const answers = await Promise.all(
-      Array.from({ length: 8 }, () => call(reportsRoute.POST, "/api/reports", { cookie: member.cookie, body: reportBody({ submit: true }), headers: { "idempotency-key": "pg-parallel" } })),
+      Array.from({ length: 8 }, () =>
+        call(reportsRoute.POST, "/api/reports", {
+          cookie: member.cookie,
+          body: reportBody({ submit: true }),
+          headers: { "idempotency-key": "pg-parallel" },
+        }),
+      ),
     );
     expect(answers.map((a) => a.status)).toEqual(Array(8).fill(201));
     expect(new Set(answers.map((a) => a.body.id)).size).toBe(1);
@@ -46,13 +52,33 @@ describe("exchange and Idempotency-Key on a PostgreSQL server", () => {
   it("skips every row of its own export, also when the same file is imported twice at once", async () => {
     const csv = (await call(exportRoute.GET, "/api/export/reports.csv", { cookie: admin })).body as string;
     const rows = Papa.parse(csv, { header: true, comments: "#", skipEmptyLines: true }).data.length;
-    const again = await call(importRoute.POST, "/api/import/reports", { cookie: admin, body: csv, headers: { "content-type": "text/csv" } });
+    const again = await call(importRoute.POST, "/api/import/reports", {
+      cookie: admin,
+      body: csv,
+      headers: { "content-type": "text/csv" },
+    });
     expect(again.body).toMatchObject({ imported: 0, skipped: rows, rejected: [] });
 
     // A new file without ids, sent twice in parallel: the rows go in once.
-    const header = "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after";
-    const file = [header, ...Array.from({ length: 40 }, (_, n) => `accepted,member-pg${n},poecilia-reticulata,${3 + n},adult,white-spot,2016-03-0${1 + (n % 9)},60,L,25,C,bare,hydrogen-peroxide,3,40,1,0,,mild,cleared,7`)].join("\n");
-    const both = await Promise.all([0, 1].map(() => call(importRoute.POST, "/api/import/reports", { cookie: admin, body: file, headers: { "content-type": "text/csv" } })));
+    const header =
+      "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after";
+    const file = [
+      header,
+      ...Array.from(
+        { length: 40 },
+        (_, n) =>
+          `accepted,member-pg${n},poecilia-reticulata,${3 + n},adult,white-spot,2016-03-0${1 + (n % 9)},60,L,25,C,bare,hydrogen-peroxide,3,40,1,0,,mild,cleared,7`,
+      ),
+    ].join("\n");
+    const both = await Promise.all(
+      [0, 1].map(() =>
+        call(importRoute.POST, "/api/import/reports", {
+          cookie: admin,
+          body: file,
+          headers: { "content-type": "text/csv" },
+        }),
+      ),
+    );
     expect(both.map((b) => b.status)).toEqual([200, 200]);
     const db = await getDb();
     const [n] = await db.select({ n: count() }).from(schema.reports).where(eq(schema.reports.source, "import"));

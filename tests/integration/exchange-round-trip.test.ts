@@ -19,8 +19,10 @@ const HYPERLINK = '=HYPERLINK("http://example.org/x","open me")';
 const TYPED = "'=kept exactly as typed";
 const original = process.env.DATA_DIR!;
 const fresh = fs.mkdtempSync(path.join(os.tmpdir(), "tanklore-fresh-club-"));
-let admin = "", moderator = "";
-let linkReportId = "", typedReportId = "";
+let admin = "",
+  moderator = "";
+let linkReportId = "",
+  typedReportId = "";
 
 type Row = Record<string, string>;
 const rowsOf = (csv: string) => Papa.parse<Row>(csv, { header: true, comments: "#", skipEmptyLines: true }).data;
@@ -32,7 +34,11 @@ async function exportCsv(cookie: string): Promise<string> {
 }
 
 function importCsv(cookie: string, csv: string, query = "") {
-  return call(importRoute.POST, `/api/import/reports${query}`, { cookie, body: csv, headers: { "content-type": "text/csv" } });
+  return call(importRoute.POST, `/api/import/reports${query}`, {
+    cookie,
+    body: csv,
+    headers: { "content-type": "text/csv" },
+  });
 }
 
 /** Points this process at another data directory (the sign-in library holds the database, so it starts afresh). */
@@ -44,14 +50,24 @@ async function useDataDir(dir: string) {
 
 async function reportCount(status?: "accepted") {
   const db = await getDb();
-  const [r] = await db.select({ n: count() }).from(schema.reports).where(status ? eq(schema.reports.status, status) : undefined);
+  const [r] = await db
+    .select({ n: count() })
+    .from(schema.reports)
+    .where(status ? eq(schema.reports.status, status) : undefined);
   return r!.n;
 }
 
 /** The stored summaries without their computation time: what readers see. */
 async function summaries() {
   const db = await getDb();
-  const rows = await db.select().from(schema.evidenceSummaries).orderBy(asc(schema.evidenceSummaries.agentSlug), asc(schema.evidenceSummaries.groupSlug), asc(schema.evidenceSummaries.conditionSlug));
+  const rows = await db
+    .select()
+    .from(schema.evidenceSummaries)
+    .orderBy(
+      asc(schema.evidenceSummaries.agentSlug),
+      asc(schema.evidenceSummaries.groupSlug),
+      asc(schema.evidenceSummaries.conditionSlug),
+    );
   return rows.map(({ computedAt: _c, ...r }) => r);
 }
 
@@ -60,8 +76,14 @@ beforeAll(async () => {
   admin = await signIn("admin@example.org", PASSWORD);
   moderator = await signIn("moderator@example.org", PASSWORD);
   const member = await signedInUser("member");
-  const link = await call(reportsRoute.POST, "/api/reports", { cookie: member.cookie, body: reportBody({ submit: true, outcome: { notes: HYPERLINK } }) });
-  const typed = await call(reportsRoute.POST, "/api/reports", { cookie: member.cookie, body: reportBody({ submit: true, outcome: { notes: TYPED } }) });
+  const link = await call(reportsRoute.POST, "/api/reports", {
+    cookie: member.cookie,
+    body: reportBody({ submit: true, outcome: { notes: HYPERLINK } }),
+  });
+  const typed = await call(reportsRoute.POST, "/api/reports", {
+    cookie: member.cookie,
+    body: reportBody({ submit: true, outcome: { notes: TYPED } }),
+  });
   expect([link.status, typed.status]).toEqual([201, 201]);
   linkReportId = link.body.id;
   typedReportId = typed.body.id;
@@ -88,7 +110,9 @@ describe("reports exchange between clubs", () => {
     const csvA = await exportCsv(admin);
     const rowsA = rowsOf(csvA);
     const acceptedA = await reportCount("accepted");
-    expect(new Set(rowsA.map((r) => r.status))).toEqual(new Set(["accepted", "awaiting_review", "returned", "declined", "retracted"]));
+    expect(new Set(rowsA.map((r) => r.status))).toEqual(
+      new Set(["accepted", "awaiting_review", "returned", "declined", "retracted"]),
+    );
 
     // A fresh club: its own data directory, the catalogue and the demo people, no reports.
     fs.cpSync(path.join(inject("templateDataDir"), "pgdata"), path.join(fresh, "pgdata"), { recursive: true });
@@ -121,8 +145,21 @@ describe("reports exchange between clubs", () => {
       expect(rowsB.size).toBe(rowsA.length);
       for (const a of rowsA) {
         const b = rowsB.get(a.id!)!;
-        expect({ id: b.id, status: b.status, reporter: b.reporter, notes: b.notes, concentration: b.concentration, decided_at: b.decided_at })
-          .toEqual({ id: a.id, status: a.status, reporter: a.reporter, notes: a.notes, concentration: a.concentration, decided_at: a.decided_at });
+        expect({
+          id: b.id,
+          status: b.status,
+          reporter: b.reporter,
+          notes: b.notes,
+          concentration: b.concentration,
+          decided_at: b.decided_at,
+        }).toEqual({
+          id: a.id,
+          status: a.status,
+          reporter: a.reporter,
+          notes: a.notes,
+          concentration: a.concentration,
+          decided_at: a.decided_at,
+        });
         const eventsA = JSON.parse(a.review_events!);
         const eventsB = JSON.parse(b.review_events!);
         // Club B's history is club A's, then its own import.
@@ -133,16 +170,30 @@ describe("reports exchange between clubs", () => {
 
       // The history API names the imported actors by the file's pseudonyms.
       const retracted = rowsA.find((r) => r.status === "retracted")!;
-      const history = await call(historyRoute.GET, `/api/reports/${retracted.id}/history`, { cookie: freshAdmin, params: { id: retracted.id! } });
+      const history = await call(historyRoute.GET, `/api/reports/${retracted.id}/history`, {
+        cookie: freshAdmin,
+        params: { id: retracted.id! },
+      });
       expect(history.status).toBe(200);
       const retract = history.body.events.find((e: { action: string }) => e.action === "retract");
-      expect(retract).toMatchObject({ from: "accepted", to: "retracted", note: "Entered twice by mistake.", actor: { id: null } });
+      expect(retract).toMatchObject({
+        from: "accepted",
+        to: "retracted",
+        note: "Entered twice by mistake.",
+        actor: { id: null },
+      });
       expect(retract.actor.name).toMatch(/^member-[0-9a-f]{10}$/);
 
       // The neutralising apostrophe is taken off on import: the stored notes are what the member typed.
       const db = await getDb();
-      const [link] = await db.select({ notes: schema.reports.notes }).from(schema.reports).where(eq(schema.reports.id, linkReportId));
-      const [typed] = await db.select({ notes: schema.reports.notes }).from(schema.reports).where(eq(schema.reports.id, typedReportId));
+      const [link] = await db
+        .select({ notes: schema.reports.notes })
+        .from(schema.reports)
+        .where(eq(schema.reports.id, linkReportId));
+      const [typed] = await db
+        .select({ notes: schema.reports.notes })
+        .from(schema.reports)
+        .where(eq(schema.reports.id, typedReportId));
       expect([link!.notes, typed!.notes]).toEqual([HYPERLINK, TYPED]);
     } finally {
       await useDataDir(original);
@@ -150,7 +201,8 @@ describe("reports exchange between clubs", () => {
   });
 
   it("imports a file without ids once, recognising its rows by content and reporter", async () => {
-    const header = "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after,notes";
+    const header =
+      "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after,notes";
     const lines = [
       "accepted,member-paper1,poecilia-reticulata,5,adult,white-spot,2018-05-01,60,L,25,C,bare,hydrogen-peroxide,3,40,1,0,,mild,cleared,7,from the paper log",
       "accepted,member-paper2,poecilia-reticulata,4,adult,white-spot,2018-06-01,60,L,25,C,bare,hydrogen-peroxide,3,60,1,0,,none,cleared,7,",
@@ -168,7 +220,10 @@ describe("reports exchange between clubs", () => {
     expect(await reportCount("accepted")).toBe(acceptedBefore + 2);
     // Statuses other than awaiting review are kept: the declined row does not wait for review again.
     const db = await getDb();
-    const [declined] = await db.select({ n: count() }).from(schema.reports).where(eq(schema.reports.externalReporter, "member-paper2"));
+    const [declined] = await db
+      .select({ n: count() })
+      .from(schema.reports)
+      .where(eq(schema.reports.externalReporter, "member-paper2"));
     expect(declined!.n).toBe(2);
   });
 });

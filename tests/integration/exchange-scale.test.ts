@@ -13,7 +13,8 @@ import { signIn } from "../support/factories";
 const PASSWORD = "exchange-scale-pass";
 let admin = "";
 
-const header = "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after,notes";
+const header =
+  "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after,notes";
 /** One valid row; `n` makes each row's content (and so its fingerprint) different. */
 const line = (n: number, notes = `paper log entry ${n}`) =>
   `accepted,member-bulk${n % 40},poecilia-reticulata,${3 + (n % 9)},adult,white-spot,2017-0${1 + (n % 9)}-1${n % 10},60,L,25,C,bare,hydrogen-peroxide,3,${20 + (n % 50)},1,0,,mild,cleared,7,"${notes}"`;
@@ -32,7 +33,11 @@ beforeAll(async () => {
 describe("importing at scale and refusing bad cells", () => {
   it("rejects a row with a NUL cell naming its row and column, without failing the rest", async () => {
     const csv = [header, line(1), line(2, "bad\u0000cell"), line(3), line(4, "bell\u0007here")].join("\n");
-    const refused = await call(importRoute.POST, "/api/import/reports", { cookie: admin, body: csv, headers: { "content-type": "text/csv" } });
+    const refused = await call(importRoute.POST, "/api/import/reports", {
+      cookie: admin,
+      body: csv,
+      headers: { "content-type": "text/csv" },
+    });
     expect(refused.status).toBe(422);
     expect(refused.body.rejected).toEqual([
       { row: 3, issues: [{ path: "notes", message: "Contains a control character (U+0000); remove it." }] },
@@ -40,7 +45,11 @@ describe("importing at scale and refusing bad cells", () => {
     ]);
     expect(await importedCount()).toBe(0);
 
-    const partial = await call(importRoute.POST, "/api/import/reports?partial=1", { cookie: admin, body: csv, headers: { "content-type": "text/csv" } });
+    const partial = await call(importRoute.POST, "/api/import/reports?partial=1", {
+      cookie: admin,
+      body: csv,
+      headers: { "content-type": "text/csv" },
+    });
     expect(partial.status).toBe(200);
     expect(partial.body).toMatchObject({ imported: 2, skipped: 0 });
     expect(partial.body.rejected.map((r: { row: number }) => r.row)).toEqual([3, 5]);
@@ -48,7 +57,11 @@ describe("importing at scale and refusing bad cells", () => {
   });
 
   it("refuses a bad query flag with 422 and imports nothing", async () => {
-    const r = await call(importRoute.POST, "/api/import/reports?dryRun=maybe", { cookie: admin, body: [header, line(9)].join("\n"), headers: { "content-type": "text/csv" } });
+    const r = await call(importRoute.POST, "/api/import/reports?dryRun=maybe", {
+      cookie: admin,
+      body: [header, line(9)].join("\n"),
+      headers: { "content-type": "text/csv" },
+    });
     expect(r.status).toBe(422);
     expect(r.body.error.issues[0].path).toBe("dryRun");
   });
@@ -57,7 +70,11 @@ describe("importing at scale and refusing bad cells", () => {
     const rows = 3000;
     const csv = [header, ...Array.from({ length: rows }, (_, k) => line(1000 + k))].join("\n");
     const before = await importedCount();
-    const req = new Request(`${BASE}/api/import/reports`, { method: "POST", body: csv, headers: { cookie: admin, origin: BASE, "content-type": "text/csv", accept: "application/x-ndjson" } });
+    const req = new Request(`${BASE}/api/import/reports`, {
+      method: "POST",
+      body: csv,
+      headers: { cookie: admin, origin: BASE, "content-type": "text/csv", accept: "application/x-ndjson" },
+    });
     const res = await importRoute.POST(req, { params: Promise.resolve({}) });
     expect(res.status).toBe(200);
     expect(res.headers.get("content-type")).toMatch(/^application\/x-ndjson/);
@@ -80,7 +97,11 @@ describe("importing at scale and refusing bad cells", () => {
         // Once the first batch is written, ask for something else: it must be answered while the import goes on.
         if (!readDuringWrite && m.progress?.phase === "writing" && m.progress.done < m.progress.total) {
           const t0 = performance.now();
-          readDuringWrite = call(summaryRoute.GET, "/api/summaries?agent=hydrogen-peroxide").then((r) => ({ status: r.status, ms: performance.now() - t0, settledBeforeEnd: !ended }));
+          readDuringWrite = call(summaryRoute.GET, "/api/summaries?agent=hydrogen-peroxide").then((r) => ({
+            status: r.status,
+            ms: performance.now() - t0,
+            settledBeforeEnd: !ended,
+          }));
         }
       }
     }
@@ -98,7 +119,9 @@ describe("importing at scale and refusing bad cells", () => {
   }, 300_000);
 
   it("streams the reports export in chunks of 500, every submitted report exactly once", async () => {
-    const res = await exportRoute.GET(new Request(`${BASE}/api/export/reports.csv`, { headers: { cookie: admin } }), { params: Promise.resolve({}) });
+    const res = await exportRoute.GET(new Request(`${BASE}/api/export/reports.csv`, { headers: { cookie: admin } }), {
+      params: Promise.resolve({}),
+    });
     expect(res.status).toBe(200);
     const reader = res.body!.getReader();
     const decoder = new TextDecoder();

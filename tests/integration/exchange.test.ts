@@ -9,7 +9,9 @@ import { seedDemo } from "@/db/seed";
 import { call } from "../support/http";
 import { signIn } from "../support/factories";
 
-let admin = "", moderator = "", member = "";
+let admin = "",
+  moderator = "",
+  member = "";
 
 beforeAll(async () => {
   await seedDemo(await getDb(), { password: "exchange-demo-pass" });
@@ -36,8 +38,11 @@ describe("reports CSV", () => {
 
   it("imports good rows, lists bad ones with what to fix, and recomputes the summaries", async () => {
     const db = await getDb();
-    const before = await call(summaryRoute.GET, "/api/summaries/livebearers?agent=hydrogen-peroxide", { params: { groupSlug: "livebearers" } });
-    const header = "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after";
+    const before = await call(summaryRoute.GET, "/api/summaries/livebearers?agent=hydrogen-peroxide", {
+      params: { groupSlug: "livebearers" },
+    });
+    const header =
+      "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after";
     const csv = [
       "# historical records from the club's paper log",
       header,
@@ -47,12 +52,28 @@ describe("reports CSV", () => {
       "accepted,member-old3,no-such-fish,5,adult,white-spot,2031-01-01,-4,L,25,C,bare,hydrogen-peroxide,3,40,1,0,,mild,cleared,7",
       ",member-old3,poecilia-reticulata,5,adult,white-spot,2019-08-01,60,L,25,C,bare,hydrogen-peroxide,3,40,1,0,,mild,cleared,7",
     ].join("\n");
-    const bad = await call(importRoute.POST, "/api/import/reports", { cookie: admin, body: csv, headers: { "content-type": "application/json" } });
+    const bad = await call(importRoute.POST, "/api/import/reports", {
+      cookie: admin,
+      body: csv,
+      headers: { "content-type": "application/json" },
+    });
     expect(bad.status).toBe(415);
-    expect((await call(importRoute.POST, "/api/import/reports", { cookie: moderator, body: csv, headers: { "content-type": "text/csv" } })).status).toBe(403);
+    expect(
+      (
+        await call(importRoute.POST, "/api/import/reports", {
+          cookie: moderator,
+          body: csv,
+          headers: { "content-type": "text/csv" },
+        })
+      ).status,
+    ).toBe(403);
 
     // Without ?partial=1 a file with rejected rows imports nothing, and says which rows to fix.
-    const refused = await call(importRoute.POST, "/api/import/reports", { cookie: admin, body: csv, headers: { "content-type": "text/csv" } });
+    const refused = await call(importRoute.POST, "/api/import/reports", {
+      cookie: admin,
+      body: csv,
+      headers: { "content-type": "text/csv" },
+    });
     expect(refused.status).toBe(422);
     expect(refused.body.imported).toBe(0);
     expect(refused.body.rejected.map((x: { row: number }) => x.row)).toEqual([4, 5]);
@@ -60,29 +81,49 @@ describe("reports CSV", () => {
     const [none] = await db.select({ n: count() }).from(schema.reports).where(eq(schema.reports.source, "import"));
     expect(none!.n).toBe(0);
 
-    const r = await call(importRoute.POST, "/api/import/reports?partial=1", { cookie: admin, body: csv, headers: { "content-type": "text/csv" } });
+    const r = await call(importRoute.POST, "/api/import/reports?partial=1", {
+      cookie: admin,
+      body: csv,
+      headers: { "content-type": "text/csv" },
+    });
     expect(r.status).toBe(200);
     expect(r.body.imported).toBe(3);
     expect(r.body.skipped).toBe(0);
     expect(r.body.rejected.map((x: { row: number }) => x.row)).toEqual([4, 5]);
     expect(r.body.rejected[0].issues.map((i: { path: string }) => i.path)).toEqual(["outcome.fishLost"]);
-    expect(r.body.rejected[1].issues.map((i: { path: string }) => i.path).sort()).toEqual(["species_id", "startedOn", "water.volume"]);
+    expect(r.body.rejected[1].issues.map((i: { path: string }) => i.path).sort()).toEqual([
+      "species_id",
+      "startedOn",
+      "water.volume",
+    ]);
 
     const [imported] = await db.select({ n: count() }).from(schema.reports).where(eq(schema.reports.source, "import"));
     expect(imported!.n).toBe(3);
-    const after = await call(summaryRoute.GET, "/api/summaries/livebearers?agent=hydrogen-peroxide", { params: { groupSlug: "livebearers" } });
+    const after = await call(summaryRoute.GET, "/api/summaries/livebearers?agent=hydrogen-peroxide", {
+      params: { groupSlug: "livebearers" },
+    });
     expect(after.body.reports).toBe(before.body.reports + 2); // the third good row waits for review
     expect(after.body.members).toBe(before.body.members + 2); // two pseudonymous reporters
     // 40 mL × 30 mg/mL / 60 L = 20 mg/L and 60 mL → 30 mg/L, both tolerated.
-    expect(after.body.points.filter((p: { dose: number }) => p.dose === 20 || p.dose === 30).length).toBeGreaterThanOrEqual(2);
+    expect(
+      after.body.points.filter((p: { dose: number }) => p.dose === 20 || p.dose === 30).length,
+    ).toBeGreaterThanOrEqual(2);
   });
 
   it("refuses a file that is not CSV with the needed columns, and changes nothing", async () => {
     const db = await getDb();
     const [before] = await db.select({ n: count() }).from(schema.reports);
-    const r = await call(importRoute.POST, "/api/import/reports", { cookie: admin, body: "name,colour\nnemo,orange\n", headers: { "content-type": "text/csv" } });
+    const r = await call(importRoute.POST, "/api/import/reports", {
+      cookie: admin,
+      body: "name,colour\nnemo,orange\n",
+      headers: { "content-type": "text/csv" },
+    });
     expect(r.status).toBe(422);
-    expect(r.body.error.issues.map((i: { path: string }) => i.path)).toEqual(["fish_count", "agent_slug", "started_on"]);
+    expect(r.body.error.issues.map((i: { path: string }) => i.path)).toEqual([
+      "fish_count",
+      "agent_slug",
+      "started_on",
+    ]);
     const [after] = await db.select({ n: count() }).from(schema.reports);
     expect(after!.n).toBe(before!.n);
   });

@@ -24,14 +24,22 @@ async function reportsOf(authorId: string) {
 }
 
 function post(cookie: string, key: string | null, body = reportBody({ submit: true })) {
-  return call(reportsRoute.POST, "/api/reports", { cookie, body, headers: key === null ? {} : { "idempotency-key": key } });
+  return call(reportsRoute.POST, "/api/reports", {
+    cookie,
+    body,
+    headers: key === null ? {} : { "idempotency-key": key },
+  });
 }
 
 function upload(reportId: string, data: Buffer, key: string, cookie = alice.cookie) {
   const form = new FormData();
   form.set("file", new Blob([new Uint8Array(data)], { type: "image/jpeg" }), "tank.jpg");
   form.set("stage", "before");
-  const req = new Request(`${BASE}/api/reports/${reportId}/photos`, { method: "POST", body: form, headers: { cookie, origin: BASE, "idempotency-key": key } });
+  const req = new Request(`${BASE}/api/reports/${reportId}/photos`, {
+    method: "POST",
+    body: form,
+    headers: { cookie, origin: BASE, "idempotency-key": key },
+  });
   return photosRoute.POST(req, { params: Promise.resolve({ id: reportId }) });
 }
 
@@ -101,14 +109,19 @@ describe("Idempotency-Key on creating requests", () => {
 
   it("answers a repeated photo upload with the first photo and stores one", async () => {
     const draft = await post(alice.cookie, null, reportBody());
-    const jpeg = await sharp({ create: { width: 320, height: 240, channels: 3, background: { r: 20, g: 90, b: 120 } } }).jpeg().toBuffer();
+    const jpeg = await sharp({ create: { width: 320, height: 240, channels: 3, background: { r: 20, g: 90, b: 120 } } })
+      .jpeg()
+      .toBuffer();
     const answers = await Promise.all([upload(draft.body.id, jpeg, "photo-1"), upload(draft.body.id, jpeg, "photo-1")]);
     const third = await upload(draft.body.id, jpeg, "photo-1");
     const bodies = await Promise.all([...answers, third].map((a) => a.json()));
     expect([...answers, third].map((a) => a.status)).toEqual([201, 201, 201]);
     expect(new Set(bodies.map((b) => b.id)).size).toBe(1);
     const db = await getDb();
-    const [photos] = await db.select({ n: count() }).from(schema.photos).where(eq(schema.photos.reportId, draft.body.id));
+    const [photos] = await db
+      .select({ n: count() })
+      .from(schema.photos)
+      .where(eq(schema.photos.reportId, draft.body.id));
     expect(photos!.n).toBe(1);
   });
 });

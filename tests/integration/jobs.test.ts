@@ -50,7 +50,13 @@ describe("jobs claimed in the database", () => {
     const listed = await call(jobsRoute.GET, "/api/admin/jobs", { cookie: admin.cookie });
     expect(listed.status).toBe(200);
     const failed = listed.body.failing.find((j: { id: string }) => j.id === r.id);
-    expect(failed).toMatchObject({ kind: "test-always-fails", status: "failed", attempts: 3, lastError: "Error: the far end refused", summary: { to: "someone@example.org" } });
+    expect(failed).toMatchObject({
+      kind: "test-always-fails",
+      status: "failed",
+      attempts: 3,
+      lastError: "Error: the far end refused",
+      summary: { to: "someone@example.org" },
+    });
     const member = await signedInUser("member");
     expect((await call(jobsRoute.GET, "/api/admin/jobs", { cookie: member.cookie })).status).toBe(403);
     // An admin queues it again.
@@ -66,7 +72,10 @@ describe("jobs claimed in the database", () => {
     await enqueueJob("test-once", {}, { dedupeKey: "test-once-1" });
     expect(await enqueueJob("test-once", {}, { dedupeKey: "test-once-1" })).toBe(false);
     const now = new Date(Date.now() + 1000);
-    const counts = await Promise.all([runDueJobs({ kinds: ["test-once"], now }), runDueJobs({ kinds: ["test-once"], now })]);
+    const counts = await Promise.all([
+      runDueJobs({ kinds: ["test-once"], now }),
+      runDueJobs({ kinds: ["test-once"], now }),
+    ]);
     expect(counts.reduce((a, b) => a + b, 0)).toBe(1);
     expect(runs).toBe(1);
   });
@@ -78,7 +87,10 @@ describe("jobs claimed in the database", () => {
     const db = await getDb();
     const now = new Date();
     // As a process that claimed it and was killed: running, held by someone else until a minute from now.
-    await db.update(jobs).set({ status: "running", attempts: 1, lockedBy: "gone:1", lockedUntil: new Date(now.getTime() + 60_000) }).where(eq(jobs.dedupeKey, "test-lease-1"));
+    await db
+      .update(jobs)
+      .set({ status: "running", attempts: 1, lockedBy: "gone:1", lockedUntil: new Date(now.getTime() + 60_000) })
+      .where(eq(jobs.dedupeKey, "test-lease-1"));
     expect(await runDueJobs({ kinds: ["test-lease"], now: new Date(now.getTime() + 30_000) })).toBe(0);
     expect(await runDueJobs({ kinds: ["test-lease"], now: new Date(now.getTime() + 61_000) })).toBe(1);
     expect(runs).toBe(1);
@@ -88,7 +100,10 @@ describe("jobs claimed in the database", () => {
   it("does not mark a moderator's digest sent when the mail server refuses it", async () => {
     const mod = await signedInUser("moderator");
     const member = await signedInUser("member");
-    const filed = await call(reportsRoute.POST, "/api/reports", { cookie: member.cookie, body: reportBody({ submit: true }) });
+    const filed = await call(reportsRoute.POST, "/api/reports", {
+      cookie: member.cookie,
+      body: reportBody({ submit: true }),
+    });
     expect(filed.body.status, JSON.stringify(filed.body)).toBe("awaiting_review");
     // A mail server that is not there: a port that was free a moment ago.
     const port = await new Promise<number>((resolve) => {

@@ -27,19 +27,39 @@ beforeAll(async () => {
   // An open course of 3 % w/v peroxide in 40 L with one 33 mL dose, a dose every 48 h.
   const c = await call(draftsRoute.POST, "/api/reports/drafts", {
     cookie: keeper.cookie,
-    body: { courseOpen: true, speciesId: "paracheirodon-innesi", fishCount: 6, water: { volume: 40, volumeUnit: "L" }, treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, stockBasis: "w/v", intervalHours: 48 } },
+    body: {
+      courseOpen: true,
+      speciesId: "paracheirodon-innesi",
+      fishCount: 6,
+      water: { volume: 40, volumeUnit: "L" },
+      treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, stockBasis: "w/v", intervalHours: 48 },
+    },
   });
   courseId = c.body.id;
   t0 = new Date(Date.now() - 2 * HOUR);
-  expect((await call(entriesRoute.POST, `/api/reports/${courseId}/entries`, { params: { id: courseId }, cookie: keeper.cookie, body: { kind: "dose", at: t0.toISOString(), amountMl: 33 } })).status).toBe(201);
+  expect(
+    (
+      await call(entriesRoute.POST, `/api/reports/${courseId}/entries`, {
+        params: { id: courseId },
+        cookie: keeper.cookie,
+        body: { kind: "dose", at: t0.toISOString(), amountMl: 33 },
+      })
+    ).status,
+  ).toBe(201);
 
-  draftId = (await call(draftsRoute.POST, "/api/reports/drafts", { cookie: keeper.cookie, body: { fishCount: 2 } })).body.id;
-  const submit = async () => (await call(reportsRoute.POST, "/api/reports", { body: reportBody({ submit: true }), cookie: keeper.cookie })).body.id as string;
+  draftId = (await call(draftsRoute.POST, "/api/reports/drafts", { cookie: keeper.cookie, body: { fishCount: 2 } }))
+    .body.id;
+  const submit = async () =>
+    (await call(reportsRoute.POST, "/api/reports", { body: reportBody({ submit: true }), cookie: keeper.cookie })).body
+      .id as string;
   returnedId = await submit();
   acceptedId = await submit();
   waitingId = await submit();
-  const decide = (id: string, body: unknown) => call(decisionRoute.POST, `/api/reports/${id}/decision`, { params: { id }, cookie: mod.cookie, body });
-  expect((await decide(returnedId, { decision: "return", note: "Please add the water temperature." })).status).toBe(200);
+  const decide = (id: string, body: unknown) =>
+    call(decisionRoute.POST, `/api/reports/${id}/decision`, { params: { id }, cookie: mod.cookie, body });
+  expect((await decide(returnedId, { decision: "return", note: "Please add the water temperature." })).status).toBe(
+    200,
+  );
   expect((await decide(acceptedId, { decision: "accept" })).status).toBe(200);
 });
 
@@ -48,11 +68,23 @@ describe("a member's home", () => {
     const home = await getMemberHome({ actor: actorOf(keeper, "member") });
     expect(home.openCourses.map((c) => c.id)).toEqual([courseId]);
     // Hand computation: 3 % w/v = 30 mg/mL; 33 mL × 30 mg/mL ÷ 40 L = 24.75 mg/L, due 48 h after the dose.
-    expect(home.openCourses[0]!.nextDose).toMatchObject({ at: new Date(t0.getTime() + 48 * HOUR).toISOString(), doseMl: 33, unit: "mg/L", first: false });
+    expect(home.openCourses[0]!.nextDose).toMatchObject({
+      at: new Date(t0.getTime() + 48 * HOUR).toISOString(),
+      doseMl: 33,
+      unit: "mg/L",
+      first: false,
+    });
     expect(home.openCourses[0]!.nextDose!.concentration).toBeCloseTo(24.75, 9);
-    expect(home.returned).toEqual([expect.objectContaining({ id: returnedId, note: "Please add the water temperature." })]);
+    expect(home.returned).toEqual([
+      expect.objectContaining({ id: returnedId, note: "Please add the water temperature." }),
+    ]);
     expect(home.drafts.map((d) => d.id)).toEqual([draftId]);
-    expect(home.recentDecisions.map((d) => [d.reportId, d.action]).sort()).toEqual([[acceptedId, "accept"], [returnedId, "return"]].sort());
+    expect(home.recentDecisions.map((d) => [d.reportId, d.action]).sort()).toEqual(
+      [
+        [acceptedId, "accept"],
+        [returnedId, "return"],
+      ].sort(),
+    );
     expect(home.oldestAwaiting).toBeNull();
   });
 

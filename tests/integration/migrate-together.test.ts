@@ -13,7 +13,11 @@ afterAll(() => stop?.());
 
 function migrate(env: NodeJS.ProcessEnv): Promise<{ code: number | null; out: string }> {
   return new Promise((resolve) => {
-    const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "db/migrate.ts"], { cwd: process.cwd(), env, stdio: ["ignore", "pipe", "pipe"] });
+    const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "db/migrate.ts"], {
+      cwd: process.cwd(),
+      env,
+      stdio: ["ignore", "pipe", "pipe"],
+    });
     let out = "";
     child.stdout.on("data", (d) => (out += d));
     child.stderr.on("data", (d) => (out += d));
@@ -25,14 +29,23 @@ describe.skipIf(!hasPostgresServer())("migrations started together", () => {
   it("apply once when three db:migrate processes start at the same moment", { timeout: 300_000 }, async () => {
     const server = await startPostgres();
     stop = server.stop;
-    const env = { ...process.env, DATABASE_URL: server.url, BETTER_AUTH_SECRET: "together-secret-together-secret-0123456", BETTER_AUTH_URL: "http://localhost:3000" };
+    const env = {
+      ...process.env,
+      DATABASE_URL: server.url,
+      BETTER_AUTH_SECRET: "together-secret-together-secret-0123456",
+      BETTER_AUTH_URL: "http://localhost:3000",
+    };
     const runs = await Promise.all([migrate(env), migrate(env), migrate(env)]);
     for (const r of runs) expect(r, r.out).toMatchObject({ code: 0 });
-    const journal = JSON.parse(fs.readFileSync(path.join(process.cwd(), "drizzle", "meta", "_journal.json"), "utf8")) as { entries: unknown[] };
+    const journal = JSON.parse(
+      fs.readFileSync(path.join(process.cwd(), "drizzle", "meta", "_journal.json"), "utf8"),
+    ) as { entries: unknown[] };
     const client = new pg.Client({ connectionString: server.url });
     await client.connect();
     try {
-      const { rows } = await client.query<{ n: number; d: number }>("select count(*)::int as n, count(distinct hash)::int as d from drizzle.__drizzle_migrations");
+      const { rows } = await client.query<{ n: number; d: number }>(
+        "select count(*)::int as n, count(distinct hash)::int as d from drizzle.__drizzle_migrations",
+      );
       expect(rows[0]).toEqual({ n: journal.entries.length, d: journal.entries.length });
     } finally {
       await client.end();

@@ -31,7 +31,11 @@ function upload(id: string, data: Buffer, name: string, cookie = owner.cookie, t
   const form = new FormData();
   form.set("file", new Blob([new Uint8Array(data)], { type }), name);
   form.set("stage", "before");
-  const req = new Request(`${BASE}/api/reports/${id}/photos`, { method: "POST", body: form, headers: { cookie, origin: BASE } });
+  const req = new Request(`${BASE}/api/reports/${id}/photos`, {
+    method: "POST",
+    body: form,
+    headers: { cookie, origin: BASE },
+  });
   return photosRoute.POST(req, { params: Promise.resolve({ id }) });
 }
 
@@ -39,7 +43,10 @@ function upload(id: string, data: Buffer, name: string, cookie = owner.cookie, t
 async function jpegWithGps(): Promise<Buffer> {
   return sharp({ create: { width: 640, height: 480, channels: 3, background: { r: 30, g: 110, b: 90 } } })
     .jpeg()
-    .withExif({ IFD0: { Make: "TestCam", Copyright: "nobody" }, IFD3: { GPSLatitudeRef: "N", GPSLatitude: "51/1 30/1 0/1", GPSLongitudeRef: "W", GPSLongitude: "0/1 7/1 0/1" } })
+    .withExif({
+      IFD0: { Make: "TestCam", Copyright: "nobody" },
+      IFD3: { GPSLatitudeRef: "N", GPSLatitude: "51/1 30/1 0/1", GPSLongitudeRef: "W", GPSLongitude: "0/1 7/1 0/1" },
+    })
     .toBuffer();
 }
 
@@ -56,9 +63,19 @@ describe("photos", () => {
     expect(body).toMatchObject({ id: expect.any(String), width: 640, height: 480, bytes: expect.any(Number) });
 
     for (const size of ["full", "thumb"]) {
-      const got = await call(photoRoute.GET, `/api/photos/${body.id}?size=${size}`, { params: { id: body.id }, cookie: owner.cookie });
+      const got = await call(photoRoute.GET, `/api/photos/${body.id}?size=${size}`, {
+        params: { id: body.id },
+        cookie: owner.cookie,
+      });
       expect(got.status).toBe(200);
-      const bytes = Buffer.from(await (await photoRoute.GET(new Request(`${BASE}/api/photos/${body.id}?size=${size}`, { headers: { cookie: owner.cookie } }), { params: Promise.resolve({ id: body.id }) })).arrayBuffer());
+      const bytes = Buffer.from(
+        await (
+          await photoRoute.GET(
+            new Request(`${BASE}/api/photos/${body.id}?size=${size}`, { headers: { cookie: owner.cookie } }),
+            { params: Promise.resolve({ id: body.id }) },
+          )
+        ).arrayBuffer(),
+      );
       const m = await sharp(bytes).metadata();
       expect(m.format).toBe("jpeg");
       expect(m.exif).toBeUndefined();
@@ -66,7 +83,14 @@ describe("photos", () => {
       expect(m.xmp).toBeUndefined();
       expect(bytes.includes(Buffer.from("TestCam"))).toBe(false);
     }
-    const thumb = Buffer.from(await (await photoRoute.GET(new Request(`${BASE}/api/photos/${body.id}?size=thumb`, { headers: { cookie: owner.cookie } }), { params: Promise.resolve({ id: body.id }) })).arrayBuffer());
+    const thumb = Buffer.from(
+      await (
+        await photoRoute.GET(
+          new Request(`${BASE}/api/photos/${body.id}?size=thumb`, { headers: { cookie: owner.cookie } }),
+          { params: Promise.resolve({ id: body.id }) },
+        )
+      ).arrayBuffer(),
+    );
     expect((await sharp(thumb).metadata()).width).toBe(320);
   });
 
@@ -74,8 +98,15 @@ describe("photos", () => {
     const id = await newDraft();
     const text = await upload(id, Buffer.from("this is not a picture, just words\n".repeat(20)), "fish.jpg");
     expect(text.status).toBe(415);
-    expect((await text.json()).error).toMatchObject({ code: "unsupported_type", message: expect.stringMatching(/not a JPEG, PNG, WebP or AVIF/) });
-    const heicHeader = Buffer.concat([Buffer.from([0, 0, 0, 0x18]), Buffer.from("ftypheic\0\0\0\0mif1heic"), Buffer.alloc(64)]);
+    expect((await text.json()).error).toMatchObject({
+      code: "unsupported_type",
+      message: expect.stringMatching(/not a JPEG, PNG, WebP or AVIF/),
+    });
+    const heicHeader = Buffer.concat([
+      Buffer.from([0, 0, 0, 0x18]),
+      Buffer.from("ftypheic\0\0\0\0mif1heic"),
+      Buffer.alloc(64),
+    ]);
     const heic = await upload(id, heicHeader, "IMG_0001.HEIC", owner.cookie, "image/heic");
     expect(heic.status).toBe(415);
     expect((await heic.json()).error.message).toMatch(/HEIC.*JPEG/);
@@ -86,7 +117,9 @@ describe("photos", () => {
   it("refuses an image over 40 megapixels with 413, and a file over 10 MB", async () => {
     const id = await newDraft();
     // 7000 × 6000 = 42 MP; a flat colour compresses to a small PNG.
-    const big = await sharp({ create: { width: 7000, height: 6000, channels: 3, background: "#336655" } }).png().toBuffer();
+    const big = await sharp({ create: { width: 7000, height: 6000, channels: 3, background: "#336655" } })
+      .png()
+      .toBuffer();
     const r = await upload(id, big, "big.png", owner.cookie, "image/png");
     expect(r.status).toBe(413);
     expect((await r.json()).error.message).toMatch(/42 megapixels; the limit is 40/);
@@ -99,18 +132,30 @@ describe("photos", () => {
     const res = await upload(id, await jpegWithGps(), "t.jpg");
     const photo = await res.json();
     expect((await upload(id, await jpegWithGps(), "t.jpg", other.cookie)).status).toBe(404);
-    const asOther = await call(photoRoute.GET, `/api/photos/${photo.id}`, { params: { id: photo.id }, cookie: other.cookie });
+    const asOther = await call(photoRoute.GET, `/api/photos/${photo.id}`, {
+      params: { id: photo.id },
+      cookie: other.cookie,
+    });
     expect(asOther.status).toBe(404);
-    const asModOnDraft = await call(photoRoute.GET, `/api/photos/${photo.id}`, { params: { id: photo.id }, cookie: moderator.cookie });
+    const asModOnDraft = await call(photoRoute.GET, `/api/photos/${photo.id}`, {
+      params: { id: photo.id },
+      cookie: moderator.cookie,
+    });
     expect(asModOnDraft.status).toBe(404);
     expect((await call(photoRoute.GET, `/api/photos/${photo.id}`, { params: { id: photo.id } })).status).toBe(401);
-    const del = await call(photoRoute.DELETE, `/api/photos/${photo.id}`, { params: { id: photo.id }, cookie: other.cookie, method: "DELETE" });
+    const del = await call(photoRoute.DELETE, `/api/photos/${photo.id}`, {
+      params: { id: photo.id },
+      cookie: other.cookie,
+      method: "DELETE",
+    });
     expect(del.status).toBe(404);
   });
 
   it("answers 20 parallel 10 MB uploads without a 500 and without unbounded memory", async () => {
     const ids = [await newDraft(), await newDraft()];
-    const jpeg = await sharp({ create: { width: 1600, height: 1200, channels: 3, background: "#224433" } }).jpeg().toBuffer();
+    const jpeg = await sharp({ create: { width: 1600, height: 1200, channels: 3, background: "#224433" } })
+      .jpeg()
+      .toBuffer();
     // A valid JPEG followed by padding up to just under 10 MB: the decoder stops at the end marker.
     const tenMb = Buffer.concat([jpeg, Buffer.alloc(10 * 1024 * 1024 - jpeg.length - 1024)]);
     global.gc?.();
@@ -130,18 +175,40 @@ describe("the treatment course log", () => {
   it("logs doses, updates the report from the log, and mails a reminder when the next dose falls due", async () => {
     const d = await call(draftsRoute.POST, "/api/reports/drafts", {
       cookie: owner.cookie,
-      body: { courseOpen: true, speciesId: "carassius-auratus", fishCount: 3, water: { volume: 60, volumeUnit: "L" }, treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, intervalHours: 48 } },
+      body: {
+        courseOpen: true,
+        speciesId: "carassius-auratus",
+        fishCount: 3,
+        water: { volume: 60, volumeUnit: "L" },
+        treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, intervalHours: 48 },
+      },
     });
     const id = d.body.id as string;
     const t0 = new Date(Date.now() - 60_000);
-    const e1 = await call(entriesRoute.POST, `/api/reports/${id}/entries`, { params: { id }, cookie: owner.cookie, body: { kind: "dose", at: t0.toISOString(), amountMl: 30 } });
+    const e1 = await call(entriesRoute.POST, `/api/reports/${id}/entries`, {
+      params: { id },
+      cookie: owner.cookie,
+      body: { kind: "dose", at: t0.toISOString(), amountMl: 30 },
+    });
     expect(e1.status).toBe(201);
-    const bad = await call(entriesRoute.POST, `/api/reports/${id}/entries`, { params: { id }, cookie: owner.cookie, body: { kind: "dose", at: t0.toISOString() } });
+    const bad = await call(entriesRoute.POST, `/api/reports/${id}/entries`, {
+      params: { id },
+      cookie: owner.cookie,
+      body: { kind: "dose", at: t0.toISOString() },
+    });
     expect(bad.status).toBe(422);
     expect(bad.body.error.issues[0].path).toBe("amountMl");
-    const byOther = await call(entriesRoute.POST, `/api/reports/${id}/entries`, { params: { id }, cookie: other.cookie, body: { kind: "observation", at: t0.toISOString(), text: "hi" } });
+    const byOther = await call(entriesRoute.POST, `/api/reports/${id}/entries`, {
+      params: { id },
+      cookie: other.cookie,
+      body: { kind: "observation", at: t0.toISOString(), text: "hi" },
+    });
     expect(byOther.status).toBe(404);
-    await call(entriesRoute.POST, `/api/reports/${id}/entries`, { params: { id }, cookie: owner.cookie, body: { kind: "observation", at: new Date().toISOString(), text: "Fish gasping briefly, then calm." } });
+    await call(entriesRoute.POST, `/api/reports/${id}/entries`, {
+      params: { id },
+      cookie: owner.cookie,
+      body: { kind: "observation", at: new Date().toISOString(), text: "Fish gasping briefly, then calm." },
+    });
 
     const got = await call(reportRoute.GET, `/api/reports/${id}`, { params: { id }, cookie: owner.cookie });
     expect(got.body.treatment).toMatchObject({ doses: 1, amountMl: 30 });
@@ -159,14 +226,25 @@ describe("the treatment course log", () => {
   });
 
   it("attaches a photo of the report to an observation, and refuses one of another report", async () => {
-    const d = await call(draftsRoute.POST, "/api/reports/drafts", { cookie: owner.cookie, body: { courseOpen: true, fishCount: 2 } });
+    const d = await call(draftsRoute.POST, "/api/reports/drafts", {
+      cookie: owner.cookie,
+      body: { courseOpen: true, fishCount: 2 },
+    });
     const id = d.body.id as string;
     const photo = await (await upload(id, await jpegWithGps(), "gill.jpg")).json();
-    const ok = await call(entriesRoute.POST, `/api/reports/${id}/entries`, { params: { id }, cookie: owner.cookie, body: { kind: "observation", at: new Date().toISOString(), text: "Pale gills.", photoId: photo.id } });
+    const ok = await call(entriesRoute.POST, `/api/reports/${id}/entries`, {
+      params: { id },
+      cookie: owner.cookie,
+      body: { kind: "observation", at: new Date().toISOString(), text: "Pale gills.", photoId: photo.id },
+    });
     expect(ok.status).toBe(201);
     expect(ok.body.photoId).toBe(photo.id);
     const elsewhere = await newDraft();
-    const foreign = await call(entriesRoute.POST, `/api/reports/${elsewhere}/entries`, { params: { id: elsewhere }, cookie: owner.cookie, body: { kind: "observation", at: new Date().toISOString(), text: "x", photoId: photo.id } });
+    const foreign = await call(entriesRoute.POST, `/api/reports/${elsewhere}/entries`, {
+      params: { id: elsewhere },
+      cookie: owner.cookie,
+      body: { kind: "observation", at: new Date().toISOString(), text: "x", photoId: photo.id },
+    });
     expect(foreign.status).toBe(422);
     expect(foreign.body.error.issues[0].path).toBe("photoId");
   });

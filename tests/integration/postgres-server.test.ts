@@ -49,29 +49,55 @@ describe("on a PostgreSQL server (DATABASE_URL)", () => {
     expect(n?.n).toBe(150);
 
     // The dose–response aggregate's arrays come back through node-postgres too: the demo's tetras get a fit.
-    const [tetras] = await db.select().from(schema.evidenceSummaries).where(and(eq(schema.evidenceSummaries.groupSlug, "tetras"), eq(schema.evidenceSummaries.agentSlug, "hydrogen-peroxide"), eq(schema.evidenceSummaries.conditionSlug, "")));
+    const [tetras] = await db
+      .select()
+      .from(schema.evidenceSummaries)
+      .where(
+        and(
+          eq(schema.evidenceSummaries.groupSlug, "tetras"),
+          eq(schema.evidenceSummaries.agentSlug, "hydrogen-peroxide"),
+          eq(schema.evidenceSummaries.conditionSlug, ""),
+        ),
+      );
     const dr = (tetras?.summary as { doseResponse: { bmd: number; bmdl: number; curve: unknown[] } }).doseResponse;
     expect(dr.bmdl).toBeLessThan(dr.bmd);
     expect(dr.curve).toHaveLength(50);
 
     const cat = await call(catalogueRoute.GET, "/api/catalogue");
-    expect(cat.body.agents.find((a: { slug: string }) => a.slug === "hydrogen-peroxide")).toMatchObject({ unit: "mg/L" });
+    expect(cat.body.agents.find((a: { slug: string }) => a.slug === "hydrogen-peroxide")).toMatchObject({
+      unit: "mg/L",
+    });
 
     const cookie = await signIn("admin@example.org", "pg-demo-password");
     const members = await call(membersRoute.GET, "/api/admin/members?role=moderator", { cookie });
     expect(members.status).toBe(200);
-    expect(members.body.members.map((m: { email: string }) => m.email).sort()).toEqual(["keeper10@example.org", "moderator@example.org"]);
+    expect(members.body.members.map((m: { email: string }) => m.email).sort()).toEqual([
+      "keeper10@example.org",
+      "moderator@example.org",
+    ]);
     const [admin] = await db.select().from(schema.users).where(eq(schema.users.email, "admin@example.org"));
     expect(admin?.role).toBe("admin");
   });
 
   it("accepts waiting reports in parallel and the drained summaries count every accepted report", async () => {
     const db = await getDb();
-    const waiting = await db.select({ id: schema.reports.id, authorId: schema.reports.authorId }).from(schema.reports).where(eq(schema.reports.status, "awaiting_review"));
+    const waiting = await db
+      .select({ id: schema.reports.id, authorId: schema.reports.authorId })
+      .from(schema.reports)
+      .where(eq(schema.reports.status, "awaiting_review"));
     expect(waiting.length).toBeGreaterThan(1);
-    const [mod, admin] = [await signIn("moderator@example.org", "pg-demo-password"), await signIn("admin@example.org", "pg-demo-password")];
+    const [mod, admin] = [
+      await signIn("moderator@example.org", "pg-demo-password"),
+      await signIn("admin@example.org", "pg-demo-password"),
+    ];
     const answers = await Promise.all(
-      waiting.map((r, i) => call(decisionRoute.POST, `/api/reports/${r.id}/decision`, { params: { id: r.id }, cookie: i % 2 ? mod : admin, body: { decision: "accept" } })),
+      waiting.map((r, i) =>
+        call(decisionRoute.POST, `/api/reports/${r.id}/decision`, {
+          params: { id: r.id },
+          cookie: i % 2 ? mod : admin,
+          body: { decision: "accept" },
+        }),
+      ),
     );
     const accepted = answers.filter((a) => a.status === 200).length;
     expect(accepted).toBeGreaterThan(0); // a demo account's own report answers 403; every other is accepted
@@ -84,7 +110,11 @@ describe("on a PostgreSQL server (DATABASE_URL)", () => {
       .where(eq(schema.reports.status, "accepted"))
       .groupBy(schema.reports.groupSlug, schema.reports.agentSlug);
     const stored = await db
-      .select({ group: schema.evidenceSummaries.groupSlug, agent: schema.evidenceSummaries.agentSlug, n: schema.evidenceSummaries.reports })
+      .select({
+        group: schema.evidenceSummaries.groupSlug,
+        agent: schema.evidenceSummaries.agentSlug,
+        n: schema.evidenceSummaries.reports,
+      })
       .from(schema.evidenceSummaries)
       .where(eq(schema.evidenceSummaries.conditionSlug, ""));
     const key = (x: { group: string | null; agent: string | null; n: number }) => `${x.group}/${x.agent}/${x.n}`;
@@ -106,7 +136,10 @@ describe("on a PostgreSQL server (DATABASE_URL)", () => {
       }
       expect(statuses).toEqual([...Array(10).fill(401), 429]);
       const db = await getDb();
-      const [limit] = await db.select().from(schema.signInLimits).where(eq(schema.signInLimits.email, "member2@example.org"));
+      const [limit] = await db
+        .select()
+        .from(schema.signInLimits)
+        .where(eq(schema.signInLimits.email, "member2@example.org"));
       expect(limit?.lockedUntil).toBeInstanceOf(Date);
       const [counted] = await db.select({ n: count() }).from(schema.rateLimits);
       expect(counted?.n).toBeGreaterThanOrEqual(10);
@@ -119,14 +152,26 @@ describe("on a PostgreSQL server (DATABASE_URL)", () => {
 
   it("holds the 12-photo limit when 20 uploads to one draft run at once on several connections", async () => {
     const cookie = await signIn("member@example.org", "pg-demo-password");
-    const created = await call(reportsRoute.POST, "/api/reports", { body: reportBody({ speciesId: null, speciesOther: "An unlisted tetra" }), cookie });
+    const created = await call(reportsRoute.POST, "/api/reports", {
+      body: reportBody({ speciesId: null, speciesOther: "An unlisted tetra" }),
+      cookie,
+    });
     expect(created.status).toBe(201);
     const id = created.body.id as string;
-    const jpeg = await sharp({ create: { width: 320, height: 240, channels: 3, background: "#1e6e5a" } }).jpeg().toBuffer();
+    const jpeg = await sharp({ create: { width: 320, height: 240, channels: 3, background: "#1e6e5a" } })
+      .jpeg()
+      .toBuffer();
     const upload = () => {
       const form = new FormData();
       form.set("file", new Blob([new Uint8Array(jpeg)], { type: "image/jpeg" }), "tank.jpg");
-      return photosRoute.POST(new Request(`${BASE}/api/reports/${id}/photos`, { method: "POST", body: form, headers: { cookie, origin: BASE } }), { params: Promise.resolve({ id }) });
+      return photosRoute.POST(
+        new Request(`${BASE}/api/reports/${id}/photos`, {
+          method: "POST",
+          body: form,
+          headers: { cookie, origin: BASE },
+        }),
+        { params: Promise.resolve({ id }) },
+      );
     };
     const statuses = (await Promise.all(Array.from({ length: 20 }, upload))).map((r) => r.status);
     expect(statuses.filter((s) => s === 201)).toHaveLength(12);

@@ -65,7 +65,10 @@ describe("POST /api/reports", () => {
       const r = await create(body);
       expect(r.status, path).toBe(422);
       expect(r.body.error.code).toBe("invalid");
-      expect(r.body.error.issues.map((i: { path: string }) => i.path), path).toContain(path);
+      expect(
+        r.body.error.issues.map((i: { path: string }) => i.path),
+        path,
+      ).toContain(path);
     }
     expect(await reportCount()).toBe(before);
   });
@@ -91,10 +94,18 @@ describe("who may see and change a report", () => {
     expect((await call(reportRoute.GET, `/api/reports/${id}`, as(moderator.cookie))).status).toBe(404);
     expect((await call(historyRoute.GET, `/api/reports/${id}/history`, as(other.cookie))).status).toBe(404);
 
-    const patchByOther = await call(reportRoute.PATCH, `/api/reports/${id}`, { ...as(other.cookie), method: "PATCH", body: { fishCount: 1 } });
+    const patchByOther = await call(reportRoute.PATCH, `/api/reports/${id}`, {
+      ...as(other.cookie),
+      method: "PATCH",
+      body: { fishCount: 1 },
+    });
     expect(patchByOther.status).toBe(404);
-    expect((await call(reportRoute.DELETE, `/api/reports/${id}`, { ...as(other.cookie), method: "DELETE" })).status).toBe(404);
-    expect((await call(submitRoute.POST, `/api/reports/${id}/submit`, { ...as(other.cookie), method: "POST" })).status).toBe(404);
+    expect(
+      (await call(reportRoute.DELETE, `/api/reports/${id}`, { ...as(other.cookie), method: "DELETE" })).status,
+    ).toBe(404);
+    expect(
+      (await call(submitRoute.POST, `/api/reports/${id}/submit`, { ...as(other.cookie), method: "POST" })).status,
+    ).toBe(404);
     const still = await call(reportRoute.GET, `/api/reports/${id}`, as(owner.cookie));
     expect(still.body.fishCount).toBe(6);
 
@@ -109,30 +120,71 @@ describe("who may see and change a report", () => {
     const mod = await call(reportRoute.GET, `/api/reports/${id}`, { params: { id }, cookie: moderator.cookie });
     expect(mod.status).toBe(200);
     expect(mod.body.author.name).toBe("Owen Owner");
-    const patch = await call(reportRoute.PATCH, `/api/reports/${id}`, { params: { id }, cookie: moderator.cookie, method: "PATCH", body: { fishCount: 2 } });
+    const patch = await call(reportRoute.PATCH, `/api/reports/${id}`, {
+      params: { id },
+      cookie: moderator.cookie,
+      method: "PATCH",
+      body: { fishCount: 2 },
+    });
     expect(patch.status).toBe(403);
-    const ownPatch = await call(reportRoute.PATCH, `/api/reports/${id}`, { params: { id }, cookie: owner.cookie, method: "PATCH", body: { fishCount: 2 } });
+    const ownPatch = await call(reportRoute.PATCH, `/api/reports/${id}`, {
+      params: { id },
+      cookie: owner.cookie,
+      method: "PATCH",
+      body: { fishCount: 2 },
+    });
     expect(ownPatch.status).toBe(409);
-    const del = await call(reportRoute.DELETE, `/api/reports/${id}`, { params: { id }, cookie: owner.cookie, method: "DELETE" });
+    const del = await call(reportRoute.DELETE, `/api/reports/${id}`, {
+      params: { id },
+      cookie: owner.cookie,
+      method: "DELETE",
+    });
     expect(del.status).toBe(409);
-    expect((await call(reportRoute.GET, `/api/reports/${id}`, { params: { id }, cookie: other.cookie })).status).toBe(404);
+    expect((await call(reportRoute.GET, `/api/reports/${id}`, { params: { id }, cookie: other.cookie })).status).toBe(
+      404,
+    );
   });
 });
 
 describe("drafts, edits and submission", () => {
   it("saves a partial draft, merges nested edits, and on submit names what is missing", async () => {
-    const d = await call(draftsRoute.POST, "/api/reports/drafts", { cookie: owner.cookie, body: { speciesId: "betta-splendens", fishCount: 1, water: { volume: 20, volumeUnit: "L" } } });
+    const d = await call(draftsRoute.POST, "/api/reports/drafts", {
+      cookie: owner.cookie,
+      body: { speciesId: "betta-splendens", fishCount: 1, water: { volume: 20, volumeUnit: "L" } },
+    });
     expect(d.status).toBe(201);
     const id = d.body.id as string;
-    const early = await call(submitRoute.POST, `/api/reports/${id}/submit`, { params: { id }, cookie: owner.cookie, method: "POST" });
+    const early = await call(submitRoute.POST, `/api/reports/${id}/submit`, {
+      params: { id },
+      cookie: owner.cookie,
+      method: "POST",
+    });
     expect(early.status).toBe(422);
     const missing = early.body.error.issues.map((i: { path: string }) => i.path);
-    expect(missing).toEqual(expect.arrayContaining(["sizeClass", "conditionSlug", "startedOn", "water.temperature", "treatment.agentSlug", "outcome.distress"]));
+    expect(missing).toEqual(
+      expect.arrayContaining([
+        "sizeClass",
+        "conditionSlug",
+        "startedOn",
+        "water.temperature",
+        "treatment.agentSlug",
+        "outcome.distress",
+      ]),
+    );
 
     const full = reportBody();
     const patch = await call(reportRoute.PATCH, `/api/reports/${id}`, {
-      params: { id }, cookie: owner.cookie, method: "PATCH",
-      body: { sizeClass: "adult", conditionSlug: "velvet", startedOn: "2026-10-01", water: { temperature: 80, temperatureUnit: "F", setting: "bare" }, treatment: full.treatment, outcome: full.outcome },
+      params: { id },
+      cookie: owner.cookie,
+      method: "PATCH",
+      body: {
+        sizeClass: "adult",
+        conditionSlug: "velvet",
+        startedOn: "2026-10-01",
+        water: { temperature: 80, temperatureUnit: "F", setting: "bare" },
+        treatment: full.treatment,
+        outcome: full.outcome,
+      },
     });
     expect(patch.status).toBe(200);
     const got = await call(reportRoute.GET, `/api/reports/${id}`, { params: { id }, cookie: owner.cookie });
@@ -141,18 +193,38 @@ describe("drafts, edits and submission", () => {
     expect(got.body.water.temperatureC).toBeCloseTo(26.6667, 3);
     expect(got.body.concentration).toBe(60);
 
-    const badPatch = await call(reportRoute.PATCH, `/api/reports/${id}`, { params: { id }, cookie: owner.cookie, method: "PATCH", body: { outcome: { fishLost: 3 } } });
+    const badPatch = await call(reportRoute.PATCH, `/api/reports/${id}`, {
+      params: { id },
+      cookie: owner.cookie,
+      method: "PATCH",
+      body: { outcome: { fishLost: 3 } },
+    });
     expect(badPatch.status).toBe(422);
     expect(badPatch.body.error.issues[0].path).toBe("outcome.fishLost");
 
-    const ok = await call(submitRoute.POST, `/api/reports/${id}/submit`, { params: { id }, cookie: owner.cookie, method: "POST" });
+    const ok = await call(submitRoute.POST, `/api/reports/${id}/submit`, {
+      params: { id },
+      cookie: owner.cookie,
+      method: "POST",
+    });
     expect(ok.body).toEqual({ id, status: "awaiting_review" });
-    const again = await call(submitRoute.POST, `/api/reports/${id}/submit`, { params: { id }, cookie: owner.cookie, method: "POST" });
+    const again = await call(submitRoute.POST, `/api/reports/${id}/submit`, {
+      params: { id },
+      cookie: owner.cookie,
+      method: "POST",
+    });
     expect(again.status).toBe(409);
 
-    const history = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: owner.cookie });
+    const history = await call(historyRoute.GET, `/api/reports/${id}/history`, {
+      params: { id },
+      cookie: owner.cookie,
+    });
     expect(history.body.events.map((e: { action: string }) => e.action)).toEqual(["created", "submitted"]);
-    expect(history.body.events[1]).toMatchObject({ actor: { id: owner.id, name: "Owen Owner" }, from: "draft", to: "awaiting_review" });
+    expect(history.body.events[1]).toMatchObject({
+      actor: { id: owner.id, name: "Owen Owner" },
+      from: "draft",
+      to: "awaiting_review",
+    });
   });
 
   it("flags a stated concentration 30 % off the computed one when submitted", async () => {
@@ -167,7 +239,9 @@ describe("drafts, edits and submission", () => {
   });
 
   it("lists only the caller's reports, sorted and paged", async () => {
-    const mine = await call(reportsRoute.GET, "/api/reports?scope=mine&sort=startedOn&dir=asc&pageSize=2", { cookie: owner.cookie });
+    const mine = await call(reportsRoute.GET, "/api/reports?scope=mine&sort=startedOn&dir=asc&pageSize=2", {
+      cookie: owner.cookie,
+    });
     expect(mine.status).toBe(200);
     expect(mine.body.reports).toHaveLength(2);
     expect(mine.body.total).toBeGreaterThan(2);

@@ -30,7 +30,8 @@ async function submitted(body = reportBody({ submit: true }), by = member) {
   expect(r.body.status).toBe("awaiting_review");
   return r.body.id as string;
 }
-const decide = (id: string, cookie: string | undefined, body: unknown) => call(decisionRoute.POST, `/api/reports/${id}/decision`, { params: { id }, cookie, body });
+const decide = (id: string, cookie: string | undefined, body: unknown) =>
+  call(decisionRoute.POST, `/api/reports/${id}/decision`, { params: { id }, cookie, body });
 
 describe("decisions and who may make them", () => {
   it("refuses visitors (401) and members (403), and the author even when a moderator (403)", async () => {
@@ -60,10 +61,15 @@ describe("decisions and who may make them", () => {
 
   it("declines with a reason, and answers 409 to a decision on a report that has moved on", async () => {
     const id = await submitted();
-    expect((await decide(id, mod.cookie, { decision: "decline", note: "The volume cannot be right for this tank." })).body.status).toBe("declined");
+    expect(
+      (await decide(id, mod.cookie, { decision: "decline", note: "The volume cannot be right for this tank." })).body
+        .status,
+    ).toBe("declined");
     const late = await decide(id, mod2.cookie, { decision: "accept" });
     expect(late.status).toBe(409);
-    expect(late.body.error.message).toMatch(/declined.*Moe Moderator declined it \(“The volume cannot be right for this tank\.”\)/);
+    expect(late.body.error.message).toMatch(
+      /declined.*Moe Moderator declined it \(“The volume cannot be right for this tank\.”\)/,
+    );
     // Said in words: no internal value (accept, awaiting_review) and no ISO time reaches the moderator.
     expect(late.body.error.message).toMatch(/your decision \(accept\)/);
     expect(late.body.error.message).not.toMatch(/\b[a-z]+_[a-z_]+\b|\d{4}-\d{2}-\d{2}T/);
@@ -72,16 +78,26 @@ describe("decisions and who may make them", () => {
 
   it("lets only one of two moderators deciding at once win; the other gets 409", async () => {
     const id = await submitted();
-    const [x, y] = await Promise.all([decide(id, mod.cookie, { decision: "accept" }), decide(id, mod2.cookie, { decision: "return", note: "Add photos please." })]);
+    const [x, y] = await Promise.all([
+      decide(id, mod.cookie, { decision: "accept" }),
+      decide(id, mod2.cookie, { decision: "return", note: "Add photos please." }),
+    ]);
     expect([x.status, y.status].sort()).toEqual([200, 409]);
-    const events = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: member.cookie });
-    expect(events.body.events.filter((e: { action: string }) => ["accept", "return"].includes(e.action))).toHaveLength(1);
+    const events = await call(historyRoute.GET, `/api/reports/${id}/history`, {
+      params: { id },
+      cookie: member.cookie,
+    });
+    expect(events.body.events.filter((e: { action: string }) => ["accept", "return"].includes(e.action))).toHaveLength(
+      1,
+    );
   });
 
   it("retracts an accepted report with a reason; an admin may decide too", async () => {
     const id = await submitted();
     expect((await decide(id, admin.cookie, { decision: "accept" })).body.status).toBe("accepted");
-    expect((await decide(id, mod.cookie, { decision: "retract", note: "A duplicate of another report." })).body.status).toBe("retracted");
+    expect(
+      (await decide(id, mod.cookie, { decision: "retract", note: "A duplicate of another report." })).body.status,
+    ).toBe("retracted");
   });
 });
 
@@ -92,7 +108,11 @@ describe("a dose above the agent's plausible ceiling", () => {
   it("cannot be accepted by one moderator without an override note (422 naming note); nothing changes", async () => {
     const id = await submitted(hotBody());
     for (const note of [undefined, "Looks fine."]) {
-      const r = await decide(id, mod.cookie, note === undefined ? { decision: "accept" } : { decision: "accept", note });
+      const r = await decide(
+        id,
+        mod.cookie,
+        note === undefined ? { decision: "accept" } : { decision: "accept", note },
+      );
       expect(r.status).toBe(422);
       expect(r.body.error.code).toBe("invalid");
       expect(r.body.error.issues[0].path).toBe("note");
@@ -111,7 +131,13 @@ describe("a dose above the agent's plausible ceiling", () => {
     expect(r.status).toBe(200);
     expect(r.body).toEqual({ id, status: "accepted" });
     const h = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: member.cookie });
-    expect(h.body.events.at(-1)).toMatchObject({ action: "accept", from: "awaiting_review", to: "accepted", note, actor: { name: "Moe Moderator" } });
+    expect(h.body.events.at(-1)).toMatchObject({
+      action: "accept",
+      from: "awaiting_review",
+      to: "accepted",
+      note,
+      actor: { name: "Moe Moderator" },
+    });
   });
 
   it("is accepted without a note once a second moderator accepts after the first one's proposal", async () => {
@@ -146,8 +172,25 @@ describe("a return → resubmit → accept cycle", () => {
     expect(ret.body.status).toBe("returned");
     const seen = await call(reportRoute.GET, `/api/reports/${id}`, { params: { id }, cookie: member.cookie });
     expect(seen.body.lastNote).toMatchObject({ action: "return", note: "Please give the pH you measured." });
-    expect((await call(reportRoute.PATCH, `/api/reports/${id}`, { params: { id }, cookie: member.cookie, method: "PATCH", body: { water: { ph: 6.8 } } })).status).toBe(200);
-    expect((await call(submitRoute.POST, `/api/reports/${id}/submit`, { params: { id }, cookie: member.cookie, method: "POST" })).body.status).toBe("awaiting_review");
+    expect(
+      (
+        await call(reportRoute.PATCH, `/api/reports/${id}`, {
+          params: { id },
+          cookie: member.cookie,
+          method: "PATCH",
+          body: { water: { ph: 6.8 } },
+        })
+      ).status,
+    ).toBe(200);
+    expect(
+      (
+        await call(submitRoute.POST, `/api/reports/${id}/submit`, {
+          params: { id },
+          cookie: member.cookie,
+          method: "POST",
+        })
+      ).body.status,
+    ).toBe("awaiting_review");
     expect((await decide(id, mod.cookie, { decision: "accept", note: "Thanks." })).body.status).toBe("accepted");
 
     const h = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: member.cookie });
@@ -158,11 +201,19 @@ describe("a return → resubmit → accept cycle", () => {
       ["resubmitted", "returned", "awaiting_review"],
       ["accept", "awaiting_review", "accepted"],
     ]);
-    expect(h.body.events[2]).toMatchObject({ actor: { name: "Moe Moderator" }, note: "Please give the pH you measured." });
+    expect(h.body.events[2]).toMatchObject({
+      actor: { name: "Moe Moderator" },
+      note: "Please give the pH you measured.",
+    });
     expect(h.body.events[3].actor.name).toBe("Mira Member");
     const mails = mailTo(member.email).filter((m) => /Subject: Your Tanklore report was/.test(m));
     expect(mails.length - mailsBefore).toBe(2);
-    expect(mails.some((m) => /returned for changes/.test(m) && /Please give the pH you measured/.test(m) && m.includes(`/reports/${id}`))).toBe(true);
+    expect(
+      mails.some(
+        (m) =>
+          /returned for changes/.test(m) && /Please give the pH you measured/.test(m) && m.includes(`/reports/${id}`),
+      ),
+    ).toBe(true);
     expect(mails.some((m) => /Subject: Your Tanklore report was accepted/.test(m))).toBe(true);
   });
 });
@@ -170,13 +221,19 @@ describe("a return → resubmit → accept cycle", () => {
 describe("the queue and its flags", () => {
   it("shows reports awaiting review, oldest first, each with its plausibility flags", async () => {
     const off = await submitted(reportBody({ submit: true, treatment: { statedConcentration: 39 } })); // computed 30: 30 % off
-    const hot = await submitted(reportBody({ submit: true, water: { temperature: 36, ph: 9.6 }, treatment: { amountMl: 400 } })); // 300 mg/L
+    const hot = await submitted(
+      reportBody({ submit: true, water: { temperature: 36, ph: 9.6 }, treatment: { amountMl: 400 } }),
+    ); // 300 mg/L
     const odd = await submitted(reportBody({ submit: true, speciesId: null, speciesOther: "Hyphessobrycon sp. red" }));
     const r = await call(queueRoute.GET, "/api/review/queue", { cookie: mod.cookie });
     expect(r.status).toBe(200);
-    const byId = new Map(r.body.reports.map((x: { id: string; flags: { code: string }[] }) => [x.id, x.flags.map((f) => f.code)]));
+    const byId = new Map(
+      r.body.reports.map((x: { id: string; flags: { code: string }[] }) => [x.id, x.flags.map((f) => f.code)]),
+    );
     expect(byId.get(off)).toContain("stated_mismatch");
-    expect(byId.get(hot)).toEqual(expect.arrayContaining(["above_ceiling", "temperature_unusual", "ph_unusual", "no_photos"]));
+    expect(byId.get(hot)).toEqual(
+      expect.arrayContaining(["above_ceiling", "temperature_unusual", "ph_unusual", "no_photos"]),
+    );
     expect(byId.get(odd)).toContain("species_not_listed");
     const times = r.body.reports.map((x: { submittedAt: string }) => x.submittedAt);
     expect([...times].sort()).toEqual(times);
@@ -201,12 +258,22 @@ describe("the queue and its flags", () => {
     const refused = await decide(id, mod.cookie, { decision: "accept" });
     expect(refused.status).toBe(409);
     expect(refused.body.error.message).toMatch(/map it/);
-    const map = await call(correctionsRoute.POST, `/api/reports/${id}/corrections`, { params: { id }, cookie: mod.cookie, body: { kind: "species", speciesId: "corydoras-aeneus", note: "Bronze cory is C. aeneus." } });
+    const map = await call(correctionsRoute.POST, `/api/reports/${id}/corrections`, {
+      params: { id },
+      cookie: mod.cookie,
+      body: { kind: "species", speciesId: "corydoras-aeneus", note: "Bronze cory is C. aeneus." },
+    });
     expect(map.status).toBe(200);
     expect((await decide(id, mod.cookie, { decision: "accept" })).body.status).toBe("accepted");
     const h = await call(historyRoute.GET, `/api/reports/${id}/history`, { params: { id }, cookie: mod.cookie });
-    expect(h.body.events.find((e: { action: string }) => e.action === "map_species").note).toMatch(/bronze cory → Corydoras aeneus/);
-    const byMember = await call(correctionsRoute.POST, `/api/reports/${id}/corrections`, { params: { id }, cookie: member.cookie, body: { kind: "lossCause", lossCause: "disease", note: "nope" } });
+    expect(h.body.events.find((e: { action: string }) => e.action === "map_species").note).toMatch(
+      /bronze cory → Corydoras aeneus/,
+    );
+    const byMember = await call(correctionsRoute.POST, `/api/reports/${id}/corrections`, {
+      params: { id },
+      cookie: member.cookie,
+      body: { kind: "lossCause", lossCause: "disease", note: "nope" },
+    });
     expect(byMember.status).toBe(403);
   });
 
@@ -227,7 +294,10 @@ describe("the audit trail", () => {
   it("is append-only: no code path updates or deletes report events", async () => {
     const { execSync } = await import("node:child_process");
     // Every write to report_events in the source is an insert (deleting a draft removes its own trail with it).
-    const hits = execSync("grep -rnE 'update\\(reportEvents\\)|delete\\(reportEvents\\)|update report_events|delete from report_events' features app db || true", { encoding: "utf8" });
+    const hits = execSync(
+      "grep -rnE 'update\\(reportEvents\\)|delete\\(reportEvents\\)|update report_events|delete from report_events' features app db || true",
+      { encoding: "utf8" },
+    );
     expect(hits.trim()).toBe("");
   });
 });

@@ -54,7 +54,9 @@ describe("per-account limit on wrong passwords", () => {
     expect(right.body.error.message).toMatch(/paused/);
 
     await settleBackgroundMail();
-    expect(mailTo(user.email).filter((m) => /Subject: Password sign-in to your Tanklore account is paused/.test(m))).toHaveLength(1);
+    expect(
+      mailTo(user.email).filter((m) => /Subject: Password sign-in to your Tanklore account is paused/.test(m)),
+    ).toHaveLength(1);
 
     // Another account is not affected.
     const other = await signedInUser("member");
@@ -65,13 +67,18 @@ describe("per-account limit on wrong passwords", () => {
     const user = await signedInUser("member");
     for (let i = 0; i < 11; i++) await signIn(user.email, `wrong-password-${i}`);
     expect((await signIn(user.email, PASSWORD)).status).toBe(429);
-    await call(authRoute.POST, "/api/auth/request-password-reset", { body: { email: user.email, redirectTo: "/reset-password" } });
+    await call(authRoute.POST, "/api/auth/request-password-reset", {
+      body: { email: user.email, redirectTo: "/reset-password" },
+    });
     await settleBackgroundMail();
     const mail = mailTo(user.email).find((m) => /Subject: Choose a new Tanklore password/.test(m))!;
     const link = new URL(linkIn(mail));
     const hop = await call(authRoute.GET, link.pathname + link.search);
     const token = new URL(hop.res.headers.get("location")!, "http://localhost:3000").searchParams.get("token")!;
-    expect((await call(authRoute.POST, "/api/auth/reset-password", { body: { newPassword: "a-fresh-password-2", token } })).status).toBe(200);
+    expect(
+      (await call(authRoute.POST, "/api/auth/reset-password", { body: { newPassword: "a-fresh-password-2", token } }))
+        .status,
+    ).toBe(200);
     expect((await signIn(user.email, "a-fresh-password-2")).status).toBe(200);
   });
 
@@ -112,10 +119,15 @@ describe("body and field limits on the sign-in routes", () => {
     expect(longName.status).toBe(422);
     expect(longName.body.error.issues).toEqual([{ path: "name", message: "Name is at most 100 characters." }]);
     const longEmail = `${"e".repeat(250)}@example.org`;
-    const r = await call(authRoute.POST, "/api/auth/sign-up/email", { body: { name: "Elle", email: longEmail, password: "a-long-password-1" } });
+    const r = await call(authRoute.POST, "/api/auth/sign-up/email", {
+      body: { name: "Elle", email: longEmail, password: "a-long-password-1" },
+    });
     expect(r.status).toBe(422);
     expect(r.body.error.issues[0].path).toBe("email");
-    const rows = await db.select().from(schema.users).where(inArray(schema.users.email, ["long-name@example.org", longEmail]));
+    const rows = await db
+      .select()
+      .from(schema.users)
+      .where(inArray(schema.users.email, ["long-name@example.org", longEmail]));
     expect(rows).toEqual([]);
 
     // A name of exactly 100 characters is fine.
@@ -127,7 +139,10 @@ describe("body and field limits on the sign-in routes", () => {
 
   it("refuses an over-long name when a member renames themself", async () => {
     const user = await signedInUser("member");
-    const r = await call(authRoute.POST, "/api/auth/update-user", { cookie: user.cookie, body: { name: "x".repeat(5000) } });
+    const r = await call(authRoute.POST, "/api/auth/update-user", {
+      cookie: user.cookie,
+      body: { name: "x".repeat(5000) },
+    });
     expect(r.status).toBe(422);
     const db = await getDb();
     const [u] = await db.select().from(schema.users).where(eq(schema.users.id, user.id));
@@ -144,12 +159,16 @@ describe("password reset", () => {
       expect((await call(authRoute.GET, "/api/auth/get-session", { cookie })).body?.user?.id).toBe(user.id);
     }
 
-    await call(authRoute.POST, "/api/auth/request-password-reset", { body: { email: user.email, redirectTo: "/reset-password" } });
+    await call(authRoute.POST, "/api/auth/request-password-reset", {
+      body: { email: user.email, redirectTo: "/reset-password" },
+    });
     await settleBackgroundMail();
     const mail = mailTo(user.email).find((m) => /Subject: Choose a new Tanklore password/.test(m))!;
     const hop = await call(authRoute.GET, new URL(linkIn(mail)).pathname + new URL(linkIn(mail)).search);
     const token = new URL(hop.res.headers.get("location")!, "http://localhost:3000").searchParams.get("token")!;
-    const reset = await call(authRoute.POST, "/api/auth/reset-password", { body: { newPassword: "a-brand-new-password", token } });
+    const reset = await call(authRoute.POST, "/api/auth/reset-password", {
+      body: { newPassword: "a-brand-new-password", token },
+    });
     expect(reset.status).toBe(200);
 
     for (const cookie of [laptop, phone]) {
@@ -173,12 +192,19 @@ describe("sign-up and forgot-password tell nothing about which addresses have ac
     expect(taken.status).toBe(200);
     expect(fresh.status).toBe(200);
     expect(shape(taken.body)).toEqual(shape(fresh.body));
-    expect(taken.body.user).toMatchObject({ name: "Someone Else", email: owner.email, emailVerified: false, role: "member" });
+    expect(taken.body.user).toMatchObject({
+      name: "Someone Else",
+      email: owner.email,
+      emailVerified: false,
+      role: "member",
+    });
     expect(taken.body.user.id).not.toBe(owner.id);
 
     await settleBackgroundMail();
     const ownerMail = mailTo(owner.email);
-    expect(ownerMail.filter((m) => /Subject: Someone tried to join Tanklore with your address/.test(m))).toHaveLength(1);
+    expect(ownerMail.filter((m) => /Subject: Someone tried to join Tanklore with your address/.test(m))).toHaveLength(
+      1,
+    );
     expect(ownerMail.some((m) => /Subject: Confirm your e-mail address/.test(m))).toBe(false);
     // Nothing about the account changed.
     const db = await getDb();
@@ -194,8 +220,16 @@ describe("sign-up and forgot-password tell nothing about which addresses have ac
     const bodies: unknown[] = [];
     // Interleaved, after one warm-up each, so load on the machine hits both alike.
     for (let i = 0; i < 8; i++) {
-      const [a, ta] = await timed(() => call(authRoute.POST, "/api/auth/request-password-reset", { body: { email: owner.email, redirectTo: "/reset-password" } }));
-      const [b, tb] = await timed(() => call(authRoute.POST, "/api/auth/request-password-reset", { body: { email: `nobody-${i}@example.org`, redirectTo: "/reset-password" } }));
+      const [a, ta] = await timed(() =>
+        call(authRoute.POST, "/api/auth/request-password-reset", {
+          body: { email: owner.email, redirectTo: "/reset-password" },
+        }),
+      );
+      const [b, tb] = await timed(() =>
+        call(authRoute.POST, "/api/auth/request-password-reset", {
+          body: { email: `nobody-${i}@example.org`, redirectTo: "/reset-password" },
+        }),
+      );
       expect(a.status).toBe(200);
       expect(b.status).toBe(200);
       bodies.push(a.body, b.body);
@@ -212,8 +246,16 @@ describe("sign-up and forgot-password tell nothing about which addresses have ac
     const signUpKnown: number[] = [];
     const signUpUnknown: number[] = [];
     for (let i = 0; i < 6; i++) {
-      const [, ta] = await timed(() => call(authRoute.POST, "/api/auth/sign-up/email", { body: { name: "Tess Timing", email: owner.email, password: "a-long-password-1" } }));
-      const [, tb] = await timed(() => call(authRoute.POST, "/api/auth/sign-up/email", { body: { name: "Tess Timing", email: `timing-${i}@example.org`, password: "a-long-password-1" } }));
+      const [, ta] = await timed(() =>
+        call(authRoute.POST, "/api/auth/sign-up/email", {
+          body: { name: "Tess Timing", email: owner.email, password: "a-long-password-1" },
+        }),
+      );
+      const [, tb] = await timed(() =>
+        call(authRoute.POST, "/api/auth/sign-up/email", {
+          body: { name: "Tess Timing", email: `timing-${i}@example.org`, password: "a-long-password-1" },
+        }),
+      );
       if (i > 0) {
         signUpKnown.push(ta);
         signUpUnknown.push(tb);
@@ -235,13 +277,22 @@ describe("the club always keeps an admin, and every role change is recorded, by 
 
   it("refuses the last admin's self-demotion through the sign-in library's set-role and through the members API", async () => {
     const admin = await soleAdmin();
-    const viaLibrary = await call(authRoute.POST, "/api/auth/admin/set-role", { cookie: admin.cookie, body: { userId: admin.id, role: "member" } });
+    const viaLibrary = await call(authRoute.POST, "/api/auth/admin/set-role", {
+      cookie: admin.cookie,
+      body: { userId: admin.id, role: "member" },
+    });
     expect(viaLibrary.status).toBe(409);
     expect(viaLibrary.body.error.code).toBe("conflict");
-    const trailing = await call(authRoute.POST, "/api/auth/admin/set-role/", { cookie: admin.cookie, body: { userId: admin.id, role: "member" } });
+    const trailing = await call(authRoute.POST, "/api/auth/admin/set-role/", {
+      cookie: admin.cookie,
+      body: { userId: admin.id, role: "member" },
+    });
     expect(trailing.status).toBe(409);
     const viaApi = await call(memberRoute.PATCH, `/api/admin/members/${admin.id}`, {
-      method: "PATCH", cookie: admin.cookie, body: { role: "member" }, params: { id: admin.id },
+      method: "PATCH",
+      cookie: admin.cookie,
+      body: { role: "member" },
+      params: { id: admin.id },
     });
     expect(viaApi.status).toBe(409);
     const db = await getDb();
@@ -253,14 +304,25 @@ describe("the club always keeps an admin, and every role change is recorded, by 
   it("records a role change made through set-role in role_changes, and lets only admins make it", async () => {
     const admin = await soleAdmin();
     const target = await signedInUser("member");
-    const byMember = await call(authRoute.POST, "/api/auth/admin/set-role", { cookie: target.cookie, body: { userId: target.id, role: "admin" } });
+    const byMember = await call(authRoute.POST, "/api/auth/admin/set-role", {
+      cookie: target.cookie,
+      body: { userId: target.id, role: "admin" },
+    });
     expect(byMember.status).toBe(403);
-    const byVisitor = await call(authRoute.POST, "/api/auth/admin/set-role", { body: { userId: target.id, role: "admin" } });
+    const byVisitor = await call(authRoute.POST, "/api/auth/admin/set-role", {
+      body: { userId: target.id, role: "admin" },
+    });
     expect(byVisitor.status).toBe(401);
-    const badRole = await call(authRoute.POST, "/api/auth/admin/set-role", { cookie: admin.cookie, body: { userId: target.id, role: ["admin", "member"] } });
+    const badRole = await call(authRoute.POST, "/api/auth/admin/set-role", {
+      cookie: admin.cookie,
+      body: { userId: target.id, role: ["admin", "member"] },
+    });
     expect(badRole.status).toBe(422);
 
-    const ok = await call(authRoute.POST, "/api/auth/admin/set-role", { cookie: admin.cookie, body: { userId: target.id, role: "moderator" } });
+    const ok = await call(authRoute.POST, "/api/auth/admin/set-role", {
+      cookie: admin.cookie,
+      body: { userId: target.id, role: "moderator" },
+    });
     expect(ok.status).toBe(200);
     expect(ok.body.user).toMatchObject({ id: target.id, role: "moderator" });
     const db = await getDb();
@@ -275,7 +337,10 @@ describe("the club always keeps an admin, and every role change is recorded, by 
       ["/api/auth/admin/ban-user", { userId: target.id }],
       ["/api/auth/admin/remove-user", { userId: admin.id }],
       ["/api/auth/admin/update-user", { userId: target.id, data: { role: "admin" } }],
-      ["/api/auth/admin/create-user", { email: "made@example.org", password: "a-long-password-1", name: "Made", role: "admin" }],
+      [
+        "/api/auth/admin/create-user",
+        { email: "made@example.org", password: "a-long-password-1", name: "Made", role: "admin" },
+      ],
       ["/api/auth/admin/set-user-password", { userId: target.id, newPassword: "taken-over-password" }],
       ["/api/auth/admin/impersonate-user", { userId: target.id }],
       ["/api/auth/Admin/ban-user", { userId: target.id }],
@@ -289,13 +354,24 @@ describe("the club always keeps an admin, and every role change is recorded, by 
     const list = await call(authRoute.GET, "/api/auth/admin/list-users", { cookie: admin.cookie });
     expect(list.status).toBe(404);
     // A member's own profile route cannot carry a role either.
-    const selfPromote = await call(authRoute.POST, "/api/auth/update-user", { cookie: target.cookie, body: { role: "admin" } });
+    const selfPromote = await call(authRoute.POST, "/api/auth/update-user", {
+      cookie: target.cookie,
+      body: { role: "admin" },
+    });
     expect(selfPromote.status).toBeGreaterThanOrEqual(400);
     expect(selfPromote.status).toBeLessThan(500);
 
     const db = await getDb();
-    const rows = await db.select().from(schema.users).where(inArray(schema.users.id, [admin.id, target.id]));
-    expect(rows.map((r) => [r.id, r.role, r.banned ?? false]).sort()).toEqual([[admin.id, "admin", false], [target.id, "member", false]].sort());
+    const rows = await db
+      .select()
+      .from(schema.users)
+      .where(inArray(schema.users.id, [admin.id, target.id]));
+    expect(rows.map((r) => [r.id, r.role, r.banned ?? false]).sort()).toEqual(
+      [
+        [admin.id, "admin", false],
+        [target.id, "member", false],
+      ].sort(),
+    );
     expect(await db.select().from(schema.users).where(eq(schema.users.email, "made@example.org"))).toEqual([]);
     expect((await signIn(target.email, PASSWORD)).status).toBe(200);
     const admins = await db.select().from(schema.users).where(eq(schema.users.role, "admin"));

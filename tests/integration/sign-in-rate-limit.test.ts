@@ -66,7 +66,10 @@ describe("sign-in rate limit per client address", () => {
     process.env.TANKLORE_PEER_HEADER = "on";
     const statuses: number[] = [];
     for (let i = 0; i < 11; i++) {
-      statuses.push((await wrongSignIn({ "x-tanklore-peer-address": "198.51.100.20", "x-forwarded-for": `192.0.2.${100 + i}` })).status);
+      statuses.push(
+        (await wrongSignIn({ "x-tanklore-peer-address": "198.51.100.20", "x-forwarded-for": `192.0.2.${100 + i}` }))
+          .status,
+      );
     }
     expect(statuses).toEqual([...Array(10).fill(401), 429]);
     // A different socket address has its own bucket.

@@ -1,7 +1,15 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { uncmin } from "numeric";
-import { chiSquare1Quantile, fitDoseResponse, isFitted, profileCutoff, profileDeviance, type DoseResponseFit, type Trial } from "@/features/evidence";
+import {
+  chiSquare1Quantile,
+  fitDoseResponse,
+  isFitted,
+  profileCutoff,
+  profileDeviance,
+  type DoseResponseFit,
+  type Trial,
+} from "@/features/evidence";
 import { generatedReports } from "../support/dose-data";
 
 const fitted = (d: ReturnType<typeof fitDoseResponse>): DoseResponseFit => {
@@ -108,17 +116,22 @@ describe("generated reports from a known curve, fitted again by a general-purpos
       const hab = (f(h, h) - f(h, -h) - f(-h, h) + f(-h, -h)) / (4 * h * h);
       return [haa, hab, hbb];
     };
-    const h1 = hess(2e-3), h2 = hess(1e-3);
+    const h1 = hess(2e-3),
+      h2 = hess(1e-3);
     const [haa, hab, hbb] = h2.map((v, i) => (4 * v - h1[i]!) / 3) as [number, number, number];
     const det = haa * hbb - hab * hab;
     // Covariance = inverse of the observed information (minus the Hessian).
-    const varA = -hbb / det, varB = -haa / det, cov = hab / det;
+    const varA = -hbb / det,
+      varB = -haa / det,
+      cov = hab / det;
     expect(rel(app.seA, Math.sqrt(varA))).toBeLessThan(1e-6);
     expect(rel(app.seB, Math.sqrt(varB))).toBeLessThan(1e-6);
     expect(rel(app.covAB, cov)).toBeLessThan(1e-6);
     // Each curve point's Wald band, recomputed from this covariance (z for 95 %: 1.959963985, NIST handbook).
     for (const pt of [app.curve[0]!, app.curve[24]!, app.curve[49]!]) {
-      const x = Math.log10(pt.dose), eta = a + b * x, se = Math.sqrt(varA + 2 * x * cov + x * x * varB);
+      const x = Math.log10(pt.dose),
+        eta = a + b * x,
+        se = Math.sqrt(varA + 2 * x * cov + x * x * varB);
       const ex = (t: number) => 1 / (1 + Math.exp(-t));
       expect(rel(pt.risk, ex(eta))).toBeLessThan(1e-6);
       expect(rel(pt.low, ex(eta - 1.959963985 * se))).toBeLessThan(1e-6);
@@ -182,7 +195,13 @@ describe("cases where the model cannot be estimated answer fit null with a reaso
   };
 
   it("three reports", () => {
-    expect(reasonOf([{ dose: 10, n: 1, adverse: 0 }, { dose: 20, n: 1, adverse: 1 }, { dose: 30, n: 1, adverse: 0 }])).toMatch(/Only 3 reports.*at least 10/);
+    expect(
+      reasonOf([
+        { dose: 10, n: 1, adverse: 0 },
+        { dose: 20, n: 1, adverse: 1 },
+        { dose: 30, n: 1, adverse: 0 },
+      ]),
+    ).toMatch(/Only 3 reports.*at least 10/);
   });
 
   it("no reports at all", () => {
@@ -190,57 +209,109 @@ describe("cases where the model cannot be estimated answer fit null with a reaso
   });
 
   it("fewer than 2 that went badly", () => {
-    expect(reasonOf([{ dose: 10, n: 5, adverse: 0 }, { dose: 20, n: 5, adverse: 1 }, { dose: 30, n: 5, adverse: 0 }])).toMatch(/Only 1 of 15 reports went badly/);
+    expect(
+      reasonOf([
+        { dose: 10, n: 5, adverse: 0 },
+        { dose: 20, n: 5, adverse: 1 },
+        { dose: 30, n: 5, adverse: 0 },
+      ]),
+    ).toMatch(/Only 1 of 15 reports went badly/);
   });
 
   it("fewer than 3 distinct doses", () => {
-    expect(reasonOf([{ dose: 10, n: 10, adverse: 2 }, { dose: 40, n: 10, adverse: 6 }])).toMatch(/only 2 distinct doses/);
+    expect(
+      reasonOf([
+        { dose: 10, n: 10, adverse: 2 },
+        { dose: 40, n: 10, adverse: 6 },
+      ]),
+    ).toMatch(/only 2 distinct doses/);
   });
 
   it("complete separation: every course above a dose went badly, every one below it went well", () => {
-    expect(reasonOf([{ dose: 10, n: 4, adverse: 0 }, { dose: 20, n: 4, adverse: 0 }, { dose: 40, n: 4, adverse: 4 }, { dose: 80, n: 4, adverse: 4 }])).toMatch(/split cleanly by dose/);
+    expect(
+      reasonOf([
+        { dose: 10, n: 4, adverse: 0 },
+        { dose: 20, n: 4, adverse: 0 },
+        { dose: 40, n: 4, adverse: 4 },
+        { dose: 80, n: 4, adverse: 4 },
+      ]),
+    ).toMatch(/split cleanly by dose/);
   });
 
   it("quasi-complete separation: outcomes mixed only at the dividing dose", () => {
-    expect(reasonOf([{ dose: 10, n: 4, adverse: 0 }, { dose: 20, n: 4, adverse: 0 }, { dose: 40, n: 4, adverse: 2 }, { dose: 80, n: 4, adverse: 4 }])).toMatch(/split cleanly by dose/);
+    expect(
+      reasonOf([
+        { dose: 10, n: 4, adverse: 0 },
+        { dose: 20, n: 4, adverse: 0 },
+        { dose: 40, n: 4, adverse: 2 },
+        { dose: 80, n: 4, adverse: 4 },
+      ]),
+    ).toMatch(/split cleanly by dose/);
   });
 
   it("risk falling with dose (b ≤ 0)", () => {
-    expect(reasonOf([{ dose: 10, n: 6, adverse: 3 }, { dose: 20, n: 6, adverse: 2 }, { dose: 40, n: 6, adverse: 2 }, { dose: 80, n: 6, adverse: 1 }])).toMatch(/does not rise with dose/);
+    expect(
+      reasonOf([
+        { dose: 10, n: 6, adverse: 3 },
+        { dose: 20, n: 6, adverse: 2 },
+        { dose: 40, n: 6, adverse: 2 },
+        { dose: 80, n: 6, adverse: 1 },
+      ]),
+    ).toMatch(/does not rise with dose/);
     // Fully reversed: badly at low doses only.
-    expect(reasonOf([{ dose: 10, n: 5, adverse: 5 }, { dose: 20, n: 5, adverse: 0 }, { dose: 40, n: 5, adverse: 0 }])).toMatch(/does not rise with dose/);
+    expect(
+      reasonOf([
+        { dose: 10, n: 5, adverse: 5 },
+        { dose: 20, n: 5, adverse: 0 },
+        { dose: 40, n: 5, adverse: 0 },
+      ]),
+    ).toMatch(/does not rise with dose/);
   });
 
   it("a slope too weak to bound the benchmark dose", () => {
-    expect(reasonOf([{ dose: 10, n: 6, adverse: 2 }, { dose: 20, n: 6, adverse: 2 }, { dose: 40, n: 6, adverse: 3 }])).toMatch(/clearly enough to bound/);
+    expect(
+      reasonOf([
+        { dose: 10, n: 6, adverse: 2 },
+        { dose: 20, n: 6, adverse: 2 },
+        { dose: 40, n: 6, adverse: 3 },
+      ]),
+    ).toMatch(/clearly enough to bound/);
   });
 });
 
 describe("any set of reports", () => {
   it("gives either a proper fit or a reason, never a curve from separated data", () => {
     let fits = 0;
-    const trial = fc.record({ dose: fc.integer({ min: 1, max: 200 }), n: fc.integer({ min: 1, max: 8 }), adverse: fc.integer({ min: 0, max: 8 }) });
+    const trial = fc.record({
+      dose: fc.integer({ min: 1, max: 200 }),
+      n: fc.integer({ min: 1, max: 8 }),
+      adverse: fc.integer({ min: 0, max: 8 }),
+    });
     fc.assert(
-      fc.property(fc.array(trial, { minLength: 0, maxLength: 25, size: "max" }), fc.constantFrom(80, 90, 95, 99), (raw, level) => {
-        const trials = raw.map((t) => ({ ...t, adverse: Math.min(t.adverse, t.n) }));
-        const d = fitDoseResponse(trials, level);
-        if (!isFitted(d)) {
-          expect(d.reason.length).toBeGreaterThan(10);
-          return;
-        }
-        // A fit only where the outcomes overlap in dose: some adverse dose below some tolerated dose.
-        const adverseDoses = trials.filter((t) => t.adverse > 0).map((t) => t.dose);
-        const toleratedDoses = trials.filter((t) => t.n > t.adverse).map((t) => t.dose);
-        expect(Math.min(...adverseDoses)).toBeLessThan(Math.max(...toleratedDoses));
-        expect(Math.max(...adverseDoses)).toBeGreaterThan(Math.min(...toleratedDoses));
-        fits++;
-        expect(d.b).toBeGreaterThan(0);
-        expect(d.bmdl).toBeLessThan(d.bmd);
-        expect(d.bmd).toBeLessThan(d.bmdu);
-        expect(Math.abs(profileDeviance(trials, d, d.bmdl) - profileCutoff(level))).toBeLessThan(1e-6);
-        expect(Math.abs(profileDeviance(trials, d, d.bmdu) - profileCutoff(level))).toBeLessThan(1e-6);
-        for (const p of d.curve) expect(p.low <= p.risk && p.risk <= p.high).toBe(true);
-      }),
+      fc.property(
+        fc.array(trial, { minLength: 0, maxLength: 25, size: "max" }),
+        fc.constantFrom(80, 90, 95, 99),
+        (raw, level) => {
+          const trials = raw.map((t) => ({ ...t, adverse: Math.min(t.adverse, t.n) }));
+          const d = fitDoseResponse(trials, level);
+          if (!isFitted(d)) {
+            expect(d.reason.length).toBeGreaterThan(10);
+            return;
+          }
+          // A fit only where the outcomes overlap in dose: some adverse dose below some tolerated dose.
+          const adverseDoses = trials.filter((t) => t.adverse > 0).map((t) => t.dose);
+          const toleratedDoses = trials.filter((t) => t.n > t.adverse).map((t) => t.dose);
+          expect(Math.min(...adverseDoses)).toBeLessThan(Math.max(...toleratedDoses));
+          expect(Math.max(...adverseDoses)).toBeGreaterThan(Math.min(...toleratedDoses));
+          fits++;
+          expect(d.b).toBeGreaterThan(0);
+          expect(d.bmdl).toBeLessThan(d.bmd);
+          expect(d.bmd).toBeLessThan(d.bmdu);
+          expect(Math.abs(profileDeviance(trials, d, d.bmdl) - profileCutoff(level))).toBeLessThan(1e-6);
+          expect(Math.abs(profileDeviance(trials, d, d.bmdu) - profileCutoff(level))).toBeLessThan(1e-6);
+          for (const p of d.curve) expect(p.low <= p.risk && p.risk <= p.high).toBe(true);
+        },
+      ),
       { numRuns: 300, seed: 20261202 },
     );
     // Enough of the random sets are fitted for the checks above to mean something.

@@ -17,16 +17,23 @@ describe("normal quantiles for the confidence levels", () => {
   it("are better than simple-statistics' probit, which approximates to about two decimals", () => {
     // simple-statistics (a general-purpose library from the registry) returns 1.6434 for p = 0.95 and 2.5692 for p = 0.995 where the
     // table gives 1.6449 and 2.5758: close, but not the 6 significant digits statistics.md asks for, so it is not used.
-    const table: [number, number][] = [[0.9, 1.281551566], [0.95, 1.644853627], [0.975, 1.959963985], [0.995, 2.575829304]];
+    const table: [number, number][] = [
+      [0.9, 1.281551566],
+      [0.95, 1.644853627],
+      [0.975, 1.959963985],
+      [0.995, 2.575829304],
+    ];
     for (const [p, z] of table) {
       expect(Math.abs(probit(p) - z)).toBeLessThan(1e-2);
       expect(Math.abs(zFor(200 * p - 100) - z)).toBeLessThan(1e-9);
     }
     // Φ(1.96) = 0.9750021 (A&S Table 26.1), and Φ(Φ⁻¹(p)) = p throughout.
     expect(normalCdf(1.96)).toBeCloseTo(0.9750021, 7);
-    fc.assert(fc.property(fc.double({ min: 0.5, max: 0.9999, noNaN: true }), (p) => {
-      expect(normalCdf(zFor(200 * p - 100))).toBeCloseTo(p, 10);
-    }));
+    fc.assert(
+      fc.property(fc.double({ min: 0.5, max: 0.9999, noNaN: true }), (p) => {
+        expect(normalCdf(zFor(200 * p - 100))).toBeCloseTo(p, 10);
+      }),
+    );
   });
 });
 
@@ -75,7 +82,15 @@ describe("distribution-free interval for the median", () => {
     // Campbell MJ, Gardner MJ (1988), "Calculating confidence intervals for some non-parametric analyses",
     // BMJ 296:1454–1456, Table 1 (95 %): ranks r and n−r+1 with exact confidence; values from memory of the table.
     const table: [number, number, number][] = [
-      [6, 1, 96.9], [7, 1, 98.4], [8, 1, 99.2], [9, 2, 96.1], [10, 2, 97.9], [15, 4, 96.5], [20, 6, 95.9], [25, 8, 95.7], [30, 10, 95.7],
+      [6, 1, 96.9],
+      [7, 1, 98.4],
+      [8, 1, 99.2],
+      [9, 2, 96.1],
+      [10, 2, 97.9],
+      [15, 4, 96.5],
+      [20, 6, 95.9],
+      [25, 8, 95.7],
+      [30, 10, 95.7],
     ];
     for (const [n, r, cov] of table) {
       const got = medianRank(n, 95)!;
@@ -89,7 +104,8 @@ describe("distribution-free interval for the median", () => {
   it("gives exact coverage from the binomial sum for large n (checked by an independent exact sum)", () => {
     // Independent check: exact binomial CDF with BigInt arithmetic.
     const cdf = (n: number, k: number) => {
-      let c = 1n, sum = 0n;
+      let c = 1n,
+        sum = 0n;
       for (let i = 0; i <= k; i++) {
         sum += c;
         c = (c * BigInt(n - i)) / BigInt(i + 1);
@@ -126,18 +142,21 @@ describe("quantiles", () => {
     const pg = await PGlite.create();
     try {
       await fc.assert(
-        fc.asyncProperty(fc.array(fc.double({ min: 0, max: 500, noNaN: true }), { minLength: 1, maxLength: 40 }), async (xs) => {
-          const sorted = [...xs].sort((a, b) => a - b);
-          const res = await pg.query<{ q: number[] }>(
-            "select percentile_cont(array[0, 0.1, 0.25, 0.5, 0.75, 0.9, 1]::float8[]) within group (order by x) as q from unnest($1::float8[]) as t(x)",
-            [xs],
-          );
-          const q = res.rows[0]!.q;
-          [0, 0.1, 0.25, 0.5, 0.75, 0.9, 1].forEach((p, i) => {
-            expect(quantileType7(sorted, p)).toBeCloseTo(q[i]!, 9);
-            expect(hyndmanFan7(xs, p)).toBeCloseTo(q[i]!, 9);
-          });
-        }),
+        fc.asyncProperty(
+          fc.array(fc.double({ min: 0, max: 500, noNaN: true }), { minLength: 1, maxLength: 40 }),
+          async (xs) => {
+            const sorted = [...xs].sort((a, b) => a - b);
+            const res = await pg.query<{ q: number[] }>(
+              "select percentile_cont(array[0, 0.1, 0.25, 0.5, 0.75, 0.9, 1]::float8[]) within group (order by x) as q from unnest($1::float8[]) as t(x)",
+              [xs],
+            );
+            const q = res.rows[0]!.q;
+            [0, 0.1, 0.25, 0.5, 0.75, 0.9, 1].forEach((p, i) => {
+              expect(quantileType7(sorted, p)).toBeCloseTo(q[i]!, 9);
+              expect(hyndmanFan7(xs, p)).toBeCloseTo(q[i]!, 9);
+            });
+          },
+        ),
         { numRuns: 60 },
       );
     } finally {

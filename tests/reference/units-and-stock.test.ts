@@ -1,8 +1,18 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import {
-  CM_PER_INCH, LITRES_PER_IMPERIAL_GALLON, LITRES_PER_US_GALLON, celsiusFromFahrenheit, concentrationFromMl, doseMlForTarget,
-  fahrenheitFromCelsius, litresFromDimensions, planDose, readStrength, stockMgPerMl, toLitres,
+  CM_PER_INCH,
+  LITRES_PER_IMPERIAL_GALLON,
+  LITRES_PER_US_GALLON,
+  celsiusFromFahrenheit,
+  concentrationFromMl,
+  doseMlForTarget,
+  fahrenheitFromCelsius,
+  litresFromDimensions,
+  planDose,
+  readStrength,
+  stockMgPerMl,
+  toLitres,
 } from "@/features/dosing";
 import { COPPER_IN_PENTAHYDRATE, starterAgents } from "@/features/catalogue/starter-data";
 
@@ -79,7 +89,11 @@ describe("stock strengths", () => {
     // IUPAC/CIAAW standard atomic weights (abridged, 2021): Cu 63.546, S 32.06, O 15.999, H 1.008 →
     // M(CuSO₄·5H₂O) = 63.546 + 32.06 + 9 × 15.999 + 10 × 1.008 = 249.677 g/mol; Cu share 63.546 / 249.677 = 0.254513.
     // Named as the pentahydrate: 10 mg/mL of the salt is 2.54513 mg/mL of Cu²⁺, so 20 mg of Cu²⁺ takes 20 / 2.54513 = 7.858 mL.
-    const asSalt = readStrength({ percent: 1, basis: "w/v", preset: { ...sulfate, activeFraction: sulfate.activeFraction!, compound: sulfate.compound ?? null } });
+    const asSalt = readStrength({
+      percent: 1,
+      basis: "w/v",
+      preset: { ...sulfate, activeFraction: sulfate.activeFraction!, compound: sulfate.compound ?? null },
+    });
     expect(asSalt).toMatchObject({ of: "compound", presetId: "cu-sulfate-1" });
     expect(asSalt.activeFraction).toBeCloseTo(0.254513, 6);
     expect(asSalt.mgPerMl).toBeCloseTo(2.54513, 5);
@@ -92,8 +106,11 @@ describe("the pharmacopoeia's range for 3 % hydrogen peroxide", () => {
     // USP monograph "Hydrogen Peroxide Topical Solution": not less than 2.5 g and not more than 3.5 g H₂O₂
     // per 100 mL (value from memory of the monograph).
     const plan = planDose({
-      agentSlug: "hydrogen-peroxide", unit: "mg/L", stock: { percent: 3, basis: "w/v" },
-      water: { kind: "volume", volume: 100, unit: "L" }, target: 30,
+      agentSlug: "hydrogen-peroxide",
+      unit: "mg/L",
+      stock: { percent: 3, basis: "w/v" },
+      water: { kind: "volume", volume: 100, unit: "L" },
+      target: 30,
     });
     expect(plan.strengthRange).toMatchObject({ lowPercent: 2.5, highPercent: 3.5 });
     expect(plan.strengthRange!.concentrationLow).toBeCloseTo(25, 10);
@@ -131,10 +148,20 @@ describe("round trips (property tests)", () => {
 
   it("every volume unit converts to litres and back", () => {
     fc.assert(
-      fc.property(fc.double({ min: 0.001, max: 1e6, noNaN: true }), fc.constantFrom("L" as const, "mL" as const, "gal_us" as const, "gal_imp" as const), (v, unit) => {
-        const plan = planDose({ agentSlug: "x", unit: "mg/L", stock: { percent: 3, basis: "w/v" }, water: { kind: "volume", volume: v, unit }, addedMl: 1 });
-        expect(plan.volumeL / toLitres(1, unit)).toBeCloseTo(v, 6);
-      }),
+      fc.property(
+        fc.double({ min: 0.001, max: 1e6, noNaN: true }),
+        fc.constantFrom("L" as const, "mL" as const, "gal_us" as const, "gal_imp" as const),
+        (v, unit) => {
+          const plan = planDose({
+            agentSlug: "x",
+            unit: "mg/L",
+            stock: { percent: 3, basis: "w/v" },
+            water: { kind: "volume", volume: v, unit },
+            addedMl: 1,
+          });
+          expect(plan.volumeL / toLitres(1, unit)).toBeCloseTo(v, 6);
+        },
+      ),
     );
   });
 });

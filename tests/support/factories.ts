@@ -17,7 +17,13 @@ export async function signedInUser(role: Role = "member", name?: string) {
   const id = `test-${role}-${n}-${Math.random().toString(36).slice(2, 8)}`;
   const email = `${id}@example.org`;
   await db.insert(schema.users).values({ id, name: name ?? `Test ${role} ${n}`, email, emailVerified: true, role });
-  await db.insert(schema.accounts).values({ id: `acct-${id}`, accountId: id, providerId: "credential", userId: id, password: await hashPassword(PASSWORD) });
+  await db.insert(schema.accounts).values({
+    id: `acct-${id}`,
+    accountId: id,
+    providerId: "credential",
+    userId: id,
+    password: await hashPassword(PASSWORD),
+  });
   const cookie = await signIn(email, PASSWORD);
   return { id, email, cookie, name: name ?? `Test ${role} ${n}` };
 }
@@ -32,13 +38,20 @@ export async function signIn(email: string, password: string): Promise<string> {
 export function mailTo(to: string): string[] {
   const dir = mailDir();
   if (!fs.existsSync(dir)) return [];
-  return fs
-    .readdirSync(dir)
-    .filter((f) => f.endsWith(".eml"))
-    .sort()
-    // Undo quoted-printable soft line breaks so a test can match whole sentences.
-    .map((f) => fs.readFileSync(path.join(dir, f), "utf8").replace(/=\r?\n/g, "").replace(/=3D/g, "="))
-    .filter((m) => new RegExp(`^To: .*${to.replace(/[.+]/g, "\\$&")}`, "mi").test(m));
+  return (
+    fs
+      .readdirSync(dir)
+      .filter((f) => f.endsWith(".eml"))
+      .sort()
+      // Undo quoted-printable soft line breaks so a test can match whole sentences.
+      .map((f) =>
+        fs
+          .readFileSync(path.join(dir, f), "utf8")
+          .replace(/=\r?\n/g, "")
+          .replace(/=3D/g, "="),
+      )
+      .filter((m) => new RegExp(`^To: .*${to.replace(/[.+]/g, "\\$&")}`, "mi").test(m))
+  );
 }
 
 /** The first http link in a message, with quoted-printable soft breaks undone. */
@@ -60,13 +73,30 @@ export function reportBody(over: Record<string, any> = {}): Record<string, any> 
     conditionSlug: "white-spot",
     startedOn: "2026-11-02",
     water: { volume: 40, volumeUnit: "L", temperature: 25, temperatureUnit: "C", ph: 7.0, setting: "bare" },
-    treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, stockBasis: "w/v", amountMl: 40, doses: 3, intervalHours: 48 },
-    outcome: { fishLost: 0, lossCause: null, distress: "mild", condition: "cleared", observedDaysAfter: 7, notes: "Test report." },
+    treatment: {
+      agentSlug: "hydrogen-peroxide",
+      stockPercent: 3,
+      stockBasis: "w/v",
+      amountMl: 40,
+      doses: 3,
+      intervalHours: 48,
+    },
+    outcome: {
+      fishLost: 0,
+      lossCause: null,
+      distress: "mild",
+      condition: "cleared",
+      observedDaysAfter: 7,
+      notes: "Test report.",
+    },
     showName: false,
   };
   const out: Record<string, any> = { ...base };
   for (const [k, v] of Object.entries(over)) {
-    out[k] = v && typeof v === "object" && !Array.isArray(v) && base[k] && typeof base[k] === "object" ? { ...base[k], ...v } : v;
+    out[k] =
+      v && typeof v === "object" && !Array.isArray(v) && base[k] && typeof base[k] === "object"
+        ? { ...base[k], ...v }
+        : v;
   }
   return out;
 }

@@ -14,12 +14,21 @@ export interface CallOptions {
 }
 
 // The body is parsed JSON of every response shape in api.md, read by the assertions of each test.
-// eslint-disable-next-line @typescript-eslint/no-explicit-any -- parsed JSON of any endpoint
-export async function call(handler: Handler, path: string, opts: CallOptions = {}): Promise<{ status: number; body: any; res: Response }> {
+export async function call(
+  handler: Handler,
+  path: string,
+  opts: CallOptions = {},
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- parsed JSON of any endpoint
+): Promise<{ status: number; body: any; res: Response }> {
   const headers: Record<string, string> = { ...opts.headers };
   if (opts.cookie) headers.cookie = opts.cookie;
   // As a browser would: a state-changing request from our own pages names our origin (route() checks it).
-  if (opts.cookie && !["GET", "HEAD"].includes(opts.method ?? (opts.body !== undefined ? "POST" : "GET")) && !("origin" in headers)) headers.origin = BASE;
+  if (
+    opts.cookie &&
+    !["GET", "HEAD"].includes(opts.method ?? (opts.body !== undefined ? "POST" : "GET")) &&
+    !("origin" in headers)
+  )
+    headers.origin = BASE;
   let body: BodyInit | undefined;
   if (opts.body !== undefined) {
     headers["content-type"] ??= "application/json";

@@ -8,5 +8,11 @@ declare module "numeric" {
     message: string;
   }
   /** Unconstrained minimisation (quasi-Newton, BFGS); the gradient is taken numerically when not given. */
-  export function uncmin(f: (x: number[]) => number, x0: number[], tol?: number, gradient?: (x: number[]) => number[], maxit?: number): UncminResult;
+  export function uncmin(
+    f: (x: number[]) => number,
+    x0: number[],
+    tol?: number,
+    gradient?: (x: number[]) => number[],
+    maxit?: number,
+  ): UncminResult;
 }

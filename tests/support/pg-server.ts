@@ -9,7 +9,6 @@ export function hasPostgresServer(): boolean {
   return spawnSync("initdb", ["--version"]).status === 0 && spawnSync("pg_ctl", ["--version"]).status === 0;
 }
 
-
 /**
  * A throwaway PostgreSQL server in a temp directory on a free loopback port. initdb and postgres
  * refuse to run as root, so as root they run as the `postgres` user on a directory it owns.
@@ -19,7 +18,9 @@ export async function startPostgres(): Promise<{ url: string; stop: () => void }
   const asRoot = process.getuid?.() === 0;
   if (asRoot) execFileSync("chown", ["postgres:postgres", dir]);
   const run = (cmd: string, args: string[]) =>
-    asRoot ? execFileSync("runuser", ["-u", "postgres", "--", cmd, ...args], { stdio: "pipe" }) : execFileSync(cmd, args, { stdio: "pipe" });
+    asRoot
+      ? execFileSync("runuser", ["-u", "postgres", "--", cmd, ...args], { stdio: "pipe" })
+      : execFileSync(cmd, args, { stdio: "pipe" });
   const data = path.join(dir, "data");
   run("initdb", ["-D", data, "-A", "trust", "-U", "tanklore", "--no-sync"]);
   const port = await freePort();

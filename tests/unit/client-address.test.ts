@@ -15,7 +15,9 @@ describe("client address from the trusted-proxy setting", () => {
   it("ignores X-Forwarded-For with no trusted proxies and uses the stamped socket address", () => {
     expect(clientAddress(h({ "x-forwarded-for": "192.0.2.1" }))).toBeNull();
     process.env.TANKLORE_PEER_HEADER = "on";
-    expect(clientAddress(h({ "x-forwarded-for": "192.0.2.1", [PEER_ADDRESS_HEADER]: "198.51.100.4" }))).toBe("198.51.100.4");
+    expect(clientAddress(h({ "x-forwarded-for": "192.0.2.1", [PEER_ADDRESS_HEADER]: "198.51.100.4" }))).toBe(
+      "198.51.100.4",
+    );
     expect(clientAddress(h({ [PEER_ADDRESS_HEADER]: "::ffff:198.51.100.4" }))).toBe("198.51.100.4");
     expect(clientAddress(h({ [PEER_ADDRESS_HEADER]: "not-an-address" }))).toBeNull();
   });
@@ -38,7 +40,12 @@ describe("the server's peer stamp", () => {
     expect(SERVER_HEADER).toBe(PEER_ADDRESS_HEADER);
     const server = http.createServer((req, res) => {
       stampPeerAddress(req);
-      res.end(JSON.stringify({ header: req.headers[SERVER_HEADER], raw: req.rawHeaders.filter((x) => x.toLowerCase() === SERVER_HEADER).length }));
+      res.end(
+        JSON.stringify({
+          header: req.headers[SERVER_HEADER],
+          raw: req.rawHeaders.filter((x) => x.toLowerCase() === SERVER_HEADER).length,
+        }),
+      );
     });
     await new Promise<void>((r) => server.listen(0, "127.0.0.1", () => r()));
     try {

@@ -9,8 +9,36 @@ const read = (csv: string) => Papa.parse<string[]>(csv).data;
 
 describe("spreadsheet-safe CSV cells", () => {
   it("prefixes text cells that a spreadsheet would run, and leaves numbers and other text alone", () => {
-    const csv = write([["=HYPERLINK(\"http://example.org\")", "+1", "-cmd", "@SUM(A1)", "\tx", "\r=1", -4, 2.5, true, "plain", "'quoted", "a=b"]]);
-    expect(read(csv)[0]).toEqual(["'=HYPERLINK(\"http://example.org\")", "'+1", "'-cmd", "'@SUM(A1)", "'\tx", "'\r=1", "-4", "2.5", "true", "plain", "'quoted", "a=b"]);
+    const csv = write([
+      [
+        '=HYPERLINK("http://example.org")',
+        "+1",
+        "-cmd",
+        "@SUM(A1)",
+        "\tx",
+        "\r=1",
+        -4,
+        2.5,
+        true,
+        "plain",
+        "'quoted",
+        "a=b",
+      ],
+    ]);
+    expect(read(csv)[0]).toEqual([
+      '\'=HYPERLINK("http://example.org")',
+      "'+1",
+      "'-cmd",
+      "'@SUM(A1)",
+      "'\tx",
+      "'\r=1",
+      "-4",
+      "2.5",
+      "true",
+      "plain",
+      "'quoted",
+      "a=b",
+    ]);
   });
 
   it("neutralises a formula that continues on a second line (papaparse's default pattern does not)", () => {
@@ -19,7 +47,17 @@ describe("spreadsheet-safe CSV cells", () => {
   });
 
   it("undoes exactly what it did, so every text round-trips", () => {
-    for (const text of ["=1+1", "'=already typed with an apostrophe", "''=two", "'plain apostrophe", "-3 fish lost", "plain", "", "@", "+"]) {
+    for (const text of [
+      "=1+1",
+      "'=already typed with an apostrophe",
+      "''=two",
+      "'plain apostrophe",
+      "-3 fish lost",
+      "plain",
+      "",
+      "@",
+      "+",
+    ]) {
       expect(unneutralise(read(write([[text, "x"]]))[0]![0]!)).toBe(text);
     }
   });

@@ -1,5 +1,13 @@
 import { describe, expect, it } from "vitest";
-import { concentrationFromGrams, courseSchedule, doseQuerySchema, gramsForTarget, planDose, planDrySalt, weighable } from "@/features/dosing";
+import {
+  concentrationFromGrams,
+  courseSchedule,
+  doseQuerySchema,
+  gramsForTarget,
+  planDose,
+  planDrySalt,
+  weighable,
+} from "@/features/dosing";
 
 const tank40 = { kind: "volume" as const, volume: 40, unit: "L" as const };
 
@@ -10,7 +18,13 @@ describe("salt weighed dry, in grams", () => {
     const dry = planDrySalt({ agentSlug: "salt", unit: "g/L", water: tank40, target: 3 });
     expect(dry.doseGrams).toBeCloseTo(120, 10);
     expect(dry.concentration).toBe(3);
-    const brine = planDose({ agentSlug: "salt", unit: "g/L", stock: { percent: 10, basis: "w/v" }, water: tank40, target: 3 });
+    const brine = planDose({
+      agentSlug: "salt",
+      unit: "g/L",
+      stock: { percent: 10, basis: "w/v" },
+      water: tank40,
+      target: 3,
+    });
     expect(brine.doseMl).toBeCloseTo(1200, 10);
     expect(brine.activeGrams).toBeCloseTo(dry.doseGrams, 10);
   });
@@ -24,7 +38,12 @@ describe("salt weighed dry, in grams", () => {
 
   it("works through US gallons: 1 g/L in 10 US gal is about 37.85 g", () => {
     // 1 US gallon = 231 in³ = 3.785411784 L exactly (NIST Handbook 44, Appendix C).
-    const p = planDrySalt({ agentSlug: "salt", unit: "g/L", water: { kind: "volume", volume: 10, unit: "gal_us" }, target: 1 });
+    const p = planDrySalt({
+      agentSlug: "salt",
+      unit: "g/L",
+      water: { kind: "volume", volume: 10, unit: "gal_us" },
+      target: 1,
+    });
     expect(p.volumeL).toBeCloseTo(37.85411784, 9);
     expect(p.doseGrams).toBeCloseTo(37.85411784, 9);
   });
@@ -47,9 +66,13 @@ describe("salt weighed dry, in grams", () => {
   });
 
   it("refuses a target and grams together, neither, and a bad fraction, naming the field", () => {
-    expect(() => planDrySalt({ agentSlug: "salt", unit: "g/L", water: tank40, target: 3, addedGrams: 5 })).toThrow(/not both/);
+    expect(() => planDrySalt({ agentSlug: "salt", unit: "g/L", water: tank40, target: 3, addedGrams: 5 })).toThrow(
+      /not both/,
+    );
     expect(() => planDrySalt({ agentSlug: "salt", unit: "g/L", water: tank40 })).toThrow(/either/);
-    expect(() => planDrySalt({ agentSlug: "salt", unit: "g/L", water: tank40, target: 3, fraction: 0 })).toThrow(/fraction/);
+    expect(() => planDrySalt({ agentSlug: "salt", unit: "g/L", water: tank40, target: 3, fraction: 0 })).toThrow(
+      /fraction/,
+    );
   });
 
   it("schedules grams, not mL, on each dose of the course", () => {
@@ -73,10 +96,16 @@ describe("the dose query with form=dry", () => {
     expect(issues({ ...ok, target: "", addedGrams: "50" }).length).toBeGreaterThan(0);
     const { target: _t, ...noTarget } = ok;
     expect(issues({ ...noTarget, addedGrams: "50" })).toEqual([]);
-    expect(issues({ ...ok, stockPercent: "10" })).toEqual(["stockPercent: Dry salt has no stock strength: leave stockPercent out with form=dry."]);
-    expect(issues({ ...noTarget, addedMl: "5" })).toEqual(["addedMl: Dry salt is weighed: give addedGrams instead of addedMl with form=dry."]);
+    expect(issues({ ...ok, stockPercent: "10" })).toEqual([
+      "stockPercent: Dry salt has no stock strength: leave stockPercent out with form=dry.",
+    ]);
+    expect(issues({ ...noTarget, addedMl: "5" })).toEqual([
+      "addedMl: Dry salt is weighed: give addedGrams instead of addedMl with form=dry.",
+    ]);
     expect(issues({ ...ok, addedGrams: "5" })).toEqual(["addedGrams: Give either target or addedGrams, not both."]);
-    expect(issues({ agent: "salt", stockPercent: "10", volume: "40", volumeUnit: "L", addedGrams: "5" })[0]).toMatch(/^addedGrams: addedGrams is for dry salt/);
+    expect(issues({ agent: "salt", stockPercent: "10", volume: "40", volumeUnit: "L", addedGrams: "5" })[0]).toMatch(
+      /^addedGrams: addedGrams is for dry salt/,
+    );
     expect(issues({ ...ok, form: "powder" })[0]).toMatch(/^form:/);
   });
 });

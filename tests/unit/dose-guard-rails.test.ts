@@ -30,9 +30,19 @@ describe("dose guard rails", () => {
   });
 
   it("counts a dose exactly at the lowest adverse dose as at it, and one just below as not", () => {
-    const at = doseWarnings({ unit: "mg/L", ceiling: null, evidence: { ...tetras, toleratedDose: { median: 10, max: 30 } }, doses: [{ label: "the target", concentration: 19.2 }] });
+    const at = doseWarnings({
+      unit: "mg/L",
+      ceiling: null,
+      evidence: { ...tetras, toleratedDose: { median: 10, max: 30 } },
+      doses: [{ label: "the target", concentration: 19.2 }],
+    });
     expect(codes(at)).toEqual(["at_or_above_lowest_adverse"]);
-    const below = doseWarnings({ unit: "mg/L", ceiling: null, evidence: { ...tetras, toleratedDose: { median: 10, max: 30 } }, doses: [{ label: "the target", concentration: 19.19 }] });
+    const below = doseWarnings({
+      unit: "mg/L",
+      ceiling: null,
+      evidence: { ...tetras, toleratedDose: { median: 10, max: 30 } },
+      doses: [{ label: "the target", concentration: 19.19 }],
+    });
     expect(below).toEqual([]);
   });
 
@@ -41,38 +51,92 @@ describe("dose guard rails", () => {
     expect(w).toHaveLength(1);
     expect(w[0]!.code).toBe("above_ceiling");
     expect(w[0]!.message).toMatch(/250 mg\/L.*150 mg\/L/);
-    expect(doseWarnings({ unit: "mg/L", ceiling: 150, doses: [{ label: "the target", concentration: 150 }] })).toEqual([]);
+    expect(doseWarnings({ unit: "mg/L", ceiling: 150, doses: [{ label: "the target", concentration: 150 }] })).toEqual(
+      [],
+    );
   });
 
   it("warns above the highest dose the group has tolerated", () => {
-    const w = doseWarnings({ unit: "mg/L", ceiling: 150, evidence: { ...tetras, lowestAdverseDose: null }, doses: [{ label: "the target", concentration: 50 }] });
+    const w = doseWarnings({
+      unit: "mg/L",
+      ceiling: 150,
+      evidence: { ...tetras, lowestAdverseDose: null },
+      doses: [{ label: "the target", concentration: 50 }],
+    });
     expect(codes(w)).toEqual(["above_highest_tolerated"]);
   });
 
   it("warns above the BMDL once summaries carry a dose–response fit, and ignores a fit without one", () => {
     const fitted = { ...tetras, lowestAdverseDose: null, doseResponse: { bmdl: 20 } };
-    expect(codes(doseWarnings({ unit: "mg/L", ceiling: null, evidence: fitted, doses: [{ label: "the target", concentration: 21 }] }))).toEqual(["above_bmdl"]);
+    expect(
+      codes(
+        doseWarnings({
+          unit: "mg/L",
+          ceiling: null,
+          evidence: fitted,
+          doses: [{ label: "the target", concentration: 21 }],
+        }),
+      ),
+    ).toEqual(["above_bmdl"]);
     const unfitted = { ...tetras, lowestAdverseDose: null, doseResponse: { fit: null } as { bmdl?: number | null } };
-    expect(doseWarnings({ unit: "mg/L", ceiling: null, evidence: unfitted, doses: [{ label: "the target", concentration: 21 }] })).toEqual([]);
+    expect(
+      doseWarnings({
+        unit: "mg/L",
+        ceiling: null,
+        evidence: unfitted,
+        doses: [{ label: "the target", concentration: 21 }],
+      }),
+    ).toEqual([]);
   });
 
   it("says when the evidence is sparse, and when there is none", () => {
-    const sparse = doseWarnings({ unit: "mg/L", ceiling: null, evidence: { ...tetras, reports: 3, sparse: true, lowestAdverseDose: null }, doses: [{ label: "the target", concentration: 10 }] });
+    const sparse = doseWarnings({
+      unit: "mg/L",
+      ceiling: null,
+      evidence: { ...tetras, reports: 3, sparse: true, lowestAdverseDose: null },
+      doses: [{ label: "the target", concentration: 10 }],
+    });
     expect(codes(sparse)).toEqual(["sparse_evidence"]);
     expect(sparse[0]!.message).toContain("Only 3 accepted reports");
-    const none = doseWarnings({ unit: "mg/L", ceiling: null, evidence: { ...tetras, reports: 0, sparse: true, toleratedDose: { median: null, max: null }, lowestAdverseDose: null }, doses: [{ label: "the target", concentration: 10 }] });
+    const none = doseWarnings({
+      unit: "mg/L",
+      ceiling: null,
+      evidence: {
+        ...tetras,
+        reports: 0,
+        sparse: true,
+        toleratedDose: { median: null, max: null },
+        lowestAdverseDose: null,
+      },
+      doses: [{ label: "the target", concentration: 10 }],
+    });
     expect(codes(none)).toEqual(["no_evidence"]);
-    expect(codes(doseWarnings({ unit: "mg/L", ceiling: null, evidence: null, doses: [{ label: "the target", concentration: 10 }] }))).toEqual(["no_evidence"]);
+    expect(
+      codes(
+        doseWarnings({
+          unit: "mg/L",
+          ceiling: null,
+          evidence: null,
+          doses: [{ label: "the target", concentration: 10 }],
+        }),
+      ),
+    ).toEqual(["no_evidence"]);
   });
 
   it("gives no evidence warnings when no group was asked about", () => {
-    expect(doseWarnings({ unit: "mg/L", ceiling: 150, doses: [{ label: "the target", concentration: 25 }] })).toEqual([]);
+    expect(doseWarnings({ unit: "mg/L", ceiling: 150, doses: [{ label: "the target", concentration: 25 }] })).toEqual(
+      [],
+    );
   });
 });
 
 describe("a cautious first dose from the evidence", () => {
   it("offers half the median when that stays below the lowest adverse dose", () => {
-    expect(suggestFirstDose({ ...tetras, lowestAdverseDose: 30 })).toEqual({ fraction: 0.5, concentration: 12.55, limitedBy: "median" });
+    expect(suggestFirstDose({ ...tetras, lowestAdverseDose: 30 })).toEqual({
+      fraction: 0.5,
+      concentration: 12.55,
+      limitedBy: "median",
+    });
     expect(suggestFirstDose({ ...tetras, lowestAdverseDose: 30 }, 1 / 3)!.concentration).toBeCloseTo(25.1 / 3, 12);
   });
 
@@ -87,30 +151,60 @@ describe("a cautious first dose from the evidence", () => {
   });
 
   it("never offers one above the BMDL, and none without a tolerated median", () => {
-    expect(suggestFirstDose({ ...tetras, doseResponse: { bmdl: 8 } })).toMatchObject({ concentration: 8, limitedBy: "bmdl" });
+    expect(suggestFirstDose({ ...tetras, doseResponse: { bmdl: 8 } })).toMatchObject({
+      concentration: 8,
+      limitedBy: "bmdl",
+    });
     expect(suggestFirstDose({ ...tetras, toleratedDose: { median: null, max: null } })).toBeNull();
     expect(suggestFirstDose(null)).toBeNull();
   });
 });
 
 describe("reading a stock strength", () => {
-  const sulfate = { id: "cu-sulfate-1", percent: 1, basis: "w/v" as const, densityGPerMl: null, activeFraction: 0.254513, compound: "copper sulfate pentahydrate" };
+  const sulfate = {
+    id: "cu-sulfate-1",
+    percent: 1,
+    basis: "w/v" as const,
+    densityGPerMl: null,
+    activeFraction: 0.254513,
+    compound: "copper sulfate pentahydrate",
+  };
 
   it("reads a bare percentage as the agent's own measure, whatever presets share its number", () => {
     expect(readStrength({ percent: 1, basis: "w/v" })).toEqual({
-      percent: 1, basis: "w/v", densityGPerMl: null, of: "agent", compound: null, activeFraction: 1, presetId: null, mgPerMl: 10,
+      percent: 1,
+      basis: "w/v",
+      densityGPerMl: null,
+      of: "agent",
+      compound: null,
+      activeFraction: 1,
+      presetId: null,
+      mgPerMl: 10,
     });
   });
 
   it("applies a named preset's compound and fraction, taking its percentage when none is given", () => {
     const r = readStrength({ preset: sulfate });
-    expect(r).toMatchObject({ percent: 1, basis: "w/v", of: "compound", compound: "copper sulfate pentahydrate", presetId: "cu-sulfate-1" });
+    expect(r).toMatchObject({
+      percent: 1,
+      basis: "w/v",
+      of: "compound",
+      compound: "copper sulfate pentahydrate",
+      presetId: "cu-sulfate-1",
+    });
     expect(r.mgPerMl).toBeCloseTo(2.54513, 10);
     expect(readStrength({ percent: 2, preset: sulfate }).mgPerMl).toBeCloseTo(5.09026, 10);
   });
 
   it("takes a w/w preset's density, and asks for one without a preset", () => {
-    const h2o2 = { id: "h2o2-35", percent: 35, basis: "w/w" as const, densityGPerMl: 1.13, activeFraction: 1, compound: null };
+    const h2o2 = {
+      id: "h2o2-35",
+      percent: 35,
+      basis: "w/w" as const,
+      densityGPerMl: 1.13,
+      activeFraction: 1,
+      compound: null,
+    };
     const r = readStrength({ preset: h2o2 });
     expect(r).toMatchObject({ of: "agent", densityGPerMl: 1.13 });
     expect(r.mgPerMl).toBeCloseTo(395.5, 9);
@@ -121,7 +215,13 @@ describe("reading a stock strength", () => {
 
 describe("salt in grams as well as brine", () => {
   it("gives the dry salt for 3 g/L in 40 L as 120 g, beside the mL of 10 % brine", () => {
-    const plan = planDose({ agentSlug: "salt", unit: "g/L", stock: { percent: 10, basis: "w/v" }, water: { kind: "volume", volume: 40, unit: "L" }, target: 3 });
+    const plan = planDose({
+      agentSlug: "salt",
+      unit: "g/L",
+      stock: { percent: 10, basis: "w/v" },
+      water: { kind: "volume", volume: 40, unit: "L" },
+      target: 3,
+    });
     // 3 g/L × 40 L = 120 g; 10 % w/v brine holds 100 mg/mL, so 120 000 mg / 100 mg/mL = 1200 mL.
     expect(plan.activeGrams).toBeCloseTo(120, 10);
     expect(plan.doseMl).toBeCloseTo(1200, 10);

@@ -1,7 +1,12 @@
 import { describe, expect, it } from "vitest";
 import { doseQuerySchema, measurable, planDose, redoseChecklist } from "@/features/dosing";
 
-const base = { agentSlug: "hydrogen-peroxide", unit: "mg/L" as const, stock: { percent: 3, basis: "w/v" as const }, water: { kind: "volume" as const, volume: 40, unit: "L" as const } };
+const base = {
+  agentSlug: "hydrogen-peroxide",
+  unit: "mg/L" as const,
+  stock: { percent: 3, basis: "w/v" as const },
+  water: { kind: "volume" as const, volume: 40, unit: "L" as const },
+};
 
 describe("planning a dose", () => {
   it("gives mL for a target and a half first dose", () => {
@@ -27,7 +32,13 @@ describe("planning a dose", () => {
 
   it("works in g/L for salt", () => {
     // 3 g/L in 50 L = 150 g of salt = 1500 mL of 10 % w/v brine (100 mg/mL).
-    const p = planDose({ agentSlug: "salt", unit: "g/L", stock: { percent: 10, basis: "w/v" }, water: { kind: "volume", volume: 50, unit: "L" }, target: 3 });
+    const p = planDose({
+      agentSlug: "salt",
+      unit: "g/L",
+      stock: { percent: 10, basis: "w/v" },
+      water: { kind: "volume", volume: 50, unit: "L" },
+      target: 3,
+    });
     expect(p.doseMl).toBeCloseTo(1500, 9);
   });
 });
@@ -74,6 +85,8 @@ describe("the dose query schema", () => {
 
 describe("numbers past what a double holds", () => {
   it("refuses them with a message instead of answering Infinity", () => {
-    expect(() => planDose({ ...base, water: { kind: "volume", volume: 1e308, unit: "gal_imp" }, target: 1e308 })).toThrow(/too large or too small/);
+    expect(() =>
+      planDose({ ...base, water: { kind: "volume", volume: 1e308, unit: "gal_imp" }, target: 1e308 }),
+    ).toThrow(/too large or too small/);
   });
 });

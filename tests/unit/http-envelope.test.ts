@@ -14,7 +14,11 @@ describe("the error envelope", () => {
     const res = await post(JSON.stringify({ water: { volume: -3 } }));
     expect(res.status).toBe(422);
     expect(await res.json()).toEqual({
-      error: { code: "invalid", message: expect.stringMatching(/fields need fixing/), issues: [{ path: "water.volume", message: "Volume must be above 0." }] },
+      error: {
+        code: "invalid",
+        message: expect.stringMatching(/fields need fixing/),
+        issues: [{ path: "water.volume", message: "Volume must be above 0." }],
+      },
     });
   });
 

@@ -11,12 +11,18 @@ describe("the report schema shared by form and API", () => {
   });
 
   it("refuses more fish lost than treated", () => {
-    expect(paths(reportInputSchema.safeParse(reportBody({ fishCount: 2, outcome: { fishLost: 3, lossCause: "disease" } })))).toEqual(["outcome.fishLost"]);
+    expect(
+      paths(reportInputSchema.safeParse(reportBody({ fishCount: 2, outcome: { fishLost: 3, lossCause: "disease" } }))),
+    ).toEqual(["outcome.fishLost"]);
   });
 
   it("needs the likely cause when fish were lost, and none when none were", () => {
-    expect(paths(reportInputSchema.safeParse(reportBody({ outcome: { fishLost: 1, lossCause: null } })))).toEqual(["outcome.lossCause"]);
-    expect(paths(reportInputSchema.safeParse(reportBody({ outcome: { fishLost: 0, lossCause: "treatment" } })))).toEqual(["outcome.lossCause"]);
+    expect(paths(reportInputSchema.safeParse(reportBody({ outcome: { fishLost: 1, lossCause: null } })))).toEqual([
+      "outcome.lossCause",
+    ]);
+    expect(
+      paths(reportInputSchema.safeParse(reportBody({ outcome: { fishLost: 0, lossCause: "treatment" } }))),
+    ).toEqual(["outcome.lossCause"]);
   });
 
   it("needs an amount or a stated concentration, and a stock strength with an amount", () => {
@@ -45,24 +51,34 @@ describe("the report schema shared by form and API", () => {
 
   it("needs a name for a species that is not listed", () => {
     expect(paths(reportInputSchema.safeParse(reportBody({ speciesId: null })))).toEqual(["speciesOther"]);
-    expect(reportInputSchema.safeParse(reportBody({ speciesId: null, speciesOther: "Hyphessobrycon sp. 'red'" })).success).toBe(true);
+    expect(
+      reportInputSchema.safeParse(reportBody({ speciesId: null, speciesOther: "Hyphessobrycon sp. 'red'" })).success,
+    ).toBe(true);
   });
 
   it("checks temperature in either unit and pH bounds", () => {
-    expect(paths(reportInputSchema.safeParse(reportBody({ water: { temperature: 120, temperatureUnit: "F" } })))).toEqual(["water.temperature"]);
-    expect(reportInputSchema.safeParse(reportBody({ water: { temperature: 78, temperatureUnit: "F" } })).success).toBe(true);
+    expect(
+      paths(reportInputSchema.safeParse(reportBody({ water: { temperature: 120, temperatureUnit: "F" } }))),
+    ).toEqual(["water.temperature"]);
+    expect(reportInputSchema.safeParse(reportBody({ water: { temperature: 78, temperatureUnit: "F" } })).success).toBe(
+      true,
+    );
     expect(paths(reportInputSchema.safeParse(reportBody({ water: { ph: 15 } })))).toEqual(["water.ph"]);
   });
 
   it("lets a draft hold any subset, but not a contradiction", () => {
     expect(reportDraftSchema.safeParse({ fishCount: 2 }).success).toBe(true);
     expect(reportDraftSchema.safeParse({ water: { volume: 20 } }).success).toBe(true);
-    expect(paths(reportDraftSchema.safeParse({ fishCount: 2, outcome: { fishLost: 4 } }))).toEqual(["outcome.fishLost"]);
+    expect(paths(reportDraftSchema.safeParse({ fishCount: 2, outcome: { fishLost: 4 } }))).toEqual([
+      "outcome.fishLost",
+    ]);
   });
 
   it("checks course entries", () => {
     expect(paths(courseEntrySchema.safeParse({ kind: "dose", at: new Date().toISOString() }))).toEqual(["amountMl"]);
     expect(paths(courseEntrySchema.safeParse({ kind: "observation", at: "yesterday", text: "x" }))).toEqual(["at"]);
-    expect(courseEntrySchema.safeParse({ kind: "observation", at: new Date().toISOString(), text: "Calm." }).success).toBe(true);
+    expect(
+      courseEntrySchema.safeParse({ kind: "observation", at: new Date().toISOString(), text: "Calm." }).success,
+    ).toBe(true);
   });
 });

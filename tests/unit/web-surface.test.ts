@@ -24,12 +24,22 @@ describe("the control-character walk", () => {
   it("checks a query parameter named __proto__ like any other", async () => {
     const { parseQuery } = await import("@/features/shared/server/http");
     const { z } = await import("zod");
-    expect(() => parseQuery(new Request("http://localhost/x?__proto__=a%00&__proto__=b"), z.object({}))).toThrow(/control characters/);
+    expect(() => parseQuery(new Request("http://localhost/x?__proto__=a%00&__proto__=b"), z.object({}))).toThrow(
+      /control characters/,
+    );
     expect(parseQuery(new Request("http://localhost/x?__proto__=ok"), z.object({}))).toEqual({});
   });
 
   it("also guards the club settings form, which posts to a server action", () => {
-    expect(clubSettingsSchema.safeParse({ name: "Fin\u0000 club", confidenceLevel: 95, minReports: 3, defaultVolumeUnit: "L", defaultTemperatureUnit: "C" }).success).toBe(false);
+    expect(
+      clubSettingsSchema.safeParse({
+        name: "Fin\u0000 club",
+        confidenceLevel: 95,
+        minReports: 3,
+        defaultVolumeUnit: "L",
+        defaultTemperatureUnit: "C",
+      }).success,
+    ).toBe(false);
   });
 });
 
@@ -39,7 +49,9 @@ describe("methods a route lacks", () => {
     const r = await h.PUT(new Request("http://localhost/api/x", { method: "PUT" }));
     expect(r.status).toBe(405);
     expect(r.headers.get("allow")).toBe("GET, POST, HEAD, OPTIONS");
-    expect(await r.json()).toEqual({ error: { code: "method_not_allowed", message: "PUT is not allowed here; use GET or POST." } });
+    expect(await r.json()).toEqual({
+      error: { code: "method_not_allowed", message: "PUT is not allowed here; use GET or POST." },
+    });
     const o = await h.OPTIONS(new Request("http://localhost/api/x", { method: "OPTIONS" }));
     expect(o.status).toBe(204);
     expect(o.headers.get("allow")).toBe("GET, POST, HEAD, OPTIONS");
@@ -61,10 +73,16 @@ describe("security headers", () => {
   });
 
   it("gives API answers a policy that allows nothing, and HSTS only over https", () => {
-    expect(contentSecurityPolicy({ ...page, api: true })).toBe("default-src 'none'; object-src 'none'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'");
+    expect(contentSecurityPolicy({ ...page, api: true })).toBe(
+      "default-src 'none'; object-src 'none'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'",
+    );
     expect(securityHeaders(page)["strict-transport-security"]).toBeUndefined();
     expect(securityHeaders({ ...page, https: true })["strict-transport-security"]).toBe("max-age=31536000");
-    expect(securityHeaders(page)).toMatchObject({ "x-content-type-options": "nosniff", "x-frame-options": "DENY", "referrer-policy": "same-origin" });
+    expect(securityHeaders(page)).toMatchObject({
+      "x-content-type-options": "nosniff",
+      "x-frame-options": "DENY",
+      "referrer-policy": "same-origin",
+    });
   });
 
   it("reads https from the URL, the first X-Forwarded-Proto, or the configured public address", () => {

@@ -15,7 +15,11 @@ export default async function PlannerPage() {
       </PageTitle>
       <Cautions compact />
       <Suspense>
-        <Planner agents={agents} firstDoseFraction={settings.firstDoseFraction} fish={{ species, groups: speciesGroups.map((g) => ({ slug: g.slug, name: g.name })) }} />
+        <Planner
+          agents={agents}
+          firstDoseFraction={settings.firstDoseFraction}
+          fish={{ species, groups: speciesGroups.map((g) => ({ slug: g.slug, name: g.name })) }}
+        />
       </Suspense>
     </div>
   );

@@ -41,8 +41,18 @@ export interface ClubSettingsForEdit extends ClubSettings {
 
 async function readForEdit(): Promise<ClubSettingsForEdit> {
   const db = await getDb();
-  const [row] = await db.select({ nightlyBackup: schema.clubSettings.nightlyBackup, lastNightlyBackupAt: schema.clubSettings.lastNightlyBackupAt }).from(schema.clubSettings).where(eq(schema.clubSettings.id, 1));
-  return { ...(await getClubSettings()), nightlyBackup: row?.nightlyBackup ?? false, lastNightlyBackupAt: row?.lastNightlyBackupAt ?? null };
+  const [row] = await db
+    .select({
+      nightlyBackup: schema.clubSettings.nightlyBackup,
+      lastNightlyBackupAt: schema.clubSettings.lastNightlyBackupAt,
+    })
+    .from(schema.clubSettings)
+    .where(eq(schema.clubSettings.id, 1));
+  return {
+    ...(await getClubSettings()),
+    nightlyBackup: row?.nightlyBackup ?? false,
+    lastNightlyBackupAt: row?.lastNightlyBackupAt ?? null,
+  };
 }
 
 /** The settings form's data, for admins. */
@@ -58,11 +68,18 @@ export async function updateClubSettings(actor: Actor | null, input: ClubSetting
   const db = await getDb();
   const { lastNightlyBackupAt: _, ...before } = await readForEdit();
   // The confidence level and the minimum shape every summary; the name and default units none.
-  const movesFigures = (input.confidenceLevel !== undefined && input.confidenceLevel !== before.confidenceLevel) || (input.minReports !== undefined && input.minReports !== before.minReports);
+  const movesFigures =
+    (input.confidenceLevel !== undefined && input.confidenceLevel !== before.confidenceLevel) ||
+    (input.minReports !== undefined && input.minReports !== before.minReports);
   await db.transaction(async (tx) => {
     await tx.insert(schema.clubSettings).values({ id: 1 }).onConflictDoNothing();
-    await tx.update(schema.clubSettings).set({ ...input, updatedAt: new Date() }).where(eq(schema.clubSettings.id, 1));
-    await tx.insert(schema.catalogueChanges).values({ actorId, entity: "club_settings", entityKey: "1", action: "update", before, after: input });
+    await tx
+      .update(schema.clubSettings)
+      .set({ ...input, updatedAt: new Date() })
+      .where(eq(schema.clubSettings.id, 1));
+    await tx
+      .insert(schema.catalogueChanges)
+      .values({ actorId, entity: "club_settings", entityKey: "1", action: "update", before, after: input });
     if (movesFigures) await enqueueEvidenceRecomputeWhere(tx);
   });
   if (movesFigures) wakeEvidenceWorker();
@@ -72,6 +89,10 @@ export async function updateClubSettings(actor: Actor | null, input: ClubSetting
 /** Public: whether this club holds invented demo accounts (the demo seed), so every page can say so. */
 export async function hasDemoData(): Promise<boolean> {
   const db = await getDb();
-  const [row] = await db.select({ id: schema.users.id }).from(schema.users).where(eq(schema.users.isDemo, true)).limit(1);
+  const [row] = await db
+    .select({ id: schema.users.id })
+    .from(schema.users)
+    .where(eq(schema.users.isDemo, true))
+    .limit(1);
   return Boolean(row);
 }

@@ -26,7 +26,8 @@ import {
 /** Reads a group's evidence for an agent; the evidence feature supplies it (it sits above this one). */
 export type EvidenceLoader<E extends GuardEvidence> = (groupSlug: string, agentSlug: string) => Promise<E | null>;
 
-const invalid = (path: string, message: string) => new AppError("invalid", "Some query parameters need fixing; see issues.", [{ path, message }]);
+const invalid = (path: string, message: string) =>
+  new AppError("invalid", "Some query parameters need fixing; see issues.", [{ path, message }]);
 
 /** The species group a query asks about: `group` directly, or the group of `speciesId` (following a merge). */
 async function groupOfQuery(q: Pick<DoseQuery, "speciesId" | "group">): Promise<string | null> {
@@ -36,40 +37,59 @@ async function groupOfQuery(q: Pick<DoseQuery, "speciesId" | "group">): Promise<
   if (q.speciesId !== undefined) {
     const [s] = await db.select().from(schema.species).where(eq(schema.species.id, q.speciesId));
     if (!s) throw invalid("speciesId", `No species "${q.speciesId}" in the catalogue; see /api/catalogue.`);
-    const merged = s.mergedInto ? (await db.select().from(schema.species).where(eq(schema.species.id, s.mergedInto)))[0] : undefined;
+    const merged = s.mergedInto
+      ? (await db.select().from(schema.species).where(eq(schema.species.id, s.mergedInto)))[0]
+      : undefined;
     fromSpecies = (merged ?? s).groupSlug;
   }
   if (q.group !== undefined) {
-    const [g] = await db.select().from(schema.speciesGroups).where(and(eq(schema.speciesGroups.slug, q.group), eq(schema.speciesGroups.hidden, false)));
+    const [g] = await db
+      .select()
+      .from(schema.speciesGroups)
+      .where(and(eq(schema.speciesGroups.slug, q.group), eq(schema.speciesGroups.hidden, false)));
     if (!g) throw invalid("group", `No species group "${q.group}" in the catalogue; see /api/catalogue.`);
-    if (fromSpecies !== null && fromSpecies !== g.slug) throw invalid("group", `That species belongs to the group "${fromSpecies}", not "${g.slug}": give one of them.`);
+    if (fromSpecies !== null && fromSpecies !== g.slug)
+      throw invalid("group", `That species belongs to the group "${fromSpecies}", not "${g.slug}": give one of them.`);
     return g.slug;
   }
   return fromSpecies;
 }
 
 /** The agent and the stock reading of a query: a preset applies only when `stockFormId` names it. */
-export async function readQueryStock(q: Pick<DoseQuery, "agent" | "stockFormId" | "stockPercent" | "basis" | "densityGPerMl">) {
+export async function readQueryStock(
+  q: Pick<DoseQuery, "agent" | "stockFormId" | "stockPercent" | "basis" | "densityGPerMl">,
+) {
   const db = await getDb();
   const [agent] = await db.select().from(schema.agents).where(eq(schema.agents.slug, q.agent));
   if (!agent) {
-    throw new AppError("invalid", "Unknown agent; see /api/catalogue for the agents.", [{ path: "agent", message: `No agent "${q.agent}" in the catalogue.` }]);
+    throw new AppError("invalid", "Unknown agent; see /api/catalogue for the agents.", [
+      { path: "agent", message: `No agent "${q.agent}" in the catalogue.` },
+    ]);
   }
   let preset = null;
   if (q.stockFormId !== undefined) {
     [preset] = await db
       .select()
       .from(schema.stockForms)
-      .where(and(eq(schema.stockForms.id, q.stockFormId), eq(schema.stockForms.agentSlug, agent.slug), eq(schema.stockForms.hidden, false)));
+      .where(
+        and(
+          eq(schema.stockForms.id, q.stockFormId),
+          eq(schema.stockForms.agentSlug, agent.slug),
+          eq(schema.stockForms.hidden, false),
+        ),
+      );
     if (!preset) {
-      throw new AppError("invalid", "Unknown stock preset for this agent.", [{ path: "stockFormId", message: `No stock preset "${q.stockFormId}" for ${agent.name}.` }]);
+      throw new AppError("invalid", "Unknown stock preset for this agent.", [
+        { path: "stockFormId", message: `No stock preset "${q.stockFormId}" for ${agent.name}.` },
+      ]);
     }
   }
   try {
     const stock = readStrength({ percent: q.stockPercent, basis: q.basis, densityGPerMl: q.densityGPerMl, preset });
     return { agent, stock };
   } catch (err) {
-    if (err instanceof DosingInputError) throw invalid(err.field === "activeFraction" ? "stockFormId" : err.field, err.message);
+    if (err instanceof DosingInputError)
+      throw invalid(err.field === "activeFraction" ? "stockFormId" : err.field, err.message);
     throw err;
   }
 }
@@ -91,12 +111,22 @@ const stockEcho = (s: StockReading) => ({
  */
 export async function planDoseFromQuery<E extends GuardEvidence>(
   q: DoseQuery,
-  options: { loadEvidence?: EvidenceLoader<E>; scheduled?: (plan: Plan) => { label: string; concentration: number }[] } = {},
+  options: {
+    loadEvidence?: EvidenceLoader<E>;
+    scheduled?: (plan: Plan) => { label: string; concentration: number }[];
+  } = {},
 ) {
   const water: VolumeInput =
     q.volume !== undefined
       ? { kind: "volume", volume: q.volume, unit: q.volumeUnit! }
-      : { kind: "dimensions", length: q.length!, width: q.width!, depth: q.depth!, unit: q.lengthUnit!, displacementPercent: q.displacementPercent };
+      : {
+          kind: "dimensions",
+          length: q.length!,
+          width: q.width!,
+          depth: q.depth!,
+          unit: q.lengthUnit!,
+          displacementPercent: q.displacementPercent,
+        };
   if (q.form === "dry") return planDryFromQuery(q, water, options);
   const { agent, stock } = await readQueryStock(q);
   const groupSlug = await groupOfQuery(q);
@@ -106,7 +136,12 @@ export async function planDoseFromQuery<E extends GuardEvidence>(
     plan = planDose({
       agentSlug: agent.slug,
       unit,
-      stock: { percent: stock.percent, basis: stock.basis, densityGPerMl: stock.densityGPerMl, activeFraction: stock.activeFraction },
+      stock: {
+        percent: stock.percent,
+        basis: stock.basis,
+        densityGPerMl: stock.densityGPerMl,
+        activeFraction: stock.activeFraction,
+      },
       water,
       target: q.target,
       addedMl: q.addedMl,
@@ -123,7 +158,10 @@ export async function planDoseFromQuery<E extends GuardEvidence>(
     evidence = await options.loadEvidence(groupSlug, agent.slug);
   }
   const doses = [
-    { label: plan.target !== null ? "the target" : "the concentration your mL make", concentration: plan.concentration },
+    {
+      label: plan.target !== null ? "the target" : "the concentration your mL make",
+      concentration: plan.concentration,
+    },
     ...(plan.firstDose ? [{ label: "the first dose", concentration: plan.firstDose.concentration }] : []),
     ...(options.scheduled?.(plan) ?? []),
   ];
@@ -148,9 +186,14 @@ async function suggestedOf(evidence: GuardEvidence | null, fraction: number | un
 }
 
 /** The checks every plan gets: the planned concentration, a reduced first dose, and any scheduled later doses. */
-function checkedDoses<P extends { target: number | null; concentration: number; firstDose?: { concentration: number } }>(plan: P, scheduled: ((plan: P) => { label: string; concentration: number }[]) | undefined) {
+function checkedDoses<
+  P extends { target: number | null; concentration: number; firstDose?: { concentration: number } },
+>(plan: P, scheduled: ((plan: P) => { label: string; concentration: number }[]) | undefined) {
   return [
-    { label: plan.target !== null ? "the target" : "the concentration your salt makes", concentration: plan.concentration },
+    {
+      label: plan.target !== null ? "the target" : "the concentration your salt makes",
+      concentration: plan.concentration,
+    },
     ...(plan.firstDose ? [{ label: "the first dose", concentration: plan.firstDose.concentration }] : []),
     ...(scheduled?.(plan) ?? []),
   ];
@@ -168,13 +211,23 @@ async function planDryFromQuery<E extends GuardEvidence>(
   const db = await getDb();
   const [agent] = await db.select().from(schema.agents).where(eq(schema.agents.slug, q.agent));
   if (!agent) {
-    throw new AppError("invalid", "Unknown agent; see /api/catalogue for the agents.", [{ path: "agent", message: `No agent "${q.agent}" in the catalogue.` }]);
+    throw new AppError("invalid", "Unknown agent; see /api/catalogue for the agents.", [
+      { path: "agent", message: `No agent "${q.agent}" in the catalogue.` },
+    ]);
   }
-  if (agent.unit !== "g/L") throw invalid("form", `${agent.name} is dosed from a solution in mL; form=dry is for salt, dosed in g/L.`);
+  if (agent.unit !== "g/L")
+    throw invalid("form", `${agent.name} is dosed from a solution in mL; form=dry is for salt, dosed in g/L.`);
   const groupSlug = await groupOfQuery(q);
   let plan: DryPlan;
   try {
-    plan = planDrySalt({ agentSlug: agent.slug, unit: "g/L", water, target: q.target, addedGrams: q.addedGrams, fraction: q.fraction });
+    plan = planDrySalt({
+      agentSlug: agent.slug,
+      unit: "g/L",
+      water,
+      target: q.target,
+      addedGrams: q.addedGrams,
+      fraction: q.fraction,
+    });
   } catch (err) {
     if (err instanceof DosingInputError) throw invalid(err.field, err.message);
     throw err;
@@ -186,7 +239,12 @@ async function planDryFromQuery<E extends GuardEvidence>(
   }
   // The schedule only reads the concentration, the same for a dry and a stock plan.
   const scheduled = options.scheduled as ((p: typeof plan) => { label: string; concentration: number }[]) | undefined;
-  const warnings = doseWarnings({ unit: "g/L", ceiling: agent.plausibleCeiling, doses: checkedDoses(plan, scheduled), evidence });
+  const warnings = doseWarnings({
+    unit: "g/L",
+    ceiling: agent.plausibleCeiling,
+    doses: checkedDoses(plan, scheduled),
+    evidence,
+  });
   const answer = {
     ...plan,
     doseMl: null,

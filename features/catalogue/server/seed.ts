@@ -16,7 +16,14 @@ export async function seedCatalogue(db: Db): Promise<void> {
       .onConflictDoNothing();
     await tx
       .insert(species)
-      .values(starterSpecies.map((s) => ({ id: speciesIdOf(s.scientificName), scientificName: s.scientificName, commonName: s.commonName, groupSlug: s.group })))
+      .values(
+        starterSpecies.map((s) => ({
+          id: speciesIdOf(s.scientificName),
+          scientificName: s.scientificName,
+          commonName: s.commonName,
+          groupSlug: s.group,
+        })),
+      )
       .onConflictDoNothing();
     await tx
       .insert(agents)

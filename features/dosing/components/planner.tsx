@@ -46,12 +46,15 @@ type GroupEvidence = GuardEvidence & {
   fish: number;
   tolerated: number;
   toleratedShare: { value: number | null; low: number | null; high: number | null };
-  toleratedDose: GuardEvidence["toleratedDose"] & { medianInterval: { low: number; high: number; coverage: number } | null };
+  toleratedDose: GuardEvidence["toleratedDose"] & {
+    medianInterval: { low: number; high: number; coverage: number } | null;
+  };
   confidenceLevel: number;
 };
 
 const UNITS_KEY = "tanklore.planner.units";
-const fmt = (n: number, digits = 2) => n.toLocaleString("en-GB", { maximumFractionDigits: digits, minimumFractionDigits: 0 });
+const fmt = (n: number, digits = 2) =>
+  n.toLocaleString("en-GB", { maximumFractionDigits: digits, minimumFractionDigits: 0 });
 const fmtSig = (n: number) => (Math.abs(n) >= 100 ? fmt(n, 0) : Math.abs(n) >= 10 ? fmt(n, 1) : fmt(n, 2));
 const pct = (v: number | null) => (v == null ? "–" : `${fmt(v * 100, 0)} %`);
 
@@ -127,12 +130,22 @@ const doseResolver = zodResolver(doseQuerySchema);
 /** The API's schema over the form: field names are the query's, so its messages land on the right inputs. */
 const plannerResolver: Resolver<PlannerValues> = async (values, context, options) => {
   const result = await doseResolver(toQuery(values) as never, context, options as never);
-  return { values: result.errors && Object.keys(result.errors).length ? {} : values, errors: result.errors } as Awaited<ReturnType<Resolver<PlannerValues>>>;
+  return { values: result.errors && Object.keys(result.errors).length ? {} : values, errors: result.errors } as Awaited<
+    ReturnType<Resolver<PlannerValues>>
+  >;
 };
 
 const fishLabel = (s: PlannerFish["species"][number]) => `${s.commonName} (${s.scientificName})`;
 
-export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAgent[]; fish: PlannerFish; firstDoseFraction: number }) {
+export function Planner({
+  agents,
+  fish,
+  firstDoseFraction,
+}: {
+  agents: PlannerAgent[];
+  fish: PlannerFish;
+  firstDoseFraction: number;
+}) {
   const params = useSearchParams();
   const id = useId();
   const initialAgent = agents.find((a) => a.slug === params.get("agent")) ?? agents[0]!;
@@ -164,7 +177,8 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
       addedMl: "",
       addedGrams: "",
       fractionChoice: initialFraction
-        ? (fractions.find((f) => f.value !== "custom" && Math.abs(Number(f.value) - Number(initialFraction)) < 1e-6)?.value ?? "custom")
+        ? (fractions.find((f) => f.value !== "custom" && Math.abs(Number(f.value) - Number(initialFraction)) < 1e-6)
+            ?.value ?? "custom")
         : "0.5",
       fraction: initialFraction ?? "0.5",
     },
@@ -192,13 +206,18 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
   }, [setValue]);
   useEffect(() => {
     try {
-      localStorage.setItem(UNITS_KEY, JSON.stringify({ volumeUnit: values.volumeUnit, lengthUnit: values.lengthUnit, volumeMode: values.volumeMode }));
+      localStorage.setItem(
+        UNITS_KEY,
+        JSON.stringify({ volumeUnit: values.volumeUnit, lengthUnit: values.lengthUnit, volumeMode: values.volumeMode }),
+      );
     } catch {
       // Storage off: units are simply not remembered.
     }
   }, [values.volumeUnit, values.lengthUnit, values.volumeMode]);
 
-  const groupSlug = values.speciesId ? fish.species.find((s) => s.id === values.speciesId)?.groupSlug : values.group || undefined;
+  const groupSlug = values.speciesId
+    ? fish.species.find((s) => s.id === values.speciesId)?.groupSlug
+    : values.group || undefined;
   const evidenceQuery = useQuery({
     queryKey: ["planner-evidence", groupSlug, agent.slug],
     enabled: Boolean(groupSlug),
@@ -220,18 +239,52 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
         const water: VolumeInput =
           q.volume !== undefined
             ? { kind: "volume", volume: q.volume, unit: q.volumeUnit! }
-            : { kind: "dimensions", length: q.length!, width: q.width!, depth: q.depth!, unit: q.lengthUnit!, displacementPercent: q.displacementPercent };
-        return { plan: planDrySalt({ agentSlug: agent.slug, unit: agent.unit, water, target: q.target, addedGrams: q.addedGrams, fraction: q.fraction }), problem: null };
+            : {
+                kind: "dimensions",
+                length: q.length!,
+                width: q.width!,
+                depth: q.depth!,
+                unit: q.lengthUnit!,
+                displacementPercent: q.displacementPercent,
+              };
+        return {
+          plan: planDrySalt({
+            agentSlug: agent.slug,
+            unit: agent.unit,
+            water,
+            target: q.target,
+            addedGrams: q.addedGrams,
+            fraction: q.fraction,
+          }),
+          problem: null,
+        };
       }
-      const reading = readStrength({ percent: q.stockPercent, basis: q.basis, densityGPerMl: q.densityGPerMl, preset: stock ?? null });
+      const reading = readStrength({
+        percent: q.stockPercent,
+        basis: q.basis,
+        densityGPerMl: q.densityGPerMl,
+        preset: stock ?? null,
+      });
       const water: VolumeInput =
         q.volume !== undefined
           ? { kind: "volume", volume: q.volume, unit: q.volumeUnit! }
-          : { kind: "dimensions", length: q.length!, width: q.width!, depth: q.depth!, unit: q.lengthUnit!, displacementPercent: q.displacementPercent };
+          : {
+              kind: "dimensions",
+              length: q.length!,
+              width: q.width!,
+              depth: q.depth!,
+              unit: q.lengthUnit!,
+              displacementPercent: q.displacementPercent,
+            };
       const plan = planDose({
         agentSlug: agent.slug,
         unit: agent.unit,
-        stock: { percent: reading.percent, basis: reading.basis, densityGPerMl: reading.densityGPerMl, activeFraction: reading.activeFraction },
+        stock: {
+          percent: reading.percent,
+          basis: reading.basis,
+          densityGPerMl: reading.densityGPerMl,
+          activeFraction: reading.activeFraction,
+        },
         water,
         target: q.target,
         addedMl: q.addedMl,
@@ -246,22 +299,36 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
 
   const n = agent.redoseHours ? Math.min(10, Math.max(1, Math.floor(Number(doses) || 1))) : 1;
   const startDate = start ? new Date(start) : null;
-  const items = plan && startDate && !Number.isNaN(startDate.getTime()) ? courseSchedule(plan, startDate, n, agent.redoseHours, agent.watchDays) : [];
+  const items =
+    plan && startDate && !Number.isNaN(startDate.getTime())
+      ? courseSchedule(plan, startDate, n, agent.redoseHours, agent.watchDays)
+      : [];
   const warnings: DoseWarning[] = plan
     ? doseWarnings({
         unit: agent.unit,
         ceiling: agent.plausibleCeiling,
         evidence: groupSlug ? (evidenceQuery.isSuccess ? evidence : undefined) : undefined,
         doses: [
-          { label: plan.target !== null ? "the target" : "the concentration your mL make", concentration: plan.concentration },
+          {
+            label: plan.target !== null ? "the target" : "the concentration your mL make",
+            concentration: plan.concentration,
+          },
           ...(plan.firstDose ? [{ label: "the first dose", concentration: plan.firstDose.concentration }] : []),
-          ...items.filter((i) => i.kind === "dose").map((i) => ({ label: i.label.replace(/^Dose (\d+) of \d+$/, "dose $1"), concentration: i.concentration! })),
+          ...items
+            .filter((i) => i.kind === "dose")
+            .map((i) => ({
+              label: i.label.replace(/^Dose (\d+) of \d+$/, "dose $1"),
+              concentration: i.concentration!,
+            })),
         ],
       })
     : [];
   // Where the group has a fitted dose–response, /api/dose reads the chance the planned dose goes badly from it (the
   // fit lives in the evidence feature, above this one, so the server works it out).
-  const riskUrl = plan && query.success && groupSlug && evidenceQuery.isSuccess && evidence?.doseResponse?.bmdl != null ? `/api/dose?${new URLSearchParams(toQuery(values) as Record<string, string>)}` : null;
+  const riskUrl =
+    plan && query.success && groupSlug && evidenceQuery.isSuccess && evidence?.doseResponse?.bmdl != null
+      ? `/api/dose?${new URLSearchParams(toQuery(values) as Record<string, string>)}`
+      : null;
   const riskQuery = useQuery({
     queryKey: ["planner-risk", riskUrl],
     enabled: riskUrl !== null,
@@ -289,11 +356,21 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
         {errorOf(name)}
       </p>
     ) : null;
-  const input = "w-full min-w-0 rounded-md border border-peat-300 bg-white px-3 py-2 aria-[invalid=true]:border-alarm-500";
+  const input =
+    "w-full min-w-0 rounded-md border border-peat-300 bg-white px-3 py-2 aria-[invalid=true]:border-alarm-500";
 
   const chooseFish = (text: string) => {
-    const sp = fish.species.find((s) => fishLabel(s).toLowerCase() === text.trim().toLowerCase() || s.commonName.toLowerCase() === text.trim().toLowerCase() || s.scientificName.toLowerCase() === text.trim().toLowerCase());
-    const g = fish.groups.find((x) => `${x.name} (group)`.toLowerCase() === text.trim().toLowerCase() || x.name.toLowerCase() === text.trim().toLowerCase());
+    const sp = fish.species.find(
+      (s) =>
+        fishLabel(s).toLowerCase() === text.trim().toLowerCase() ||
+        s.commonName.toLowerCase() === text.trim().toLowerCase() ||
+        s.scientificName.toLowerCase() === text.trim().toLowerCase(),
+    );
+    const g = fish.groups.find(
+      (x) =>
+        `${x.name} (group)`.toLowerCase() === text.trim().toLowerCase() ||
+        x.name.toLowerCase() === text.trim().toLowerCase(),
+    );
     setValue("speciesId", sp?.id ?? "");
     setValue("group", sp ? "" : (g?.slug ?? ""));
   };
@@ -302,7 +379,8 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
     const median = evidence.toleratedDose.median;
     setValue("mode", "target");
     setValue("target", String(Number(median.toPrecision(3))), { shouldValidate: true });
-    const f = suggested.limitedBy === "median" ? suggested.fraction : suggested.concentration / Number(median.toPrecision(3));
+    const f =
+      suggested.limitedBy === "median" ? suggested.fraction : suggested.concentration / Number(median.toPrecision(3));
     const preset = fractions.find((x) => x.value !== "custom" && Math.abs(Number(x.value) - f) < 1e-6);
     setValue("fractionChoice", preset?.value ?? "custom");
     setValue("fraction", String(Number(f.toPrecision(3))), { shouldValidate: true });
@@ -314,15 +392,23 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
 
   return (
     <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
-      <form className="grid min-w-0 content-start gap-6 no-print" onSubmit={handleSubmit(() => undefined)} aria-label="Dose planner" noValidate>
+      <form
+        className="grid min-w-0 content-start gap-6 no-print"
+        onSubmit={handleSubmit(() => undefined)}
+        aria-label="Dose planner"
+        noValidate
+      >
         {groupName ? (
           <p className="rounded-md bg-peat-50 p-3 text-sm">
-            Prefilled from the club&apos;s evidence for <strong>{groupName}</strong>. Check every figure against your own tank.
+            Prefilled from the club&apos;s evidence for <strong>{groupName}</strong>. Check every figure against your
+            own tank.
           </p>
         ) : null}
         <fieldset className="grid min-w-0 gap-3">
           <legend className="mb-1 text-lg font-bold text-peat-900">1. Your fish and the treatment</legend>
-          <label htmlFor={`${id}-fishText`} className="font-bold">Fish being treated</label>
+          <label htmlFor={`${id}-fishText`} className="font-bold">
+            Fish being treated
+          </label>
           <input
             {...register("fishText", { onChange: (e) => chooseFish(e.target.value) })}
             id={`${id}-fishText`}
@@ -341,9 +427,13 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
             ))}
           </datalist>
           <p id={`${id}-fish-hint`} className="text-sm text-peat-700">
-            {groupSlug ? `Group: ${fish.groups.find((g) => g.slug === groupSlug)?.name ?? groupSlug}.` : "Optional, but the club's evidence for your fish is shown once you choose them."}
+            {groupSlug
+              ? `Group: ${fish.groups.find((g) => g.slug === groupSlug)?.name ?? groupSlug}.`
+              : "Optional, but the club's evidence for your fish is shown once you choose them."}
           </p>
-          <label htmlFor={`${id}-agent`} className="font-bold">Treatment</label>
+          <label htmlFor={`${id}-agent`} className="font-bold">
+            Treatment
+          </label>
           <select
             {...register("agent", {
               onChange: (e) => {
@@ -361,72 +451,139 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
             className={input}
           >
             {agents.map((a) => (
-              <option key={a.slug} value={a.slug}>{a.name}</option>
+              <option key={a.slug} value={a.slug}>
+                {a.name}
+              </option>
             ))}
           </select>
           <p className="text-sm text-peat-700">{agent.description}</p>
           {agent.unit === "g/L" ? (
             <div className="flex flex-wrap gap-4" role="radiogroup" aria-label="How you add the salt">
-              <label className="flex items-center gap-2"><input type="radio" value="dry" {...register("saltForm", { onChange: () => setAcknowledged(null) })} /> Dry salt, weighed in grams</label>
-              <label className="flex items-center gap-2"><input type="radio" value="stock" {...register("saltForm", { onChange: () => setAcknowledged(null) })} /> Brine from a bottle, in mL</label>
+              <label className="flex items-center gap-2">
+                <input type="radio" value="dry" {...register("saltForm", { onChange: () => setAcknowledged(null) })} />{" "}
+                Dry salt, weighed in grams
+              </label>
+              <label className="flex items-center gap-2">
+                <input
+                  type="radio"
+                  value="stock"
+                  {...register("saltForm", { onChange: () => setAcknowledged(null) })}
+                />{" "}
+                Brine from a bottle, in mL
+              </label>
             </div>
           ) : null}
-          {values.saltForm !== "dry" ? (<>
-          <label htmlFor={`${id}-stock`} className="font-bold">Stock strength</label>
-          <select {...register("stockFormId")} id={`${id}-stock`} className={input}>
-            {agent.stockForms.map((s) => (
-              <option key={s.id} value={s.id}>{s.label}</option>
-            ))}
-            <option value="">Another strength…</option>
-          </select>
-          {stock?.compound ? (
-            <p className="text-sm text-peat-700">The percentage is of {stock.compound}; doses are worked out as {agent.name.toLowerCase()} ({fmt(stock.activeFraction * 100, 1)} % of its mass).</p>
-          ) : null}
-          {!stock ? (
-            <div className="grid gap-3 sm:grid-cols-3">
-              <div className="grid min-w-0 gap-1">
-                <label htmlFor={`${id}-stockPercent`} className="font-bold">Strength (%)</label>
-                <input {...register("stockPercent")} {...field("stockPercent")} inputMode="decimal" className={input} />
-              </div>
-              <div className="grid min-w-0 gap-1">
-                <label htmlFor={`${id}-basis`} className="font-bold">Basis</label>
-                <select {...register("basis")} id={`${id}-basis`} className={input}>
-                  <option value="w/v">w/v (g per 100 mL)</option>
-                  <option value="w/w">w/w (g per 100 g)</option>
-                </select>
-              </div>
-              <div className="grid min-w-0 gap-1">
-                <label htmlFor={`${id}-densityGPerMl`} className="font-bold">Density (g/mL)</label>
-                <input {...register("densityGPerMl")} {...field("densityGPerMl")} inputMode="decimal" className={input} disabled={values.basis === "w/v"} />
-              </div>
-              <p className="text-sm text-peat-700 sm:col-span-3">A strength typed here counts {agent.name.toLowerCase()} itself{agent.unit === "mg/L" && values.basis === "w/v" ? " (1 % w/v = 10 mg per mL)" : ""}. If your bottle gives the strength of a compound, choose its stock form above.</p>
-              <div className="sm:col-span-3">{err("stockPercent")}{err("densityGPerMl")}</div>
-            </div>
-          ) : null}
-          </>) : (
-            <p className="text-sm text-peat-700">Weigh plain salt (no iodine or anti-caking agent) and dissolve it fully in a jug of tank water before adding it; 1 g/L is about 1 part per thousand.</p>
+          {values.saltForm !== "dry" ? (
+            <>
+              <label htmlFor={`${id}-stock`} className="font-bold">
+                Stock strength
+              </label>
+              <select {...register("stockFormId")} id={`${id}-stock`} className={input}>
+                {agent.stockForms.map((s) => (
+                  <option key={s.id} value={s.id}>
+                    {s.label}
+                  </option>
+                ))}
+                <option value="">Another strength…</option>
+              </select>
+              {stock?.compound ? (
+                <p className="text-sm text-peat-700">
+                  The percentage is of {stock.compound}; doses are worked out as {agent.name.toLowerCase()} (
+                  {fmt(stock.activeFraction * 100, 1)} % of its mass).
+                </p>
+              ) : null}
+              {!stock ? (
+                <div className="grid gap-3 sm:grid-cols-3">
+                  <div className="grid min-w-0 gap-1">
+                    <label htmlFor={`${id}-stockPercent`} className="font-bold">
+                      Strength (%)
+                    </label>
+                    <input
+                      {...register("stockPercent")}
+                      {...field("stockPercent")}
+                      inputMode="decimal"
+                      className={input}
+                    />
+                  </div>
+                  <div className="grid min-w-0 gap-1">
+                    <label htmlFor={`${id}-basis`} className="font-bold">
+                      Basis
+                    </label>
+                    <select {...register("basis")} id={`${id}-basis`} className={input}>
+                      <option value="w/v">w/v (g per 100 mL)</option>
+                      <option value="w/w">w/w (g per 100 g)</option>
+                    </select>
+                  </div>
+                  <div className="grid min-w-0 gap-1">
+                    <label htmlFor={`${id}-densityGPerMl`} className="font-bold">
+                      Density (g/mL)
+                    </label>
+                    <input
+                      {...register("densityGPerMl")}
+                      {...field("densityGPerMl")}
+                      inputMode="decimal"
+                      className={input}
+                      disabled={values.basis === "w/v"}
+                    />
+                  </div>
+                  <p className="text-sm text-peat-700 sm:col-span-3">
+                    A strength typed here counts {agent.name.toLowerCase()} itself
+                    {agent.unit === "mg/L" && values.basis === "w/v" ? " (1 % w/v = 10 mg per mL)" : ""}. If your bottle
+                    gives the strength of a compound, choose its stock form above.
+                  </p>
+                  <div className="sm:col-span-3">
+                    {err("stockPercent")}
+                    {err("densityGPerMl")}
+                  </div>
+                </div>
+              ) : null}
+            </>
+          ) : (
+            <p className="text-sm text-peat-700">
+              Weigh plain salt (no iodine or anti-caking agent) and dissolve it fully in a jug of tank water before
+              adding it; 1 g/L is about 1 part per thousand.
+            </p>
           )}
         </fieldset>
 
-        {groupSlug ? <EvidencePanel evidence={evidenceQuery.isSuccess ? evidence! : null} failed={evidenceQuery.isError} unit={agent.unit} agentName={agent.name} suggested={suggested} onUse={useSuggestion} /> : null}
+        {groupSlug ? (
+          <EvidencePanel
+            evidence={evidenceQuery.isSuccess ? evidence! : null}
+            failed={evidenceQuery.isError}
+            unit={agent.unit}
+            agentName={agent.name}
+            suggested={suggested}
+            onUse={useSuggestion}
+          />
+        ) : null}
 
         <fieldset className="grid min-w-0 gap-3">
           <legend className="mb-1 text-lg font-bold text-peat-900">2. Water to treat</legend>
           <div className="flex flex-wrap gap-4" role="radiogroup" aria-label="How to give the water volume">
-            <label className="flex items-center gap-2"><input type="radio" value="volume" {...register("volumeMode")} /> I know the volume</label>
-            <label className="flex items-center gap-2"><input type="radio" value="dimensions" {...register("volumeMode")} /> Work it out from the tank</label>
+            <label className="flex items-center gap-2">
+              <input type="radio" value="volume" {...register("volumeMode")} /> I know the volume
+            </label>
+            <label className="flex items-center gap-2">
+              <input type="radio" value="dimensions" {...register("volumeMode")} /> Work it out from the tank
+            </label>
           </div>
           {values.volumeMode !== "dimensions" ? (
             <div className="grid grid-cols-2 gap-3">
               <div className="grid min-w-0 gap-1">
-                <label htmlFor={`${id}-volume`} className="font-bold">Water volume</label>
+                <label htmlFor={`${id}-volume`} className="font-bold">
+                  Water volume
+                </label>
                 <input {...register("volume")} {...field("volume")} inputMode="decimal" className={input} />
               </div>
               <div className="grid min-w-0 gap-1">
-                <label htmlFor={`${id}-volumeUnit`} className="font-bold">Unit</label>
+                <label htmlFor={`${id}-volumeUnit`} className="font-bold">
+                  Unit
+                </label>
                 <select {...register("volumeUnit")} id={`${id}-volumeUnit`} className={input}>
                   {volumeUnits.map((u) => (
-                    <option key={u} value={u}>{volumeUnitLabels[u]}</option>
+                    <option key={u} value={u}>
+                      {volumeUnitLabels[u]}
+                    </option>
                   ))}
                 </select>
               </div>
@@ -436,23 +593,41 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
             <div className="grid grid-cols-2 gap-3 sm:grid-cols-4">
               {(["length", "width", "depth"] as const).map((d) => (
                 <div key={d} className="grid min-w-0 gap-1">
-                  <label htmlFor={`${id}-${d}`} className="font-bold">{d === "depth" ? "Water depth" : d === "length" ? "Length" : "Width"}</label>
+                  <label htmlFor={`${id}-${d}`} className="font-bold">
+                    {d === "depth" ? "Water depth" : d === "length" ? "Length" : "Width"}
+                  </label>
                   <input {...register(d)} {...field(d)} inputMode="decimal" className={input} />
                 </div>
               ))}
               <div className="grid min-w-0 gap-1">
-                <label htmlFor={`${id}-lengthUnit`} className="font-bold">Unit</label>
+                <label htmlFor={`${id}-lengthUnit`} className="font-bold">
+                  Unit
+                </label>
                 <select {...register("lengthUnit")} id={`${id}-lengthUnit`} className={input}>
                   <option value="cm">cm</option>
                   <option value="in">inches</option>
                 </select>
               </div>
               <div className="col-span-2 grid min-w-0 gap-1">
-                <label htmlFor={`${id}-displacementPercent`} className="font-bold">Less for gravel and decor (%)</label>
-                <input {...register("displacementPercent")} {...field("displacementPercent")} inputMode="decimal" className={input} />
+                <label htmlFor={`${id}-displacementPercent`} className="font-bold">
+                  Less for gravel and decor (%)
+                </label>
+                <input
+                  {...register("displacementPercent")}
+                  {...field("displacementPercent")}
+                  inputMode="decimal"
+                  className={input}
+                />
               </div>
-              <div className="col-span-full">{err("length")}{err("width")}{err("depth")}{err("displacementPercent")}</div>
-              <p className="col-span-full text-sm text-peat-700">Measure inside the glass; depth is of the water, not the tank.</p>
+              <div className="col-span-full">
+                {err("length")}
+                {err("width")}
+                {err("depth")}
+                {err("displacementPercent")}
+              </div>
+              <p className="col-span-full text-sm text-peat-700">
+                Measure inside the glass; depth is of the water, not the tank.
+              </p>
             </div>
           )}
         </fieldset>
@@ -460,57 +635,89 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
         <fieldset className="grid min-w-0 gap-3">
           <legend className="mb-1 text-lg font-bold text-peat-900">3. Dose</legend>
           <div className="flex flex-wrap gap-4" role="radiogroup" aria-label="What to work out">
-            <label className="flex items-center gap-2"><input type="radio" value="target" {...register("mode")} /> How much do I add?</label>
-            <label className="flex items-center gap-2"><input type="radio" value="added" {...register("mode")} /> {values.saltForm === "dry" ? "What did my grams make?" : "What did my mL make?"}</label>
+            <label className="flex items-center gap-2">
+              <input type="radio" value="target" {...register("mode")} /> How much do I add?
+            </label>
+            <label className="flex items-center gap-2">
+              <input type="radio" value="added" {...register("mode")} />{" "}
+              {values.saltForm === "dry" ? "What did my grams make?" : "What did my mL make?"}
+            </label>
           </div>
           {values.mode !== "added" ? (
             <div className="grid gap-1">
-              <label htmlFor={`${id}-target`} className="font-bold">Target concentration ({agent.unit})</label>
+              <label htmlFor={`${id}-target`} className="font-bold">
+                Target concentration ({agent.unit})
+              </label>
               <input {...register("target")} {...field("target")} inputMode="decimal" className={input} />
               {err("target")}
             </div>
           ) : values.saltForm === "dry" ? (
             <div className="grid gap-1">
-              <label htmlFor={`${id}-addedGrams`} className="font-bold">Grams of dry salt added</label>
+              <label htmlFor={`${id}-addedGrams`} className="font-bold">
+                Grams of dry salt added
+              </label>
               <input {...register("addedGrams")} {...field("addedGrams")} inputMode="decimal" className={input} />
               {err("addedGrams")}
             </div>
           ) : (
             <div className="grid gap-1">
-              <label htmlFor={`${id}-addedMl`} className="font-bold">Millilitres of stock added</label>
+              <label htmlFor={`${id}-addedMl`} className="font-bold">
+                Millilitres of stock added
+              </label>
               <input {...register("addedMl")} {...field("addedMl")} inputMode="decimal" className={input} />
               {err("addedMl")}
             </div>
           )}
-          <label htmlFor={`${id}-fractionChoice`} className="font-bold">First dose</label>
+          <label htmlFor={`${id}-fractionChoice`} className="font-bold">
+            First dose
+          </label>
           <select {...register("fractionChoice")} id={`${id}-fractionChoice`} className={input}>
             {fractions.map((f) => (
-              <option key={f.value} value={f.value}>{f.label}</option>
+              <option key={f.value} value={f.value}>
+                {f.label}
+              </option>
             ))}
           </select>
           {values.fractionChoice === "custom" ? (
             <div className="grid gap-1">
-              <label htmlFor={`${id}-fraction`} className="font-bold">Fraction of the full dose (0 to 1)</label>
+              <label htmlFor={`${id}-fraction`} className="font-bold">
+                Fraction of the full dose (0 to 1)
+              </label>
               <input {...register("fraction")} {...field("fraction")} inputMode="decimal" className={input} />
               {err("fraction")}
             </div>
           ) : null}
-          <button type="submit" className="justify-self-start rounded-md border border-peat-500 px-4 py-2 font-bold">Check my figures</button>
+          <button type="submit" className="justify-self-start rounded-md border border-peat-500 px-4 py-2 font-bold">
+            Check my figures
+          </button>
         </fieldset>
       </form>
 
       <section aria-labelledby={`${id}-result`} className="grid min-w-0 content-start gap-4">
-        <h2 id={`${id}-result`} className="text-2xl font-bold text-peat-900">Your dose</h2>
+        <h2 id={`${id}-result`} className="text-2xl font-bold text-peat-900">
+          Your dose
+        </h2>
         {plan && warnings.length ? (
-          <div role="alert" className="grid gap-2 rounded-lg border-2 border-alarm-500 bg-alarm-100 p-4 text-alarm-700" data-testid="dose-warnings">
+          <div
+            role="alert"
+            className="grid gap-2 rounded-lg border-2 border-alarm-500 bg-alarm-100 p-4 text-alarm-700"
+            data-testid="dose-warnings"
+          >
             <p className="text-lg font-bold">Stop and read before you dose</p>
             <ul className="list-disc space-y-1 pl-5">
               {warnings.map((w) => (
-                <li key={w.code} data-code={w.code}>{w.message}</li>
+                <li key={w.code} data-code={w.code}>
+                  {w.message}
+                </li>
               ))}
             </ul>
             <label className="flex items-start gap-2 font-bold no-print">
-              <input type="checkbox" className="mt-1" checked={cleared} onChange={(e) => setAcknowledged(e.target.checked ? warningKey : null)} />
+              <input
+                type="checkbox"
+                className="mt-1"
+                checked={cleared}
+                onChange={(e) => setAcknowledged(e.target.checked ? warningKey : null)}
+              />
               I have read these warnings and will check the dose against my own fish and tank.
             </label>
           </div>
@@ -518,7 +725,11 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
         {risk ? <RiskNote risk={risk} unit={agent.unit} groupName={evidence?.group.name ?? "these fish"} /> : null}
         <div aria-live="polite" data-testid="planner-result">
           {plan && cleared ? (
-            "form" in plan ? <DryResult plan={plan} agent={agent} /> : <Result plan={plan} agent={agent} />
+            "form" in plan ? (
+              <DryResult plan={plan} agent={agent} />
+            ) : (
+              <Result plan={plan} agent={agent} />
+            )
           ) : plan ? (
             <p className="text-peat-700">Tick the box above to see the dose and the plan.</p>
           ) : problem ? (
@@ -527,7 +738,19 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
             <p className="text-peat-700">Fill in the steps; the result appears here as you type.</p>
           )}
         </div>
-        {plan && cleared ? <Checklist plan={plan} agent={agent} items={items} doses={doses} setDoses={setDoses} start={start} setStart={setStart} icsHref={icsHref} warnings={warnings} /> : null}
+        {plan && cleared ? (
+          <Checklist
+            plan={plan}
+            agent={agent}
+            items={items}
+            doses={doses}
+            setDoses={setDoses}
+            start={start}
+            setStart={setStart}
+            icsHref={icsHref}
+            warnings={warnings}
+          />
+        ) : null}
         {plan && cleared && values.volumeMode !== "dimensions" ? (
           <a
             className="justify-self-start rounded-md border border-peat-500 px-4 py-2 font-bold no-underline no-print"
@@ -545,8 +768,19 @@ export function Planner({ agents, fish, firstDoseFraction }: { agents: PlannerAg
  * The new course form's address: the treatment and water the wizard fills in, plus the plan itself (fish, target,
  * first-dose share, form) so the course page can show the plan and the warnings acknowledged here.
  */
-function courseParams(plan: Plan | DryPlan, agent: PlannerAgent, stock: PlannerStock | undefined, values: PlannerValues, warnings: DoseWarning[]) {
-  const p = new URLSearchParams({ course: "1", agentSlug: agent.slug, volume: values.volume, volumeUnit: values.volumeUnit });
+function courseParams(
+  plan: Plan | DryPlan,
+  agent: PlannerAgent,
+  stock: PlannerStock | undefined,
+  values: PlannerValues,
+  warnings: DoseWarning[],
+) {
+  const p = new URLSearchParams({
+    course: "1",
+    agentSlug: agent.slug,
+    volume: values.volume,
+    volumeUnit: values.volumeUnit,
+  });
   if ("form" in plan) p.set("form", "dry");
   else {
     if (stock) p.set("stockFormId", stock.id);
@@ -566,47 +800,128 @@ function courseParams(plan: Plan | DryPlan, agent: PlannerAgent, stock: PlannerS
 }
 
 /** The fitted chance that a dose goes badly, as GET /api/dose answers it. */
-interface DoseRisk { dose: number; risk: number; low: number; high: number; level: number; extrapolated: boolean }
+interface DoseRisk {
+  dose: number;
+  risk: number;
+  low: number;
+  high: number;
+  level: number;
+  extrapolated: boolean;
+}
 
 function RiskNote({ risk, unit, groupName }: { risk: DoseRisk; unit: string; groupName: string }) {
   return (
     <div className="grid gap-1 rounded-lg border border-peat-300 bg-white p-4" data-testid="planner-risk">
       <p className="text-sm font-bold uppercase tracking-wide text-peat-700">Chance this dose goes badly (anecdotal)</p>
       <p>
-        At {fmtSig(risk.dose)} {unit}, the curve fitted to members&apos; reports for {groupName} puts the chance of a bad outcome at about{" "}
-        <strong>{pct(risk.risk)}</strong> ({risk.level} % interval {pct(risk.low)}–{pct(risk.high)}).
+        At {fmtSig(risk.dose)} {unit}, the curve fitted to members&apos; reports for {groupName} puts the chance of a
+        bad outcome at about <strong>{pct(risk.risk)}</strong> ({risk.level} % interval {pct(risk.low)}–{pct(risk.high)}
+        ).
       </p>
-      {risk.extrapolated ? <p className="font-bold text-alarm-700">This dose lies outside the doses members reported: the figure is read from the curve beyond the reports and may be far off.</p> : null}
-      <p className="text-sm text-peat-700">From self-selected reports, not a controlled study; a group mixes species. A low figure does not make a dose safe: start low, watch closely and ask an aquatic vet.</p>
+      {risk.extrapolated ? (
+        <p className="font-bold text-alarm-700">
+          This dose lies outside the doses members reported: the figure is read from the curve beyond the reports and
+          may be far off.
+        </p>
+      ) : null}
+      <p className="text-sm text-peat-700">
+        From self-selected reports, not a controlled study; a group mixes species. A low figure does not make a dose
+        safe: start low, watch closely and ask an aquatic vet.
+      </p>
     </div>
   );
 }
 
-function EvidencePanel({ evidence, failed, unit, agentName, suggested, onUse }: { evidence: GroupEvidence | null; failed: boolean; unit: string; agentName: string; suggested: ReturnType<typeof suggestFirstDose>; onUse: () => void }) {
-  if (failed) return <p className="rounded-md bg-alarm-100 p-3 text-sm font-bold text-alarm-700">The club&apos;s evidence could not be loaded: plan without it, start low and watch closely.</p>;
+function EvidencePanel({
+  evidence,
+  failed,
+  unit,
+  agentName,
+  suggested,
+  onUse,
+}: {
+  evidence: GroupEvidence | null;
+  failed: boolean;
+  unit: string;
+  agentName: string;
+  suggested: ReturnType<typeof suggestFirstDose>;
+  onUse: () => void;
+}) {
+  if (failed)
+    return (
+      <p className="rounded-md bg-alarm-100 p-3 text-sm font-bold text-alarm-700">
+        The club&apos;s evidence could not be loaded: plan without it, start low and watch closely.
+      </p>
+    );
   if (!evidence) return <p className="text-sm text-peat-700">Loading the club&apos;s evidence…</p>;
   const d = evidence.toleratedDose;
   const loud = evidence.lowestAdverseDose != null && d.median != null && evidence.lowestAdverseDose <= d.median;
   return (
-    <section className="grid min-w-0 gap-2 rounded-lg border border-peat-300 bg-white p-4" aria-label="The club's evidence for these fish" data-testid="planner-evidence">
-      <h3 className="text-lg font-bold text-peat-900">What members reported: {evidence.group.name}, {agentName.toLowerCase()}</h3>
+    <section
+      className="grid min-w-0 gap-2 rounded-lg border border-peat-300 bg-white p-4"
+      aria-label="The club's evidence for these fish"
+      data-testid="planner-evidence"
+    >
+      <h3 className="text-lg font-bold text-peat-900">
+        What members reported: {evidence.group.name}, {agentName.toLowerCase()}
+      </h3>
       {evidence.reports === 0 ? (
-        <p className="font-bold">No accepted reports for these fish yet. Use your own target, start well below the usual dose, try a few fish first and ask an aquatic vet.</p>
+        <p className="font-bold">
+          No accepted reports for these fish yet. Use your own target, start well below the usual dose, try a few fish
+          first and ask an aquatic vet.
+        </p>
       ) : (
         <>
-          {evidence.sparse ? <p className="font-bold text-alarm-700">Only {evidence.reports} report{evidence.reports === 1 ? "" : "s"}: too few to lean on.</p> : null}
+          {evidence.sparse ? (
+            <p className="font-bold text-alarm-700">
+              Only {evidence.reports} report{evidence.reports === 1 ? "" : "s"}: too few to lean on.
+            </p>
+          ) : null}
           <dl className="grid grid-cols-[max-content_minmax(0,1fr)] gap-x-4 gap-y-1 text-sm">
-            <dt className="font-bold">Reports</dt><dd>{evidence.reports} from {evidence.members} member{evidence.members === 1 ? "" : "s"}, {evidence.fish} fish</dd>
-            <dt className="font-bold">Tolerated</dt><dd>{evidence.tolerated} of {evidence.reports} ({pct(evidence.toleratedShare.value)}; interval {pct(evidence.toleratedShare.low)}–{pct(evidence.toleratedShare.high)})</dd>
+            <dt className="font-bold">Reports</dt>
+            <dd>
+              {evidence.reports} from {evidence.members} member{evidence.members === 1 ? "" : "s"}, {evidence.fish} fish
+            </dd>
+            <dt className="font-bold">Tolerated</dt>
+            <dd>
+              {evidence.tolerated} of {evidence.reports} ({pct(evidence.toleratedShare.value)}; interval{" "}
+              {pct(evidence.toleratedShare.low)}–{pct(evidence.toleratedShare.high)})
+            </dd>
             <dt className="font-bold">Usual dose</dt>
-            <dd>{d.median == null ? "none tolerated yet" : `${fmtSig(d.median)} ${unit} (median tolerated${d.medianInterval ? `; interval ${fmtSig(d.medianInterval.low)}–${fmtSig(d.medianInterval.high)}` : ""})`}</dd>
-            <dt className="font-bold">Went badly at</dt><dd className={loud ? "font-bold text-alarm-700" : undefined}>{evidence.lowestAdverseDose == null ? "no report" : `${fmtSig(evidence.lowestAdverseDose)} ${unit} (lowest)`}</dd>
+            <dd>
+              {d.median == null
+                ? "none tolerated yet"
+                : `${fmtSig(d.median)} ${unit} (median tolerated${d.medianInterval ? `; interval ${fmtSig(d.medianInterval.low)}–${fmtSig(d.medianInterval.high)}` : ""})`}
+            </dd>
+            <dt className="font-bold">Went badly at</dt>
+            <dd className={loud ? "font-bold text-alarm-700" : undefined}>
+              {evidence.lowestAdverseDose == null
+                ? "no report"
+                : `${fmtSig(evidence.lowestAdverseDose)} ${unit} (lowest)`}
+            </dd>
           </dl>
-          {loud ? <p className="rounded-md bg-alarm-100 p-2 font-bold text-alarm-700">A dose at or below the usual dose has already gone badly for these fish.</p> : null}
+          {loud ? (
+            <p className="rounded-md bg-alarm-100 p-2 font-bold text-alarm-700">
+              A dose at or below the usual dose has already gone badly for these fish.
+            </p>
+          ) : null}
           {suggested ? (
             <div className="flex flex-wrap items-center gap-3">
-              <p className="text-sm">Suggested first dose: <strong>{fmtSig(suggested.concentration)} {unit}</strong>{suggested.limitedBy === "median" ? ` (${fmt(suggested.fraction * 100, 0)} % of the usual dose)` : suggested.limitedBy === "lowest_adverse" ? " (held below the lowest dose that went badly)" : " (held at the fitted curve's lower limit)"}.</p>
-              <button type="button" onClick={onUse} className="rounded-md border border-peat-500 px-3 py-1 font-bold">Plan from this</button>
+              <p className="text-sm">
+                Suggested first dose:{" "}
+                <strong>
+                  {fmtSig(suggested.concentration)} {unit}
+                </strong>
+                {suggested.limitedBy === "median"
+                  ? ` (${fmt(suggested.fraction * 100, 0)} % of the usual dose)`
+                  : suggested.limitedBy === "lowest_adverse"
+                    ? " (held below the lowest dose that went badly)"
+                    : " (held at the fitted curve's lower limit)"}
+                .
+              </p>
+              <button type="button" onClick={onUse} className="rounded-md border border-peat-500 px-3 py-1 font-bold">
+                Plan from this
+              </button>
             </div>
           ) : null}
         </>
@@ -622,24 +937,42 @@ function DryResult({ plan, agent }: { plan: DryPlan; agent: PlannerAgent }) {
     <div className="grid gap-4">
       {first ? (
         <div className="rounded-lg border-2 border-peat-500 bg-white p-4">
-          <p className="text-sm font-bold uppercase tracking-wide text-peat-700">First dose ({fmt(first.fraction * 100, 0)} % of the full dose)</p>
-          <p className="mt-1 text-3xl font-bold" data-testid="first-dose-grams">{first.weighed.grams > 0 ? `${fmt(first.weighed.grams, 1)} g` : "too little to weigh"}</p>
-          <p className="text-sm">exactly {fmtSig(first.doseGrams)} g of dry salt, giving {fmtSig(first.concentration)} {u}; weigh on a {first.weighed.tool}</p>
+          <p className="text-sm font-bold uppercase tracking-wide text-peat-700">
+            First dose ({fmt(first.fraction * 100, 0)} % of the full dose)
+          </p>
+          <p className="mt-1 text-3xl font-bold" data-testid="first-dose-grams">
+            {first.weighed.grams > 0 ? `${fmt(first.weighed.grams, 1)} g` : "too little to weigh"}
+          </p>
+          <p className="text-sm">
+            exactly {fmtSig(first.doseGrams)} g of dry salt, giving {fmtSig(first.concentration)} {u}; weigh on a{" "}
+            {first.weighed.tool}
+          </p>
         </div>
       ) : null}
       <div className="rounded-lg border border-peat-300 bg-white p-4">
-        <p className="text-sm font-bold uppercase tracking-wide text-peat-700">{plan.target !== null ? "Full dose of dry salt" : "What your salt makes"}</p>
+        <p className="text-sm font-bold uppercase tracking-wide text-peat-700">
+          {plan.target !== null ? "Full dose of dry salt" : "What your salt makes"}
+        </p>
         {plan.target !== null ? (
           <>
-            <p className="mt-1 text-3xl font-bold" data-testid="dose-grams">{plan.weighed.grams > 0 ? `${fmt(plan.weighed.grams, 1)} g` : "too little to weigh"}</p>
-            <p className="text-sm">exactly {fmtSig(plan.doseGrams)} g for {fmtSig(plan.concentration)} {u}; weigh on a {plan.weighed.tool}, rounded down</p>
+            <p className="mt-1 text-3xl font-bold" data-testid="dose-grams">
+              {plan.weighed.grams > 0 ? `${fmt(plan.weighed.grams, 1)} g` : "too little to weigh"}
+            </p>
+            <p className="text-sm">
+              exactly {fmtSig(plan.doseGrams)} g for {fmtSig(plan.concentration)} {u}; weigh on a {plan.weighed.tool},
+              rounded down
+            </p>
           </>
         ) : (
-          <p className="mt-1 text-3xl font-bold" data-testid="concentration">{fmtSig(plan.concentration)} {u}</p>
+          <p className="mt-1 text-3xl font-bold" data-testid="concentration">
+            {fmtSig(plan.concentration)} {u}
+          </p>
         )}
         <dl className="mt-3 grid grid-cols-[max-content_1fr] gap-x-4 text-sm">
-          <dt className="font-bold">Water</dt><dd data-testid="volume-l">{fmtSig(plan.volumeL)} L</dd>
-          <dt className="font-bold">Salt</dt><dd>dissolve it fully in tank water, then add it slowly</dd>
+          <dt className="font-bold">Water</dt>
+          <dd data-testid="volume-l">{fmtSig(plan.volumeL)} L</dd>
+          <dt className="font-bold">Salt</dt>
+          <dd>dissolve it fully in tank water, then add it slowly</dd>
         </dl>
       </div>
     </div>
@@ -653,45 +986,72 @@ function Result({ plan, agent }: { plan: Plan; agent: PlannerAgent }) {
     <div className="grid gap-4">
       {plan.firstDose && plan.firstDose.fraction < 1 ? (
         <div className="rounded-lg border-2 border-peat-500 bg-white p-4">
-          <p className="text-sm font-bold uppercase tracking-wide text-peat-700">First dose ({fmt(plan.firstDose.fraction * 100, 0)} % of the full dose)</p>
+          <p className="text-sm font-bold uppercase tracking-wide text-peat-700">
+            First dose ({fmt(plan.firstDose.fraction * 100, 0)} % of the full dose)
+          </p>
           <p className="mt-1 text-3xl font-bold" data-testid="first-dose-ml">
             {plan.firstDose.measured.ml > 0 ? `${fmt(plan.firstDose.measured.ml)} mL` : "too little to measure"}
           </p>
           <p className="text-sm">
-            exactly {fmtSig(plan.firstDose.doseMl)} mL, giving {fmtSig(plan.firstDose.concentration)} {u}; measure with a {plan.firstDose.measured.tool}
+            exactly {fmtSig(plan.firstDose.doseMl)} mL, giving {fmtSig(plan.firstDose.concentration)} {u}; measure with
+            a {plan.firstDose.measured.tool}
           </p>
         </div>
       ) : null}
       <div className="rounded-lg border border-peat-300 bg-white p-4">
-        <p className="text-sm font-bold uppercase tracking-wide text-peat-700">{plan.target !== null ? "Full dose to add" : "What you added makes"}</p>
+        <p className="text-sm font-bold uppercase tracking-wide text-peat-700">
+          {plan.target !== null ? "Full dose to add" : "What you added makes"}
+        </p>
         {plan.target !== null ? (
           <>
-            <p className="mt-1 text-3xl font-bold" data-testid="dose-ml">{full.ml > 0 ? `${fmt(full.ml)} mL` : "too little to measure"}</p>
-            <p className="text-sm">exactly {fmtSig(plan.doseMl)} mL for {fmtSig(plan.concentration)} {u}; measure with a {full.tool}, rounded down to its marks</p>
+            <p className="mt-1 text-3xl font-bold" data-testid="dose-ml">
+              {full.ml > 0 ? `${fmt(full.ml)} mL` : "too little to measure"}
+            </p>
+            <p className="text-sm">
+              exactly {fmtSig(plan.doseMl)} mL for {fmtSig(plan.concentration)} {u}; measure with a {full.tool}, rounded
+              down to its marks
+            </p>
           </>
         ) : (
-          <p className="mt-1 text-3xl font-bold" data-testid="concentration">{fmtSig(plan.concentration)} {u}</p>
+          <p className="mt-1 text-3xl font-bold" data-testid="concentration">
+            {fmtSig(plan.concentration)} {u}
+          </p>
         )}
         <dl className="mt-3 grid grid-cols-[max-content_1fr] gap-x-4 text-sm">
-          <dt className="font-bold">Water</dt><dd data-testid="volume-l">{fmtSig(plan.volumeL)} L</dd>
-          <dt className="font-bold">Stock</dt><dd>{fmtSig(plan.stockMgPerMl)} mg of active per mL</dd>
+          <dt className="font-bold">Water</dt>
+          <dd data-testid="volume-l">{fmtSig(plan.volumeL)} L</dd>
+          <dt className="font-bold">Stock</dt>
+          <dd>{fmtSig(plan.stockMgPerMl)} mg of active per mL</dd>
           {u === "g/L" ? (
             <>
               <dt className="font-bold">Or dry salt</dt>
-              <dd data-testid="dry-grams">{fmtSig(plan.activeGrams)} g, dissolved in tank water before adding{plan.firstDose && plan.firstDose.fraction < 1 ? ` (first dose ${fmtSig(plan.activeGrams * plan.firstDose.fraction)} g)` : ""}</dd>
+              <dd data-testid="dry-grams">
+                {fmtSig(plan.activeGrams)} g, dissolved in tank water before adding
+                {plan.firstDose && plan.firstDose.fraction < 1
+                  ? ` (first dose ${fmtSig(plan.activeGrams * plan.firstDose.fraction)} g)`
+                  : ""}
+              </dd>
             </>
           ) : null}
         </dl>
       </div>
       {full.ml === 0 ? (
         <p role="alert" className="rounded-md bg-alarm-100 p-3 font-bold text-alarm-700">
-          This dose is below the smallest mark of a 1 mL syringe. Dilute the stock first (for example 1 part stock to 9 parts water, then use ten times the millilitres).
+          This dose is below the smallest mark of a 1 mL syringe. Dilute the stock first (for example 1 part stock to 9
+          parts water, then use ten times the millilitres).
         </p>
       ) : null}
       {plan.strengthRange ? (
         <p className="rounded-md bg-reed-100 p-3 text-sm">
-          A bottle labelled {fmt(plan.strengthRange.lowPercent + (plan.strengthRange.highPercent - plan.strengthRange.lowPercent) / 2, 1)} % may hold between {fmt(plan.strengthRange.lowPercent, 1)} % and {fmt(plan.strengthRange.highPercent, 1)} % ({plan.strengthRange.source}), so this dose really gives
-          between <strong>{fmtSig(plan.strengthRange.concentrationLow)}</strong> and <strong>{fmtSig(plan.strengthRange.concentrationHigh)} {u}</strong>. Old or opened bottles lose strength.
+          A bottle labelled{" "}
+          {fmt(plan.strengthRange.lowPercent + (plan.strengthRange.highPercent - plan.strengthRange.lowPercent) / 2, 1)}{" "}
+          % may hold between {fmt(plan.strengthRange.lowPercent, 1)} % and {fmt(plan.strengthRange.highPercent, 1)} % (
+          {plan.strengthRange.source}), so this dose really gives between{" "}
+          <strong>{fmtSig(plan.strengthRange.concentrationLow)}</strong> and{" "}
+          <strong>
+            {fmtSig(plan.strengthRange.concentrationHigh)} {u}
+          </strong>
+          . Old or opened bottles lose strength.
         </p>
       ) : null}
     </div>
@@ -713,23 +1073,48 @@ interface ChecklistProps {
 function Checklist({ plan, agent, items, doses, setDoses, start, setStart, icsHref, warnings }: ChecklistProps) {
   const id = useId();
   return (
-    <section className="grid min-w-0 gap-3 rounded-lg border border-peat-100 bg-white p-4" aria-labelledby={`${id}-plan`}>
-      <h3 id={`${id}-plan`} className="text-xl font-bold text-peat-900">Dosing and watching plan</h3>
+    <section
+      className="grid min-w-0 gap-3 rounded-lg border border-peat-100 bg-white p-4"
+      aria-labelledby={`${id}-plan`}
+    >
+      <h3 id={`${id}-plan`} className="text-xl font-bold text-peat-900">
+        Dosing and watching plan
+      </h3>
       <p className="text-sm">
         {agent.redoseHours
           ? `Common practice for ${agent.name.toLowerCase()}: a dose every ${agent.redoseHours} hours, then at least ${agent.watchDays} days of watching after the last one (common practice, no published source).`
           : `${agent.name} is usually given once; watch for at least ${agent.watchDays} days (common practice, no published source).`}{" "}
-        {plan.firstDose && plan.firstDose.fraction < 1 ? "Give the reduced first dose; go on to the full dose only if the fish came through it well." : null}
+        {plan.firstDose && plan.firstDose.fraction < 1
+          ? "Give the reduced first dose; go on to the full dose only if the fish came through it well."
+          : null}
       </p>
       <div className="flex flex-wrap gap-4 no-print">
         <div className="grid gap-1">
-          <label htmlFor={`${id}-start`} className="font-bold">First dose on</label>
-          <input id={`${id}-start`} type="datetime-local" className="rounded-md border border-peat-300 px-3 py-2" value={start} onChange={(e) => setStart(e.target.value)} />
+          <label htmlFor={`${id}-start`} className="font-bold">
+            First dose on
+          </label>
+          <input
+            id={`${id}-start`}
+            type="datetime-local"
+            className="rounded-md border border-peat-300 px-3 py-2"
+            value={start}
+            onChange={(e) => setStart(e.target.value)}
+          />
         </div>
         {agent.redoseHours ? (
           <div className="grid gap-1">
-            <label htmlFor={`${id}-doses`} className="font-bold">Number of doses</label>
-            <input id={`${id}-doses`} type="number" min={1} max={10} className="w-24 rounded-md border border-peat-300 px-3 py-2" value={doses} onChange={(e) => setDoses(e.target.value)} />
+            <label htmlFor={`${id}-doses`} className="font-bold">
+              Number of doses
+            </label>
+            <input
+              id={`${id}-doses`}
+              type="number"
+              min={1}
+              max={10}
+              className="w-24 rounded-md border border-peat-300 px-3 py-2"
+              value={doses}
+              onChange={(e) => setDoses(e.target.value)}
+            />
           </div>
         ) : null}
       </div>
@@ -738,19 +1123,43 @@ function Checklist({ plan, agent, items, doses, setDoses, start, setStart, icsHr
           <li key={i} className="flex items-start gap-2">
             <input type="checkbox" id={`${id}-c${i}`} className="mt-1" />
             <label htmlFor={`${id}-c${i}`}>
-              <strong>{item.at.toLocaleString("en-GB", { weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" })}</strong> — {item.label}
-              {item.kind === "dose" ? `: ${item.doseGrams !== undefined ? `${fmt(item.doseGrams, 1)} g of dry salt` : `${fmt(item.doseMl!)} mL`}, ${fmtSig(item.concentration!)} ${agent.unit}${item.reduced ? " (first, reduced)" : ""}` : ""}
+              <strong>
+                {item.at.toLocaleString("en-GB", {
+                  weekday: "short",
+                  day: "numeric",
+                  month: "short",
+                  hour: "2-digit",
+                  minute: "2-digit",
+                })}
+              </strong>{" "}
+              — {item.label}
+              {item.kind === "dose"
+                ? `: ${item.doseGrams !== undefined ? `${fmt(item.doseGrams, 1)} g of dry salt` : `${fmt(item.doseMl!)} mL`}, ${fmtSig(item.concentration!)} ${agent.unit}${item.reduced ? " (first, reduced)" : ""}`
+                : ""}
             </label>
           </li>
         ))}
       </ol>
-      {warnings.length ? <p className="text-sm font-bold text-alarm-700">This plan carries {warnings.length} warning{warnings.length === 1 ? "" : "s"} (above); they are printed and written into the calendar file too.</p> : null}
+      {warnings.length ? (
+        <p className="text-sm font-bold text-alarm-700">
+          This plan carries {warnings.length} warning{warnings.length === 1 ? "" : "s"} (above); they are printed and
+          written into the calendar file too.
+        </p>
+      ) : null}
       <div className="flex flex-wrap gap-3 no-print">
-        <button type="button" onClick={() => window.print()} className="rounded-md border border-peat-500 px-4 py-2 font-bold">
+        <button
+          type="button"
+          onClick={() => window.print()}
+          className="rounded-md border border-peat-500 px-4 py-2 font-bold"
+        >
           Print this plan
         </button>
         {icsHref ? (
-          <a href={icsHref} download="dose-plan.ics" className="rounded-md border border-peat-500 px-4 py-2 font-bold no-underline">
+          <a
+            href={icsHref}
+            download="dose-plan.ics"
+            className="rounded-md border border-peat-500 px-4 py-2 font-bold no-underline"
+          >
             Add to my calendar (.ics)
           </a>
         ) : null}

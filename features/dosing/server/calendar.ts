@@ -38,7 +38,10 @@ export function planCalendar(input: CalendarInput): string {
       productId: "tanklore/dose-plan",
     };
   });
-  const { error, value } = createEvents(events, { productId: "tanklore/dose-plan", calName: `${input.agentName} course` });
+  const { error, value } = createEvents(events, {
+    productId: "tanklore/dose-plan",
+    calName: `${input.agentName} course`,
+  });
   if (error || value == null) throw error ?? new Error("The calendar could not be written.");
   return value;
 }

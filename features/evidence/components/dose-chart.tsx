@@ -11,17 +11,37 @@ interface Props {
   median: number | null;
   medianInterval: { low: number; high: number } | null;
   lowestAdverse: number | null;
-  bands: { from: number; to: number | null; reports: number; toleratedShare: { value: number | null; low: number | null; high: number | null } }[];
+  bands: {
+    from: number;
+    to: number | null;
+    reports: number;
+    toleratedShare: { value: number | null; low: number | null; high: number | null };
+  }[];
 }
 
 /** Each report as a point at its dose; the interquartile range shaded, the median and its interval drawn. Drawn on the server. */
-export function DoseChart({ unit, points, pointBins = [], p25, p75, median, medianInterval, lowestAdverse, bands }: Props) {
+export function DoseChart({
+  unit,
+  points,
+  pointBins = [],
+  p25,
+  p75,
+  median,
+  medianInterval,
+  lowestAdverse,
+  bands,
+}: Props) {
   const outcome = (d: Props["points"][number]) => (d.tolerated ? "Tolerated" : "Adverse");
   // Large groups come as bins: one bar per bin and outcome, its height the count of reports.
-  const binned = points.length === 0 ? pointBins.flatMap((b) => [
-    { from: b.from, to: b.to, n: b.tolerated, outcome: "Tolerated" },
-    { from: b.from, to: b.to, n: b.reports - b.tolerated, outcome: "Adverse" },
-  ]).filter((b) => b.n > 0) : [];
+  const binned =
+    points.length === 0
+      ? pointBins
+          .flatMap((b) => [
+            { from: b.from, to: b.to, n: b.tolerated, outcome: "Tolerated" },
+            { from: b.from, to: b.to, n: b.reports - b.tolerated, outcome: "Adverse" },
+          ])
+          .filter((b) => b.n > 0)
+      : [];
   const withData = bands.filter((b) => b.reports > 0);
   const dots = (width: number): Plot.PlotOptions => ({
     width,
@@ -32,12 +52,47 @@ export function DoseChart({ unit, points, pointBins = [], p25, p75, median, medi
     y: { axis: null },
     color: { domain: ["Tolerated", "Adverse"], range: ["#2f7a63", "#b3261e"] },
     marks: [
-      p25 !== null && p75 !== null ? Plot.rectX([{ x1: p25, x2: p75 }], { x1: "x1", x2: "x2", fill: "#d5e7df", fillOpacity: 0.8 }) : null,
-      medianInterval ? Plot.rectX([{ ...medianInterval, facet: "Tolerated" }], { x1: "low", x2: "high", fy: "facet", fill: "none", stroke: "#1d5444", strokeDasharray: "4,3" }) : null,
+      p25 !== null && p75 !== null
+        ? Plot.rectX([{ x1: p25, x2: p75 }], { x1: "x1", x2: "x2", fill: "#d5e7df", fillOpacity: 0.8 })
+        : null,
+      medianInterval
+        ? Plot.rectX([{ ...medianInterval, facet: "Tolerated" }], {
+            x1: "low",
+            x2: "high",
+            fy: "facet",
+            fill: "none",
+            stroke: "#1d5444",
+            strokeDasharray: "4,3",
+          })
+        : null,
       median !== null ? Plot.ruleX([median], { stroke: "#0f2e26", strokeWidth: 2 }) : null,
       lowestAdverse !== null ? Plot.ruleX([lowestAdverse], { stroke: "#b3261e", strokeDasharray: "2,2" }) : null,
-      binned.length ? Plot.rectY(binned, { x1: "from", x2: "to", y1: 0, y2: "n", fy: "outcome", fill: "outcome", fillOpacity: 0.75, title: (b: (typeof binned)[number]) => `${b.from.toFixed(1)}–${b.to.toFixed(1)} ${unit}: ${b.n} ${b.outcome.toLowerCase()}` }) : null,
-      Plot.dot(points, Plot.dodgeY({ x: "dose", fy: outcome, fill: outcome, r: 3.5, fillOpacity: 0.75, anchor: "middle", title: (d: Props["points"][number]) => `${d.dose.toFixed(1)} ${unit} — ${outcome(d).toLowerCase()}${d.cleared ? ", cleared" : ""}` })),
+      binned.length
+        ? Plot.rectY(binned, {
+            x1: "from",
+            x2: "to",
+            y1: 0,
+            y2: "n",
+            fy: "outcome",
+            fill: "outcome",
+            fillOpacity: 0.75,
+            title: (b: (typeof binned)[number]) =>
+              `${b.from.toFixed(1)}–${b.to.toFixed(1)} ${unit}: ${b.n} ${b.outcome.toLowerCase()}`,
+          })
+        : null,
+      Plot.dot(
+        points,
+        Plot.dodgeY({
+          x: "dose",
+          fy: outcome,
+          fill: outcome,
+          r: 3.5,
+          fillOpacity: 0.75,
+          anchor: "middle",
+          title: (d: Props["points"][number]) =>
+            `${d.dose.toFixed(1)} ${unit} — ${outcome(d).toLowerCase()}${d.cleared ? ", cleared" : ""}`,
+        }),
+      ),
     ],
     fy: { label: null, domain: ["Tolerated", "Adverse"], axis: "left" },
   });
@@ -46,12 +101,27 @@ export function DoseChart({ unit, points, pointBins = [], p25, p75, median, medi
     height: 220,
     marginLeft: 50,
     style: { fontSize: "12px" },
-    x: { label: `Dose band (${unit})`, domain: withData.map((b) => `${b.from}–${b.to ?? "+"}`), tickRotate: width < 480 && withData.length > 5 ? -40 : 0 },
+    x: {
+      label: `Dose band (${unit})`,
+      domain: withData.map((b) => `${b.from}–${b.to ?? "+"}`),
+      tickRotate: width < 480 && withData.length > 5 ? -40 : 0,
+    },
     marginBottom: width < 480 && withData.length > 5 ? 56 : 30,
     y: { label: "Share tolerated", domain: [0, 1], tickFormat: "%", grid: true },
     marks: [
-      Plot.ruleX(withData, { x: (b) => `${b.from}–${b.to ?? "+"}`, y1: (b) => b.toleratedShare.low, y2: (b) => b.toleratedShare.high, stroke: "#1d5444" }),
-      Plot.dot(withData, { x: (b) => `${b.from}–${b.to ?? "+"}`, y: (b) => b.toleratedShare.value, fill: "#1d5444", r: 4, title: (b) => `${b.reports} reports` }),
+      Plot.ruleX(withData, {
+        x: (b) => `${b.from}–${b.to ?? "+"}`,
+        y1: (b) => b.toleratedShare.low,
+        y2: (b) => b.toleratedShare.high,
+        stroke: "#1d5444",
+      }),
+      Plot.dot(withData, {
+        x: (b) => `${b.from}–${b.to ?? "+"}`,
+        y: (b) => b.toleratedShare.value,
+        fill: "#1d5444",
+        r: 4,
+        title: (b) => `${b.reports} reports`,
+      }),
     ],
   });
   return (
@@ -59,12 +129,19 @@ export function DoseChart({ unit, points, pointBins = [], p25, p75, median, medi
       <figure className="grid gap-1">
         <ServerPlot testId="dose-chart" build={dots} />
         <figcaption className="text-sm text-peat-700">
-          {points.length || !pointBins.length ? "Each dot is one accepted report at its peak dose." : "Each bar counts the accepted reports in a narrow dose band (too many reports for a dot each)."} Shaded: the middle half of tolerated doses; solid line: their median; dashed box: the median&apos;s interval; red dashed line: the lowest dose that went badly.
+          {points.length || !pointBins.length
+            ? "Each dot is one accepted report at its peak dose."
+            : "Each bar counts the accepted reports in a narrow dose band (too many reports for a dot each)."}{" "}
+          Shaded: the middle half of tolerated doses; solid line: their median; dashed box: the median&apos;s interval;
+          red dashed line: the lowest dose that went badly.
         </figcaption>
       </figure>
       <figure className="grid gap-1">
         <ServerPlot testId="band-chart" build={shares} />
-        <figcaption className="text-sm text-peat-700">Share of reports tolerated in each dose band, with its Wilson interval. The band table below gives the same figures as text.</figcaption>
+        <figcaption className="text-sm text-peat-700">
+          Share of reports tolerated in each dose band, with its Wilson interval. The band table below gives the same
+          figures as text.
+        </figcaption>
       </figure>
     </div>
   );

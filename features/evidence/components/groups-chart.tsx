@@ -30,9 +30,25 @@ export function GroupsChart({ unit, rows }: { unit: string; rows: GroupRow[] }) 
           y: { domain: rows.map((r) => r.name), label: null },
           marks: [
             Plot.axisY({ textOverflow: "ellipsis", lineWidth: marginLeft / 7, tickSize: 0 }),
-            Plot.ruleY(rows, { y: "name", x1: "p10", x2: "p90", stroke: "#2f7a63", strokeWidth: 6, strokeOpacity: 0.45 }),
-            Plot.dot(rows, { y: "name", x: "median", fill: "#0f2e26", r: 4, title: (r: GroupRow) => `${r.name}: median ${r.median} ${unit}` }),
-            Plot.tickX(rows.filter((r) => r.bmdl !== null && r.bmdl > 0), { y: "name", x: "bmdl", stroke: "#b3261e", strokeWidth: 2 }),
+            Plot.ruleY(rows, {
+              y: "name",
+              x1: "p10",
+              x2: "p90",
+              stroke: "#2f7a63",
+              strokeWidth: 6,
+              strokeOpacity: 0.45,
+            }),
+            Plot.dot(rows, {
+              y: "name",
+              x: "median",
+              fill: "#0f2e26",
+              r: 4,
+              title: (r: GroupRow) => `${r.name}: median ${r.median} ${unit}`,
+            }),
+            Plot.tickX(
+              rows.filter((r) => r.bmdl !== null && r.bmdl > 0),
+              { y: "name", x: "bmdl", stroke: "#b3261e", strokeWidth: 2 },
+            ),
           ],
         };
       }}

@@ -37,12 +37,49 @@ export function RiskChart({ unit, curve, bmd, bmdl, points, pointBins = [] }: Pr
           Plot.areaY(curve, { x: "dose", y1: "low", y2: "high", fill: "#b3261e", fillOpacity: 0.15 }),
           Plot.lineY(curve, { x: "dose", y: "risk", stroke: "#b3261e", strokeWidth: 2 }),
           // The reports themselves: went badly along the top, went well along the bottom.
-          Plot.dot(points.filter((p) => p.dose > 0), { x: "dose", y: (p: Props["points"][number]) => (p.tolerated ? 0 : 1), fill: (p: Props["points"][number]) => (p.tolerated ? "#2f7a63" : "#b3261e"), fillOpacity: 0.5, r: 3 }),
-          Plot.rect(bins.filter((b) => b.tolerated > 0), { x1: "from", x2: "to", y1: 0, y2: (b: (typeof bins)[number]) => tall(b.tolerated), fill: "#2f7a63", fillOpacity: 0.5, title: (b: (typeof bins)[number]) => `${b.tolerated} went well` }),
-          Plot.rect(bins.filter((b) => b.reports > b.tolerated), { x1: "from", x2: "to", y1: (b: (typeof bins)[number]) => 1 - tall(b.reports - b.tolerated), y2: 1, fill: "#b3261e", fillOpacity: 0.5, title: (b: (typeof bins)[number]) => `${b.reports - b.tolerated} went badly` }),
+          Plot.dot(
+            points.filter((p) => p.dose > 0),
+            {
+              x: "dose",
+              y: (p: Props["points"][number]) => (p.tolerated ? 0 : 1),
+              fill: (p: Props["points"][number]) => (p.tolerated ? "#2f7a63" : "#b3261e"),
+              fillOpacity: 0.5,
+              r: 3,
+            },
+          ),
+          Plot.rect(
+            bins.filter((b) => b.tolerated > 0),
+            {
+              x1: "from",
+              x2: "to",
+              y1: 0,
+              y2: (b: (typeof bins)[number]) => tall(b.tolerated),
+              fill: "#2f7a63",
+              fillOpacity: 0.5,
+              title: (b: (typeof bins)[number]) => `${b.tolerated} went well`,
+            },
+          ),
+          Plot.rect(
+            bins.filter((b) => b.reports > b.tolerated),
+            {
+              x1: "from",
+              x2: "to",
+              y1: (b: (typeof bins)[number]) => 1 - tall(b.reports - b.tolerated),
+              y2: 1,
+              fill: "#b3261e",
+              fillOpacity: 0.5,
+              title: (b: (typeof bins)[number]) => `${b.reports - b.tolerated} went badly`,
+            },
+          ),
           Plot.ruleX([bmdl], { stroke: "#0f2e26", strokeDasharray: "4,3" }),
           Plot.ruleX([bmd], { stroke: "#0f2e26" }),
-          Plot.text([{ x: bmd, label: "BMD₁₀" }, { x: bmdl, label: "BMDL₁₀" }], { x: "x", y: 0.92, text: "label", dx: 4, textAnchor: "start", fill: "#0f2e26" }),
+          Plot.text(
+            [
+              { x: bmd, label: "BMD₁₀" },
+              { x: bmdl, label: "BMDL₁₀" },
+            ],
+            { x: "x", y: 0.92, text: "label", dx: 4, textAnchor: "start", fill: "#0f2e26" },
+          ),
           Plot.ruleY([0.1], { stroke: "#0f2e26", strokeOpacity: 0.4 }),
         ],
       })}

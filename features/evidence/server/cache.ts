@@ -32,7 +32,14 @@ interface State {
 }
 
 const store = globalThis as unknown as { __tankloreEvidenceCache?: State };
-const state = (): State => (store.__tankloreEvidenceCache ??= { boot: randomBytes(4).toString("hex"), epoch: 0, listening: false, retryMs: 500, stopped: true });
+const state = (): State =>
+  (store.__tankloreEvidenceCache ??= {
+    boot: randomBytes(4).toString("hex"),
+    epoch: 0,
+    listening: false,
+    retryMs: 500,
+    stopped: true,
+  });
 
 /**
  * Call after a recompute has committed in this process: every cached evidence read made before it is stale. (The
@@ -57,7 +64,9 @@ export async function announceEvidenceChange(tx: Executor, groupSlug: string, ag
 export async function evidenceCacheVersion(): Promise<string> {
   const s = state();
   const db = await getDb();
-  const { rows } = (await db.execute(sql`select coalesce(max(id), 0)::int as c from catalogue_changes`)) as unknown as { rows: { c: number }[] };
+  const { rows } = (await db.execute(sql`select coalesce(max(id), 0)::int as c from catalogue_changes`)) as unknown as {
+    rows: { c: number }[];
+  };
   const shared = (await getDbKind()) === "postgres";
   const epoch = shared && !s.listening ? `s${Math.floor(Date.now() / 1000)}` : `e${s.epoch}`;
   return `${s.boot}.${epoch}.c${rows[0]?.c ?? 0}`;
@@ -70,13 +79,20 @@ export async function evidenceCacheVersion(): Promise<string> {
  */
 export function tagEvidence(tags: { agent?: string; group?: string }): void {
   if (!process.env.__NEXT_USE_CACHE) return;
-  cacheTag("evidence", ...(tags.agent ? [`evidence:agent:${tags.agent}`] : []), ...(tags.group ? [`evidence:group:${tags.group}`] : []));
+  cacheTag(
+    "evidence",
+    ...(tags.agent ? [`evidence:agent:${tags.agent}`] : []),
+    ...(tags.group ? [`evidence:group:${tags.group}`] : []),
+  );
   // The version in the key is what keeps entries current; this only bounds how long an unused one is kept.
   cacheLife({ stale: 0, revalidate: 3600, expire: 86_400 });
 }
 
 /** The tags of a pair, for `revalidateTag` where a request context exists. */
-export const evidenceTags = (groupSlug: string, agentSlug: string) => [`evidence:group:${groupSlug}`, `evidence:agent:${agentSlug}`];
+export const evidenceTags = (groupSlug: string, agentSlug: string) => [
+  `evidence:group:${groupSlug}`,
+  `evidence:agent:${agentSlug}`,
+];
 
 function scheduleReconnect(s: State): void {
   if (s.stopped) return;
@@ -97,7 +113,11 @@ async function connectListener(s: State): Promise<void> {
     client.removeAllListeners();
     client.on("error", () => undefined);
     void client.end().catch(() => undefined);
-    if (err && !s.stopped) console.error("The evidence cache listener lost its connection; cached evidence lives at most a second until it is back:", err instanceof Error ? err.message : err);
+    if (err && !s.stopped)
+      console.error(
+        "The evidence cache listener lost its connection; cached evidence lives at most a second until it is back:",
+        err instanceof Error ? err.message : err,
+      );
     scheduleReconnect(s);
   };
   client.on("notification", () => {

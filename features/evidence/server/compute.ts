@@ -25,7 +25,7 @@ interface Row {
   bc: number[];
 }
 
-const rowsOf = <T,>(r: unknown) => (r as { rows: T[] }).rows;
+const rowsOf = <T>(r: unknown) => (r as { rows: T[] }).rows;
 const toNum = (x: unknown) => (x === null || x === undefined ? null : Number(x));
 
 /** A report counts as tolerated: no fish lost to the treatment or an unknown cause, and no severe distress. */
@@ -52,14 +52,21 @@ const disc = (k: number, n: number) => (k - 0.5) / n;
  * the order statistics of the median interval (percentile_disc at the ranks worked out from n), the
  * lowest adverse dose, and per-band report, tolerated and cleared counts.
  */
-export function summarySql(groupSlug: string, agentSlug: string, edges: number[], ranks: Map<string, { r: number; n: number }>) {
+export function summarySql(
+  groupSlug: string,
+  agentSlug: string,
+  edges: number[],
+  ranks: Map<string, { r: number; n: number }>,
+) {
   const edgeArray = sql.raw(`array[${edges.map(Number).join(",")}]::float8[]`);
   const buckets = Array.from({ length: edges.length + 1 }, (_, i) => i);
-  const counts = (extra: string) => sql.raw(`array[${buckets.map((b) => `count(*) filter (where bucket = ${b}${extra})::int`).join(", ")}]`);
+  const counts = (extra: string) =>
+    sql.raw(`array[${buckets.map((b) => `count(*) filter (where bucket = ${b}${extra})::int`).join(", ")}]`);
   // The median interval's fractions per set, as a CASE on the set's key (constants: evaluated once per group).
   // Direct arguments may name grouping columns only: in the all-conditions row, cond is null.
-  const cases = [...ranks.entries()].map(([key, { r, n }]) =>
-    sql`when ${key === "*all*" ? sql`cond is null` : sql`cond = ${key}`} then array[${disc(r, n)}::float8, ${disc(n - r + 1, n)}::float8]`,
+  const cases = [...ranks.entries()].map(
+    ([key, { r, n }]) =>
+      sql`when ${key === "*all*" ? sql`cond is null` : sql`cond = ${key}`} then array[${disc(r, n)}::float8, ${disc(n - r + 1, n)}::float8]`,
   );
   const fractions = cases.length ? sql`case ${sql.join(cases, sql` `)} end` : sql`null::float8[]`;
   return sql`
@@ -91,7 +98,8 @@ export function summarySql(groupSlug: string, agentSlug: string, edges: number[]
 export function pairFiguresSql(groupSlug: string, agentSlug: string, edges: number[]) {
   const edgeArray = sql.raw(`array[${edges.map(Number).join(",")}]::float8[]`);
   const buckets = Array.from({ length: edges.length + 1 }, (_, i) => i);
-  const counts = (extra: string) => sql.raw(`array[${buckets.map((b) => `count(*) filter (where bucket = ${b}${extra})::int`).join(", ")}]`);
+  const counts = (extra: string) =>
+    sql.raw(`array[${buckets.map((b) => `count(*) filter (where bucket = ${b}${extra})::int`).join(", ")}]`);
   return sql`
     with base as materialized (
       select coalesce(r.external_reporter, r.author_id) as author_id, r.fish_count, r.concentration as dose, coalesce(r.condition_slug, '') as cond,
@@ -133,7 +141,8 @@ function medianIntervalOf(set: DoseTrials | undefined, level: number): number[] 
     }
     return null;
   };
-  const low = nth(rank.r), high = nth(set.tolerated - rank.r + 1);
+  const low = nth(rank.r),
+    high = nth(set.tolerated - rank.r + 1);
   return low === null || high === null ? null : [low, high];
 }
 
@@ -141,14 +150,30 @@ function bandsFrom(edges: number[], row: Row, level: number): Band[] {
   const out: Band[] = [];
   // width_bucket: bucket i holds edges[i-1] <= x < edges[i]; edges.length holds x >= the last edge.
   for (let i = 1; i <= edges.length; i++) {
-    const n = Number(row.bn[i] ?? 0), t = Number(row.bt[i] ?? 0), cl = Number(row.bc[i] ?? 0);
+    const n = Number(row.bn[i] ?? 0),
+      t = Number(row.bt[i] ?? 0),
+      cl = Number(row.bc[i] ?? 0);
     if (i === edges.length && n === 0) continue;
-    out.push({ from: edges[i - 1]!, to: i < edges.length ? edges[i]! : null, reports: n, tolerated: t, toleratedShare: wilson(t, n, level), cleared: cl, clearedShare: wilson(cl, n, level) });
+    out.push({
+      from: edges[i - 1]!,
+      to: i < edges.length ? edges[i]! : null,
+      reports: n,
+      tolerated: t,
+      toleratedShare: wilson(t, n, level),
+      cleared: cl,
+      clearedShare: wilson(cl, n, level),
+    });
   }
   return out;
 }
 
-export function summaryFromRow(row: Row, group: { slug: string; name: string }, edges: number[], level: number, minReports: number): Summary & { bands: Band[] } {
+export function summaryFromRow(
+  row: Row,
+  group: { slug: string; name: string },
+  edges: number[],
+  level: number,
+  minReports: number,
+): Summary & { bands: Band[] } {
   const q = row.q ? row.q.map(Number) : null;
   const nt = Number(row.tolerated);
   const rank = medianRank(nt, level);
@@ -161,7 +186,13 @@ export function summaryFromRow(row: Row, group: { slug: string; name: string }, 
     tolerated: nt,
     toleratedShare: wilson(nt, Number(row.reports), level),
     toleratedDose: {
-      min: q ? q[0]! : null, p10: q ? q[1]! : null, p25: q ? q[2]! : null, median: q ? q[3]! : null, p75: q ? q[4]! : null, p90: q ? q[5]! : null, max: q ? q[6]! : null,
+      min: q ? q[0]! : null,
+      p10: q ? q[1]! : null,
+      p25: q ? q[2]! : null,
+      median: q ? q[3]! : null,
+      p75: q ? q[4]! : null,
+      p90: q ? q[5]! : null,
+      max: q ? q[6]! : null,
       medianInterval: rank && mi ? { low: mi[0]!, high: mi[1]!, coverage: rank.coverage } : null,
     },
     lowestAdverseDose: toNum(row.lowest_adverse),
@@ -175,7 +206,13 @@ export const POINTS_LIMIT = 300;
 /** How many bins the group's dose range is cut into (log-spaced where every dose is above zero). */
 export const POINT_BINS = 60;
 
-export interface PointBin { from: number; to: number; reports: number; tolerated: number; cleared: number }
+export interface PointBin {
+  from: number;
+  to: number;
+  reports: number;
+  tolerated: number;
+  cleared: number;
+}
 
 /**
  * The chart's anonymous points and the contributing species of one group × agent, read when its page is shown.
@@ -191,7 +228,14 @@ export async function getPointsAndSpecies(groupSlug: string, agentSlug: string, 
   const bucket = sql.raw(`case when st.hi = st.lo then 1
     when st.lo > 0 then least(width_bucket(ln(b.dose), ln(st.lo), ln(st.hi), ${POINT_BINS}), ${POINT_BINS})
     else least(width_bucket(b.dose, st.lo, st.hi, ${POINT_BINS}), ${POINT_BINS}) end`);
-  const [row] = rowsOf<{ n: number; lo: number | null; hi: number | null; pts: string | null; bins: unknown; species: unknown }>(
+  const [row] = rowsOf<{
+    n: number;
+    lo: number | null;
+    hi: number | null;
+    pts: string | null;
+    bins: unknown;
+    species: unknown;
+  }>(
     await db.execute(sql`
       with b as (
         select r.concentration as dose, ${TOLERATED} as tol, r.condition_outcome = 'cleared' as clr
@@ -220,21 +264,35 @@ export async function getPointsAndSpecies(groupSlug: string, agentSlug: string, 
     const c = Number(code);
     return { dose: Number(dose), tolerated: c >= 2, cleared: c % 2 === 1 };
   });
-  const json = <T,>(v: unknown) => (typeof v === "string" ? JSON.parse(v) : v) as T | null;
-  const lo = toNum(row?.lo), hi = toNum(row?.hi);
+  const json = <T>(v: unknown) => (typeof v === "string" ? JSON.parse(v) : v) as T | null;
+  const lo = toNum(row?.lo),
+    hi = toNum(row?.hi);
   const bins = json<[number, number, number, number][]>(row?.bins) ?? [];
   // The bins' edges, worked out the way the SQL cut them (only bins holding reports are sent).
   const edge = (k: number) => {
     if (lo === null || hi === null || hi === lo) return k === 0 ? (lo ?? 0) : (hi ?? 0);
-    return lo > 0 ? Math.exp(Math.log(lo) + (k / POINT_BINS) * (Math.log(hi) - Math.log(lo))) : lo + (k / POINT_BINS) * (hi - lo);
+    return lo > 0
+      ? Math.exp(Math.log(lo) + (k / POINT_BINS) * (Math.log(hi) - Math.log(lo)))
+      : lo + (k / POINT_BINS) * (hi - lo);
   };
   const pointBins: PointBin[] = bins.map(([k, n, t, c]) => ({
     from: Number(k) === 1 ? lo! : edge(Number(k) - 1),
     to: Number(k) === POINT_BINS || hi === lo ? hi! : edge(Number(k)),
-    reports: Number(n), tolerated: Number(t), cleared: Number(c),
+    reports: Number(n),
+    tolerated: Number(t),
+    cleared: Number(c),
   }));
   const sp = json<[string | null, string, string | null, number][]>(row?.species);
-  return { points, pointBins, species: (sp ?? []).map(([id, commonName, scientificName, n]) => ({ id, commonName, scientificName, reports: Number(n) })) };
+  return {
+    points,
+    pointBins,
+    species: (sp ?? []).map(([id, commonName, scientificName, n]) => ({
+      id,
+      commonName,
+      scientificName,
+      reports: Number(n),
+    })),
+  };
 }
 
 /** A statement runner: the database or an open transaction. */
@@ -260,7 +318,9 @@ function pairLockKey(groupSlug: string, agentSlug: string): number {
  * only serialises two unrelated pairs. Plain PostgreSQL functions: PGlite and a server alike.
  */
 export async function lockPair(tx: Runner, groupSlug: string, agentSlug: string): Promise<void> {
-  await tx.execute(sql`select pg_advisory_xact_lock(${LOCK_NAMESPACE}::int, ${pairLockKey(groupSlug, agentSlug)}::int)`);
+  await tx.execute(
+    sql`select pg_advisory_xact_lock(${LOCK_NAMESPACE}::int, ${pairLockKey(groupSlug, agentSlug)}::int)`,
+  );
 }
 
 /**
@@ -268,7 +328,12 @@ export async function lockPair(tx: Runner, groupSlug: string, agentSlug: string)
  * reports any more disappear. Run it inside a transaction holding the pair's lock, so the reads and the
  * replacement are one snapshot-consistent step. Returns how many summary rows it stored.
  */
-export async function replacePairFigures(tx: Runner, groupSlug: string, agentSlug: string, s: Settings): Promise<number> {
+export async function replacePairFigures(
+  tx: Runner,
+  groupSlug: string,
+  agentSlug: string,
+  s: Settings,
+): Promise<number> {
   // The agent's band edges and the group's name in one round trip: no row when either is missing.
   const [pair] = await tx
     .select({ bandEdges: agents.bandEdges, slug: speciesGroups.slug, name: speciesGroups.name })
@@ -280,18 +345,32 @@ export async function replacePairFigures(tx: Runner, groupSlug: string, agentSlu
   const edges = [...pair.bandEdges].sort((a, b) => a - b);
   // One statement: every figure, and the reports by condition and distinct dose (the fit's trials, whose tolerated
   // doses also give the median interval's order statistics).
-  const rows = rowsOf<Row & { tc: unknown[] | null; td: unknown[] | null; tna: unknown[] | null; tnt: unknown[] | null }>(await tx.execute(pairFiguresSql(groupSlug, agentSlug, edges)));
+  const rows = rowsOf<
+    Row & { tc: unknown[] | null; td: unknown[] | null; tna: unknown[] | null; tnt: unknown[] | null }
+  >(await tx.execute(pairFiguresSql(groupSlug, agentSlug, edges)));
   const whole = rows.find((r) => r.whole);
   const sets = trialSetsFrom(whole?.tc ?? [], whole?.td ?? [], whole?.tna ?? [], whole?.tnt ?? []);
   for (const row of rows) row.mi = medianIntervalOf(sets.get(row.whole ? "*all*" : (row.c ?? "")), s.confidenceLevel);
   const values = rows.map((row) => {
     const { bands, ...summary } = summaryFromRow(row, group, edges, s.confidenceLevel, s.minReports);
     return {
-      groupSlug, agentSlug, conditionSlug: row.whole ? "" : (row.c ?? ""), methodVersion: METHOD_VERSION, confidenceLevel: s.confidenceLevel,
-      reports: Number(row.reports), summary: { ...summary, doseResponse: doseResponseOf(sets, row.whole ? "*all*" : (row.c ?? ""), s.confidenceLevel) }, detail: { bands }, computedAt: new Date(),
+      groupSlug,
+      agentSlug,
+      conditionSlug: row.whole ? "" : (row.c ?? ""),
+      methodVersion: METHOD_VERSION,
+      confidenceLevel: s.confidenceLevel,
+      reports: Number(row.reports),
+      summary: {
+        ...summary,
+        doseResponse: doseResponseOf(sets, row.whole ? "*all*" : (row.c ?? ""), s.confidenceLevel),
+      },
+      detail: { bands },
+      computedAt: new Date(),
     };
   });
-  await tx.delete(evidenceSummaries).where(and(eq(evidenceSummaries.groupSlug, groupSlug), eq(evidenceSummaries.agentSlug, agentSlug)));
+  await tx
+    .delete(evidenceSummaries)
+    .where(and(eq(evidenceSummaries.groupSlug, groupSlug), eq(evidenceSummaries.agentSlug, agentSlug)));
   if (values.length) await tx.insert(evidenceSummaries).values(values);
   // Other processes' cached evidence goes stale when this commits (never if it rolls back).
   await announceEvidenceChange(tx, groupSlug, agentSlug);
@@ -299,7 +378,12 @@ export async function replacePairFigures(tx: Runner, groupSlug: string, agentSlu
 }
 
 /** Recomputes and stores one group × agent now, under its lock, in one transaction (benchmarks, scripts). */
-export async function recomputeGroupAgent(db: Db, groupSlug: string, agentSlug: string, settings?: Settings): Promise<number> {
+export async function recomputeGroupAgent(
+  db: Db,
+  groupSlug: string,
+  agentSlug: string,
+  settings?: Settings,
+): Promise<number> {
   const n = await db.transaction(async (tx) => {
     await lockPair(tx, groupSlug, agentSlug);
     return replacePairFigures(tx, groupSlug, agentSlug, settings ?? (await getClubSettings(tx)));
@@ -323,7 +407,12 @@ export async function getStoredSummary(groupSlug: string, agentSlug: string, con
   const [row] = await db
     .select({ summary: evidenceSummaries.summary, detail: evidenceSummaries.detail })
     .from(evidenceSummaries)
-    .where(and(eq(evidenceSummaries.groupSlug, groupSlug), eq(evidenceSummaries.agentSlug, agentSlug), eq(evidenceSummaries.conditionSlug, conditionSlug)));
+    .where(
+      and(
+        eq(evidenceSummaries.groupSlug, groupSlug),
+        eq(evidenceSummaries.agentSlug, agentSlug),
+        eq(evidenceSummaries.conditionSlug, conditionSlug),
+      ),
+    );
   return row ? ({ ...(row.summary as object), ...(row.detail as object) } as SummaryDetail) : null;
 }
-

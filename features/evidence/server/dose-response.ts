@@ -2,7 +2,7 @@ import { sql, type SQL } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { fitDoseResponse, type DoseResponse, type Trial } from "../dose-response";
 
-const rowsOf = <T,>(r: unknown) => (r as { rows: T[] }).rows;
+const rowsOf = <T>(r: unknown) => (r as { rows: T[] }).rows;
 
 /**
  * The dose–response fit's input for one group × agent, for all conditions and each condition at once: accepted
@@ -30,12 +30,25 @@ export interface DoseTrials {
 }
 
 /** One SQL aggregate, by condition set: key "*all*" for all conditions, else the condition slug ("" for none). */
-export async function doseTrials(db: Pick<Db, "execute">, accepted: SQL, tolerated: SQL): Promise<Map<string, DoseTrials>> {
-  const rows = rowsOf<{ whole: boolean; c: string | null; d: unknown[]; na: unknown[]; nt: unknown[] }>(await db.execute(doseTrialsSql(accepted, tolerated)));
+export async function doseTrials(
+  db: Pick<Db, "execute">,
+  accepted: SQL,
+  tolerated: SQL,
+): Promise<Map<string, DoseTrials>> {
+  const rows = rowsOf<{ whole: boolean; c: string | null; d: unknown[]; na: unknown[]; nt: unknown[] }>(
+    await db.execute(doseTrialsSql(accepted, tolerated)),
+  );
   const sets = new Map<string, DoseTrials>();
   for (const row of rows) {
-    const trials: Trial[] = row.d.map((dose, i) => ({ dose: Number(dose), adverse: Number(row.na[i]), n: Number(row.na[i]) + Number(row.nt[i]) }));
-    sets.set(row.whole ? "*all*" : (row.c ?? ""), { trials, tolerated: row.nt.reduce<number>((sum, t) => sum + Number(t), 0) });
+    const trials: Trial[] = row.d.map((dose, i) => ({
+      dose: Number(dose),
+      adverse: Number(row.na[i]),
+      n: Number(row.na[i]) + Number(row.nt[i]),
+    }));
+    sets.set(row.whole ? "*all*" : (row.c ?? ""), {
+      trials,
+      tolerated: row.nt.reduce<number>((sum, t) => sum + Number(t), 0),
+    });
   }
   return sets;
 }
@@ -46,12 +59,20 @@ export async function doseTrials(db: Pick<Db, "execute">, accepted: SQL, tolerat
  * all-conditions set "*all*" as their sum per distinct dose. Counts are integers, so the sums are exact and the
  * sets equal doseTrials' for the same reports (the fit sorts and merges by dose itself).
  */
-export function trialSetsFrom(conds: unknown[], doses: unknown[], na: unknown[], nt: unknown[]): Map<string, DoseTrials> {
+export function trialSetsFrom(
+  conds: unknown[],
+  doses: unknown[],
+  na: unknown[],
+  nt: unknown[],
+): Map<string, DoseTrials> {
   const sets = new Map<string, DoseTrials>();
   const all = new Map<number, Trial>();
   let allTolerated = 0;
   for (let i = 0; i < conds.length; i++) {
-    const key = String(conds[i] ?? ""), dose = Number(doses[i]), adverse = Number(na[i]), tolerated = Number(nt[i]);
+    const key = String(conds[i] ?? ""),
+      dose = Number(doses[i]),
+      adverse = Number(na[i]),
+      tolerated = Number(nt[i]);
     let set = sets.get(key);
     if (!set) sets.set(key, (set = { trials: [], tolerated: 0 }));
     set.trials.push({ dose, adverse, n: adverse + tolerated });
@@ -73,7 +94,12 @@ export function doseResponseOf(sets: Map<string, DoseTrials>, key: string, level
 }
 
 /** Every condition set's fit of one group × agent (the bench times this part of the recompute alone). */
-export async function doseResponses(db: Db, accepted: SQL, tolerated: SQL, level: number): Promise<Map<string, DoseResponse>> {
+export async function doseResponses(
+  db: Db,
+  accepted: SQL,
+  tolerated: SQL,
+  level: number,
+): Promise<Map<string, DoseResponse>> {
   const sets = await doseTrials(db, accepted, tolerated);
   return new Map([...sets.keys()].map((k) => [k, doseResponseOf(sets, k, level)]));
 }

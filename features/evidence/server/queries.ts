@@ -14,18 +14,47 @@ const { agents, speciesGroups, conditions } = schema;
 function emptySummary(group: { slug: string; name: string }, edges: number[], level: number): SummaryDetail {
   const none = wilson(0, 0, level);
   return {
-    group, reports: 0, members: 0, fish: 0, tolerated: 0, toleratedShare: none,
-    toleratedDose: { min: null, p10: null, p25: null, median: null, p75: null, p90: null, max: null, medianInterval: null },
-    lowestAdverseDose: null, sparse: true, doseResponse: fitDoseResponse([], level),
-    bands: edges.slice(0, -1).map((from, i) => ({ from, to: edges[i + 1]!, reports: 0, tolerated: 0, toleratedShare: none, cleared: 0, clearedShare: none })),
-    points: [], pointBins: [], species: [],
+    group,
+    reports: 0,
+    members: 0,
+    fish: 0,
+    tolerated: 0,
+    toleratedShare: none,
+    toleratedDose: {
+      min: null,
+      p10: null,
+      p25: null,
+      median: null,
+      p75: null,
+      p90: null,
+      max: null,
+      medianInterval: null,
+    },
+    lowestAdverseDose: null,
+    sparse: true,
+    doseResponse: fitDoseResponse([], level),
+    bands: edges.slice(0, -1).map((from, i) => ({
+      from,
+      to: edges[i + 1]!,
+      reports: 0,
+      tolerated: 0,
+      toleratedShare: none,
+      cleared: 0,
+      clearedShare: none,
+    })),
+    points: [],
+    pointBins: [],
+    species: [],
   };
 }
 
 async function agentOrError(slug: string) {
   const db = await getDb();
   const [agent] = await db.select().from(agents).where(eq(agents.slug, slug));
-  if (!agent) throw new AppError("invalid", "Unknown agent; see /api/catalogue for the agents.", [{ path: "agent", message: `No agent "${slug}" in the catalogue.` }]);
+  if (!agent)
+    throw new AppError("invalid", "Unknown agent; see /api/catalogue for the agents.", [
+      { path: "agent", message: `No agent "${slug}" in the catalogue.` },
+    ]);
   return agent;
 }
 
@@ -33,7 +62,10 @@ async function conditionOrError(slug: string | undefined) {
   if (!slug) return "";
   const db = await getDb();
   const [c] = await db.select({ slug: conditions.slug }).from(conditions).where(eq(conditions.slug, slug));
-  if (!c) throw new AppError("invalid", "Unknown condition; see /api/catalogue.", [{ path: "condition", message: `No condition "${slug}" in the catalogue.` }]);
+  if (!c)
+    throw new AppError("invalid", "Unknown condition; see /api/catalogue.", [
+      { path: "condition", message: `No condition "${slug}" in the catalogue.` },
+    ]);
   return c.slug;
 }
 
@@ -48,13 +80,15 @@ const versionForRequest = cache(evidenceCacheVersion);
  * A cached read's outcome. An AppError (unknown agent, condition or group) is kept as data, so it is cached with the
  * version like an answer and thrown again, as the same AppError, outside the cache.
  */
-type Outcome<T> = { ok: true; value: T } | { ok: false; error: { code: ErrorCode; message: string; issues: FieldIssue[] | null } };
+type Outcome<T> =
+  { ok: true; value: T } | { ok: false; error: { code: ErrorCode; message: string; issues: FieldIssue[] | null } };
 
 async function capture<T>(load: () => Promise<T>): Promise<Outcome<T>> {
   try {
     return { ok: true, value: await load() };
   } catch (err) {
-    if (err instanceof AppError) return { ok: false, error: { code: err.code, message: err.message, issues: err.issues ?? null } };
+    if (err instanceof AppError)
+      return { ok: false, error: { code: err.code, message: err.message, issues: err.issues ?? null } };
     throw err;
   }
 }
@@ -92,7 +126,11 @@ export async function getSummaries(agentSlug: string, conditionSlug?: string): P
 }
 
 /** One group's summary with its bands, points and species: from the framework's cache while nothing changed. */
-export async function getSummaryDetail(groupSlug: string, agentSlug: string, conditionSlug?: string): Promise<Awaited<ReturnType<typeof loadSummaryDetail>>> {
+export async function getSummaryDetail(
+  groupSlug: string,
+  agentSlug: string,
+  conditionSlug?: string,
+): Promise<Awaited<ReturnType<typeof loadSummaryDetail>>> {
   return unwrap(await cachedSummaryDetail(await versionForRequest(), groupSlug, agentSlug, conditionSlug ?? ""));
 }
 
@@ -103,32 +141,68 @@ export async function getEvidenceCatalogue() {
 
 /** Stored summaries for every visible group (groups without reports appear with zero counts). */
 async function loadSummaries(agentSlug: string, conditionSlug?: string) {
-  const [agent, cond, settings] = await Promise.all([agentOrError(agentSlug), conditionOrError(conditionSlug), getClubSettings()]);
+  const [agent, cond, settings] = await Promise.all([
+    agentOrError(agentSlug),
+    conditionOrError(conditionSlug),
+    getClubSettings(),
+  ]);
   const db = await getDb();
   const [groups, stored] = await Promise.all([
-    db.select({ slug: speciesGroups.slug, name: speciesGroups.name }).from(speciesGroups).where(eq(speciesGroups.hidden, false)).orderBy(asc(speciesGroups.sortOrder), asc(speciesGroups.name)),
+    db
+      .select({ slug: speciesGroups.slug, name: speciesGroups.name })
+      .from(speciesGroups)
+      .where(eq(speciesGroups.hidden, false))
+      .orderBy(asc(speciesGroups.sortOrder), asc(speciesGroups.name)),
     getStoredSummaries(agent.slug, cond),
   ]);
   const byGroup = new Map(stored.map((s) => [s.groupSlug, s.summary as Summary]));
   const edges = [...agent.bandEdges].sort((a, b) => a - b);
   return {
-    agent: agent.slug, agentName: agent.name, unit: agent.unit, condition: cond || null, confidenceLevel: settings.confidenceLevel, minReports: settings.minReports,
-    anecdotal: true as const, notice: ANECDOTAL_TEXT, methodVersion: METHOD_VERSION,
-    groups: groups.map((g) => ({ ...(byGroup.get(g.slug) ?? strip(emptySummary(g, edges, settings.confidenceLevel))), group: g })),
+    agent: agent.slug,
+    agentName: agent.name,
+    unit: agent.unit,
+    condition: cond || null,
+    confidenceLevel: settings.confidenceLevel,
+    minReports: settings.minReports,
+    anecdotal: true as const,
+    notice: ANECDOTAL_TEXT,
+    methodVersion: METHOD_VERSION,
+    groups: groups.map((g) => ({
+      ...(byGroup.get(g.slug) ?? strip(emptySummary(g, edges, settings.confidenceLevel))),
+      group: g,
+    })),
   };
 }
 
 async function loadSummaryDetail(groupSlug: string, agentSlug: string, conditionSlug?: string) {
-  const [agent, cond, settings] = await Promise.all([agentOrError(agentSlug), conditionOrError(conditionSlug), getClubSettings()]);
+  const [agent, cond, settings] = await Promise.all([
+    agentOrError(agentSlug),
+    conditionOrError(conditionSlug),
+    getClubSettings(),
+  ]);
   const db = await getDb();
-  const [group] = await db.select({ slug: speciesGroups.slug, name: speciesGroups.name }).from(speciesGroups).where(eq(speciesGroups.slug, groupSlug));
+  const [group] = await db
+    .select({ slug: speciesGroups.slug, name: speciesGroups.name })
+    .from(speciesGroups)
+    .where(eq(speciesGroups.slug, groupSlug));
   if (!group) throw notFound("That species group");
-  const [stored, extra] = await Promise.all([getStoredSummary(groupSlug, agent.slug, cond), getPointsAndSpecies(groupSlug, agent.slug, cond)]);
+  const [stored, extra] = await Promise.all([
+    getStoredSummary(groupSlug, agent.slug, cond),
+    getPointsAndSpecies(groupSlug, agent.slug, cond),
+  ]);
   const edges = [...agent.bandEdges].sort((a, b) => a - b);
   const data = { ...(stored ?? emptySummary(group, edges, settings.confidenceLevel)), ...extra };
   return {
-    agent: agent.slug, agentName: agent.name, unit: agent.unit, condition: cond || null, confidenceLevel: settings.confidenceLevel, minReports: settings.minReports,
-    anecdotal: true as const, notice: ANECDOTAL_TEXT, methodVersion: METHOD_VERSION, redoseHours: agent.redoseHours,
+    agent: agent.slug,
+    agentName: agent.name,
+    unit: agent.unit,
+    condition: cond || null,
+    confidenceLevel: settings.confidenceLevel,
+    minReports: settings.minReports,
+    anecdotal: true as const,
+    notice: ANECDOTAL_TEXT,
+    methodVersion: METHOD_VERSION,
+    redoseHours: agent.redoseHours,
     ...data,
     group,
   };

@@ -4,7 +4,7 @@ import { getClubSettings } from "@/features/catalogue/server";
 import { METHOD_VERSION } from "../summary";
 import { recomputeGroupAgent } from "./compute";
 
-const rowsOf = <T,>(r: unknown) => (r as { rows: T[] }).rows;
+const rowsOf = <T>(r: unknown) => (r as { rows: T[] }).rows;
 
 /**
  * Recomputes every group × agent whose stored summaries were made by an older method (or at another confidence

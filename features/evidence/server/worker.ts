@@ -2,7 +2,10 @@ import { and, eq, inArray, sql } from "drizzle-orm";
 import { getDb, schema, type Db } from "@/db/client";
 import { getClubSettings } from "@/features/catalogue/server";
 import {
-  enqueueEvidenceRecompute, enqueueEvidenceRecomputeWhere, setEvidenceWorkerWake, type EvidencePair,
+  enqueueEvidenceRecompute,
+  enqueueEvidenceRecomputeWhere,
+  setEvidenceWorkerWake,
+  type EvidencePair,
 } from "@/features/shared/server/evidence-outbox";
 import { failuresWaiting, recordFailure } from "@/features/shared/server/jobs";
 import { invalidateSummaryCache, startEvidenceCacheListener, stopEvidenceCacheListener } from "./cache";
@@ -49,7 +52,10 @@ async function drainPair(db: Db, groupSlug: string, agentSlug: string): Promise<
   return db.transaction(async (tx) => {
     await lockPair(tx, groupSlug, agentSlug);
     const ids = (
-      await tx.select({ id: evidenceOutbox.id }).from(evidenceOutbox).where(and(eq(evidenceOutbox.groupSlug, groupSlug), eq(evidenceOutbox.agentSlug, agentSlug)))
+      await tx
+        .select({ id: evidenceOutbox.id })
+        .from(evidenceOutbox)
+        .where(and(eq(evidenceOutbox.groupSlug, groupSlug), eq(evidenceOutbox.agentSlug, agentSlug)))
     ).map((r) => r.id);
     // Another worker handled the pair while this one waited for the lock.
     if (ids.length === 0) return null;
@@ -65,9 +71,9 @@ async function drainOnce(db: Db, force: boolean): Promise<DrainResult> {
   const tried = new Set<string>();
   // Repeat until a round finds nothing new: changes committed during a round are picked up by the next.
   for (;;) {
-    const pending = (
-      await db.execute(sql`select group_slug, agent_slug from evidence_outbox group by group_slug, agent_slug order by min(id)`)
-    ) as unknown as { rows: { group_slug: string; agent_slug: string }[] };
+    const pending = (await db.execute(
+      sql`select group_slug, agent_slug from evidence_outbox group by group_slug, agent_slug order by min(id)`,
+    )) as unknown as { rows: { group_slug: string; agent_slug: string }[] };
     // Pairs whose last recompute failed wait out their delay, whichever process tried them (recorded in jobs).
     const waiting = force ? new Set<string>() : await failuresWaiting(FAILURE_KIND);
     const todo = pending.rows.filter((p) => {
@@ -90,10 +96,14 @@ async function drainOnce(db: Db, force: boolean): Promise<DrainResult> {
       } catch (err) {
         tried.add(k);
         result.failed += 1;
-        await recordFailure(FAILURE_KIND, failureKey(p.group_slug, p.agent_slug), err, new Date(), { groupSlug: p.group_slug, agentSlug: p.agent_slug }).catch(
-          (e) => console.error("Could not record the failed recompute:", e),
+        await recordFailure(FAILURE_KIND, failureKey(p.group_slug, p.agent_slug), err, new Date(), {
+          groupSlug: p.group_slug,
+          agentSlug: p.agent_slug,
+        }).catch((e) => console.error("Could not record the failed recompute:", e));
+        console.error(
+          `Recomputing the evidence of ${p.group_slug} × ${p.agent_slug} failed; the change stands and the recompute will be retried:`,
+          err,
         );
-        console.error(`Recomputing the evidence of ${p.group_slug} × ${p.agent_slug} failed; the change stands and the recompute will be retried:`, err);
       }
     }
   }

@@ -24,9 +24,19 @@ type Outcome = { result: Result } | { error: string; rejected?: Rejected[] };
 
 /** Sends the file and reads the streamed answer: progress lines, then the result or the error envelope. */
 async function send(text: string, query: string, onProgress: (p: Progress) => void): Promise<Outcome> {
-  const res = await fetch(`/api/import/reports${query}`, { method: "POST", headers: { "content-type": "text/csv", accept: "application/x-ndjson" }, body: text });
-  const envelope = (body: { error?: { message?: string; issues?: { message: string }[] }; rejected?: Rejected[] }): Outcome => ({
-    error: [body.error?.message, ...(body.rejected ? [] : (body.error?.issues ?? []).map((i) => i.message))].filter(Boolean).join(" ") || "The import failed; nothing was changed.",
+  const res = await fetch(`/api/import/reports${query}`, {
+    method: "POST",
+    headers: { "content-type": "text/csv", accept: "application/x-ndjson" },
+    body: text,
+  });
+  const envelope = (body: {
+    error?: { message?: string; issues?: { message: string }[] };
+    rejected?: Rejected[];
+  }): Outcome => ({
+    error:
+      [body.error?.message, ...(body.rejected ? [] : (body.error?.issues ?? []).map((i) => i.message))]
+        .filter(Boolean)
+        .join(" ") || "The import failed; nothing was changed.",
     rejected: body.rejected,
   });
   if (!res.ok || !res.body) return envelope(await res.json().catch(() => ({})));
@@ -45,7 +55,10 @@ async function send(text: string, query: string, onProgress: (p: Progress) => vo
       else if (m.error) return envelope(m);
     }
   }
-  return { error: "The connection ended before the import finished. Check the file again: rows already imported are counted as skipped." };
+  return {
+    error:
+      "The connection ended before the import finished. Check the file again: rows already imported are counted as skipped.",
+  };
 }
 
 function RejectedList({ rows }: { rows: Rejected[] }) {
@@ -55,7 +68,9 @@ function RejectedList({ rows }: { rows: Rejected[] }) {
       <p className="font-bold">Rows to fix (row 1 is the header):</p>
       <ul className="max-h-72 list-disc overflow-y-auto pl-6 text-sm">
         {rows.slice(0, 200).map((r) => (
-          <li key={r.row}>Row {r.row}: {r.issues.map((i) => `${i.path}: ${i.message}`).join("; ")}</li>
+          <li key={r.row}>
+            Row {r.row}: {r.issues.map((i) => `${i.path}: ${i.message}`).join("; ")}
+          </li>
         ))}
       </ul>
       {rows.length > 200 ? <p className="text-sm">…and {rows.length - 200} more.</p> : null}
@@ -83,7 +98,9 @@ export function ImportForm() {
     setResult(null);
     setProgress(null);
     const query = dryRun ? "?dryRun=1" : partial ? "?partial=1" : "";
-    const outcome = await send(await file.text(), query, setProgress).catch(() => ({ error: "The server could not be reached; nothing was changed." }) as Outcome);
+    const outcome = await send(await file.text(), query, setProgress).catch(
+      () => ({ error: "The server could not be reached; nothing was changed." }) as Outcome,
+    );
     setBusy(null);
     setProgress(null);
     if ("error" in outcome) setError({ message: outcome.error, rejected: outcome.rejected });
@@ -101,8 +118,14 @@ export function ImportForm() {
 
   const blocked = preview ? preview.rejected.length > 0 && !partial : true;
   return (
-    <form onSubmit={onCheck} className="grid max-w-2xl gap-3 rounded-lg border border-peat-100 bg-white p-4" aria-label="Import reports">
-      <label htmlFor={`${id}-file`} className="font-bold">CSV file with the columns of the reports export</label>
+    <form
+      onSubmit={onCheck}
+      className="grid max-w-2xl gap-3 rounded-lg border border-peat-100 bg-white p-4"
+      aria-label="Import reports"
+    >
+      <label htmlFor={`${id}-file`} className="font-bold">
+        CSV file with the columns of the reports export
+      </label>
       <input
         id={`${id}-file`}
         type="file"
@@ -117,18 +140,23 @@ export function ImportForm() {
         }}
       />
       <p className="text-sm text-peat-700">
-        Reports keep the status and review history in the file; accepted ones count at once. A report already here (the same id, or
-        without an id the same content and reporter) is skipped, so importing a file twice changes nothing. Check the file first: nothing is
-        written until you import.
+        Reports keep the status and review history in the file; accepted ones count at once. A report already here (the
+        same id, or without an id the same content and reporter) is skipped, so importing a file twice changes nothing.
+        Check the file first: nothing is written until you import.
       </p>
-      <button type="submit" disabled={busy !== null || !file} className="justify-self-start rounded-md bg-peat-700 px-4 py-2 font-bold text-white disabled:opacity-60">
+      <button
+        type="submit"
+        disabled={busy !== null || !file}
+        className="justify-self-start rounded-md bg-peat-700 px-4 py-2 font-bold text-white disabled:opacity-60"
+      >
         {busy === "checking" ? "Checking…" : "Check file"}
       </button>
 
       {progress ? (
         <div role="status" className="grid gap-1">
           <label htmlFor={`${id}-progress`}>
-            {progress.phase === "checking" ? "Checking rows" : "Importing reports"}: {progress.done.toLocaleString()} of {progress.total.toLocaleString()}
+            {progress.phase === "checking" ? "Checking rows" : "Importing reports"}: {progress.done.toLocaleString()} of{" "}
+            {progress.total.toLocaleString()}
           </label>
           <progress id={`${id}-progress`} value={progress.done} max={Math.max(progress.total, 1)} className="w-full" />
         </div>
@@ -137,8 +165,8 @@ export function ImportForm() {
       {preview && !busy ? (
         <section aria-label="Preview of the import" className="grid gap-2 rounded-md border border-peat-100 p-3">
           <p className="font-bold">
-            Preview: {preview.imported} report{preview.imported === 1 ? "" : "s"} to import; {preview.skipped} already here (skipped);{" "}
-            {preview.rejected.length} row{preview.rejected.length === 1 ? "" : "s"} to fix.
+            Preview: {preview.imported} report{preview.imported === 1 ? "" : "s"} to import; {preview.skipped} already
+            here (skipped); {preview.rejected.length} row{preview.rejected.length === 1 ? "" : "s"} to fix.
           </p>
           <RejectedList rows={preview.rejected} />
           {preview.rejected.length ? (
@@ -166,7 +194,8 @@ export function ImportForm() {
       ) : null}
       {result ? (
         <p role="status" className="font-bold">
-          Done: {result.imported} report{result.imported === 1 ? "" : "s"} imported; {result.skipped} already here (skipped); {result.rejected.length} row
+          Done: {result.imported} report{result.imported === 1 ? "" : "s"} imported; {result.skipped} already here
+          (skipped); {result.rejected.length} row
           {result.rejected.length === 1 ? "" : "s"} left out.
         </p>
       ) : null}

@@ -23,7 +23,13 @@ const run = promisify(execFile);
 export const BACKUP_FORMAT = "tanklore-backup";
 export const BACKUP_FORMAT_VERSION = 1;
 /** Where each part of a club sits inside an archive. */
-export const archivePaths = { manifest: "manifest.json", pglite: "database/pgdata.tar", postgres: "database/tanklore.pgdump", uploads: "uploads/", secret: "auth-secret" } as const;
+export const archivePaths = {
+  manifest: "manifest.json",
+  pglite: "database/pgdata.tar",
+  postgres: "database/tanklore.pgdump",
+  uploads: "uploads/",
+  secret: "auth-secret",
+} as const;
 
 export interface BackupCounts {
   reports: number;
@@ -70,7 +76,8 @@ async function sha256File(file: string): Promise<string> {
 
 /** Counts of what matters most, read in the given transaction (the backup's snapshot) or on a restored database. */
 export async function countClub(db: Db): Promise<BackupCounts> {
-  const n = async (t: Parameters<ReturnType<Db["select"]>["from"]>[0]) => (await db.select({ n: count() }).from(t))[0]!.n;
+  const n = async (t: Parameters<ReturnType<Db["select"]>["from"]>[0]) =>
+    (await db.select({ n: count() }).from(t))[0]!.n;
   return {
     reports: await n(schema.reports),
     reportEvents: await n(schema.reportEvents),
@@ -129,13 +136,22 @@ async function stage(): Promise<Staged> {
     const counts = await db.transaction(
       async (tx) => {
         takenAt = new Date();
-        const snapshot = kind === "postgres" ? String(((await tx.execute(sql`select pg_export_snapshot() as s`)) as unknown as { rows: { s: string }[] }).rows[0]!.s) : null;
+        const snapshot =
+          kind === "postgres"
+            ? String(
+                ((await tx.execute(sql`select pg_export_snapshot() as s`)) as unknown as { rows: { s: string }[] })
+                  .rows[0]!.s,
+              )
+            : null;
         const counts = await countClub(tx as unknown as Db);
-        const photos = await tx.select({ full: schema.photos.fullKey, thumb: schema.photos.thumbKey }).from(schema.photos);
+        const photos = await tx
+          .select({ full: schema.photos.fullKey, thumb: schema.photos.thumbKey })
+          .from(schema.photos);
         for (const p of photos) {
           for (const key of [p.full, p.thumb]) {
             // A row whose file is already gone (removed by hand) cannot be helped; restore reports the count.
-            if (storage.kind === "disk") await linkOrCopy(path.join(uploadsRoot, key), path.join(dir, archivePaths.uploads, key));
+            if (storage.kind === "disk")
+              await linkOrCopy(path.join(uploadsRoot, key), path.join(dir, archivePaths.uploads, key));
             else await fetchObject(storage, `${archivePaths.uploads}${key}`, path.join(dir, archivePaths.uploads, key));
           }
         }
@@ -194,10 +210,17 @@ export function pgToolConnection(url: string): { dbname: string; env: NodeJS.Pro
 async function pgDump(snapshot: string, file: string): Promise<void> {
   const { dbname, env } = pgToolConnection(getEnv().DATABASE_URL!);
   try {
-    await run("pg_dump", ["--format=custom", `--snapshot=${snapshot}`, `--file=${file}`, `--dbname=${dbname}`], { env, maxBuffer: 16 * 1024 * 1024 });
+    await run("pg_dump", ["--format=custom", `--snapshot=${snapshot}`, `--file=${file}`, `--dbname=${dbname}`], {
+      env,
+      maxBuffer: 16 * 1024 * 1024,
+    });
   } catch (err) {
     const e = err as NodeJS.ErrnoException & { stderr?: string };
-    if (e.code === "ENOENT") throw new AppError("internal", "pg_dump was not found on the server's PATH; install the PostgreSQL client tools (the same major version as the server) to take backups.");
+    if (e.code === "ENOENT")
+      throw new AppError(
+        "internal",
+        "pg_dump was not found on the server's PATH; install the PostgreSQL client tools (the same major version as the server) to take backups.",
+      );
     throw new Error(`pg_dump failed: ${e.stderr?.trim() || e.message}`, { cause: err });
   }
 }
@@ -231,7 +254,9 @@ function archiveStream(staged: Staged): { stream: Readable; cleaned: Promise<voi
   })().catch((err) => pack.destroy(err));
   const stream = pack.pipe(gzip);
   pack.on("error", (err) => gzip.destroy(err));
-  const cleaned = new Promise<void>((resolve) => gzip.once("close", resolve)).then(() => fsp.rm(staged.dir, { recursive: true, force: true }));
+  const cleaned = new Promise<void>((resolve) => gzip.once("close", resolve)).then(() =>
+    fsp.rm(staged.dir, { recursive: true, force: true }),
+  );
   return { stream, cleaned };
 }
 
@@ -240,7 +265,11 @@ export function backupFileName(createdAt: string): string {
 }
 
 /** GET /api/admin/backup: a consistent archive of the running club, for admins only. */
-export async function createBackup({ actor }: { actor: Actor | null }): Promise<{ stream: ReadableStream<Uint8Array>; fileName: string; manifest: BackupManifest }> {
+export async function createBackup({
+  actor,
+}: {
+  actor: Actor | null;
+}): Promise<{ stream: ReadableStream<Uint8Array>; fileName: string; manifest: BackupManifest }> {
   authorize(actor, canTakeBackups, "download a backup of the club");
   const staged = await stage();
   return {
@@ -348,7 +377,10 @@ export async function storeBackupFile(): Promise<{ file: string; manifest: Backu
 export async function pruneStoredBackups(keep = NIGHTLY_KEEP, now = new Date()): Promise<string[]> {
   const storage = objectStorage();
   if (storage.kind === "disk") return pruneBackups(backupsDir(), keep, now);
-  const archives = (await storage.list("backups/")).map((o) => o.key).filter((k) => /^backups\/tanklore-backup-[\dTZ-]+\.tar\.gz$/.test(k)).sort();
+  const archives = (await storage.list("backups/"))
+    .map((o) => o.key)
+    .filter((k) => /^backups\/tanklore-backup-[\dTZ-]+\.tar\.gz$/.test(k))
+    .sort();
   const removed = archives.slice(0, Math.max(0, archives.length - keep));
   for (const k of removed) await storage.remove(k);
   // Leftovers of a killed local write before upload.

@@ -12,10 +12,41 @@ const { reports, reportEvents } = schema;
 
 /** The columns of the reports CSV, export and import alike. `id` is the report's stable public id. */
 export const reportColumns = [
-  "id", "status", "reporter", "species_id", "species_other", "group_slug", "fish_count", "size_class", "condition_slug", "started_on",
-  "water_volume", "water_volume_unit", "temperature", "temperature_unit", "ph", "setting",
-  "agent_slug", "stock_form_id", "stock_percent", "stock_basis", "stock_density_g_per_ml", "amount_ml", "stated_concentration", "doses", "interval_hours", "other_treatments",
-  "fish_lost", "loss_cause", "distress", "condition_outcome", "observed_days_after", "notes", "concentration", "submitted_at", "decided_at",
+  "id",
+  "status",
+  "reporter",
+  "species_id",
+  "species_other",
+  "group_slug",
+  "fish_count",
+  "size_class",
+  "condition_slug",
+  "started_on",
+  "water_volume",
+  "water_volume_unit",
+  "temperature",
+  "temperature_unit",
+  "ph",
+  "setting",
+  "agent_slug",
+  "stock_form_id",
+  "stock_percent",
+  "stock_basis",
+  "stock_density_g_per_ml",
+  "amount_ml",
+  "stated_concentration",
+  "doses",
+  "interval_hours",
+  "other_treatments",
+  "fish_lost",
+  "loss_cause",
+  "distress",
+  "condition_outcome",
+  "observed_days_after",
+  "notes",
+  "concentration",
+  "submitted_at",
+  "decided_at",
   "review_events",
 ] as const;
 
@@ -71,7 +102,9 @@ export function exportReportsCsv(actor: Actor | null): ReadableStream<Uint8Array
       if (!started) {
         started = true;
         await refreshPlannerStatistics();
-        controller.enqueue(encoder.encode(`# ${ANECDOTAL_TEXT}\r\n${Papa.unparse([[...reportColumns]], csvWriteOptions)}\r\n`));
+        controller.enqueue(
+          encoder.encode(`# ${ANECDOTAL_TEXT}\r\n${Papa.unparse([[...reportColumns]], csvWriteOptions)}\r\n`),
+        );
         return;
       }
       const db = await getDb();
@@ -90,23 +123,63 @@ export function exportReportsCsv(actor: Actor | null): ReadableStream<Uint8Array
       const events = await db
         .select()
         .from(reportEvents)
-        .where(inArray(reportEvents.reportId, rows.map((r) => r.id)))
+        .where(
+          inArray(
+            reportEvents.reportId,
+            rows.map((r) => r.id),
+          ),
+        )
         .orderBy(asc(reportEvents.reportId), asc(reportEvents.at), asc(reportEvents.id));
       const byReport = new Map<string, ExchangedEvent[]>();
       for (const e of events) {
         const list = byReport.get(e.reportId) ?? [];
-        list.push({ at: e.at.toISOString(), actor: e.actorName ?? (e.actorId ? nameOf(e.actorId) : null), action: e.action, from: e.fromStatus, to: e.toStatus, note: e.note });
+        list.push({
+          at: e.at.toISOString(),
+          actor: e.actorName ?? (e.actorId ? nameOf(e.actorId) : null),
+          action: e.action,
+          from: e.fromStatus,
+          to: e.toStatus,
+          note: e.note,
+        });
         byReport.set(e.reportId, list);
       }
       const data = rows.map((r) => {
         const d: Record<(typeof reportColumns)[number], unknown> = {
-          id: r.id, status: r.status, reporter: r.externalReporter ?? nameOf(r.authorId), species_id: r.speciesId, species_other: r.speciesOther, group_slug: r.groupSlug,
-          fish_count: r.fishCount, size_class: r.sizeClass, condition_slug: r.conditionSlug, started_on: r.startedOn,
-          water_volume: r.waterVolume, water_volume_unit: r.waterVolumeUnit, temperature: r.temperature, temperature_unit: r.temperatureUnit, ph: r.ph, setting: r.setting,
-          agent_slug: r.agentSlug, stock_form_id: r.stockFormId, stock_percent: r.stockPercent, stock_basis: r.stockBasis, stock_density_g_per_ml: r.stockDensityGPerMl, amount_ml: r.amountMl,
-          stated_concentration: r.statedConcentration, doses: r.doses, interval_hours: r.intervalHours, other_treatments: r.otherTreatments,
-          fish_lost: r.fishLost, loss_cause: r.lossCause, distress: r.distress, condition_outcome: r.conditionOutcome, observed_days_after: r.observedDaysAfter, notes: r.notes,
-          concentration: r.concentration, submitted_at: r.submittedAt?.toISOString() ?? null, decided_at: r.decidedAt?.toISOString() ?? null,
+          id: r.id,
+          status: r.status,
+          reporter: r.externalReporter ?? nameOf(r.authorId),
+          species_id: r.speciesId,
+          species_other: r.speciesOther,
+          group_slug: r.groupSlug,
+          fish_count: r.fishCount,
+          size_class: r.sizeClass,
+          condition_slug: r.conditionSlug,
+          started_on: r.startedOn,
+          water_volume: r.waterVolume,
+          water_volume_unit: r.waterVolumeUnit,
+          temperature: r.temperature,
+          temperature_unit: r.temperatureUnit,
+          ph: r.ph,
+          setting: r.setting,
+          agent_slug: r.agentSlug,
+          stock_form_id: r.stockFormId,
+          stock_percent: r.stockPercent,
+          stock_basis: r.stockBasis,
+          stock_density_g_per_ml: r.stockDensityGPerMl,
+          amount_ml: r.amountMl,
+          stated_concentration: r.statedConcentration,
+          doses: r.doses,
+          interval_hours: r.intervalHours,
+          other_treatments: r.otherTreatments,
+          fish_lost: r.fishLost,
+          loss_cause: r.lossCause,
+          distress: r.distress,
+          condition_outcome: r.conditionOutcome,
+          observed_days_after: r.observedDaysAfter,
+          notes: r.notes,
+          concentration: r.concentration,
+          submitted_at: r.submittedAt?.toISOString() ?? null,
+          decided_at: r.decidedAt?.toISOString() ?? null,
           review_events: JSON.stringify(byReport.get(r.id) ?? []),
         };
         return reportColumns.map((c) => d[c] ?? "");

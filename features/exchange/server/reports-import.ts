@@ -56,7 +56,9 @@ export class ImportRefused extends AppError {
     super(
       "invalid",
       `${n} row${n === 1 ? "" : "s"} need${n === 1 ? "s" : ""} fixing, so nothing was imported. Fix them, or import with ?partial=1 to keep the good rows and leave those out.`,
-      result.rejected.slice(0, 100).flatMap((r) => r.issues.map((i) => ({ path: `row ${r.row}: ${i.path}`, message: i.message }))),
+      result.rejected
+        .slice(0, 100)
+        .flatMap((r) => r.issues.map((i) => ({ path: `row ${r.row}: ${i.path}`, message: i.message }))),
     );
   }
   override toBody() {
@@ -72,13 +74,38 @@ function rowToInput(r: Record<string, string>) {
   return {
     speciesId: str(r.species_id) ?? null,
     ...(str(r.species_other) ? { speciesOther: str(r.species_other) } : {}),
-    fishCount: num(r.fish_count), sizeClass: str(r.size_class), conditionSlug: str(r.condition_slug), startedOn: str(r.started_on),
-    water: { volume: num(r.water_volume), volumeUnit: str(r.water_volume_unit), temperature: num(r.temperature), temperatureUnit: str(r.temperature_unit), ph: num(r.ph), setting: str(r.setting) },
-    treatment: {
-      agentSlug: str(r.agent_slug), stockFormId: str(r.stock_form_id) ?? null, stockPercent: num(r.stock_percent), stockBasis: str(r.stock_basis), stockDensityGPerMl: num(r.stock_density_g_per_ml),
-      amountMl: num(r.amount_ml), statedConcentration: num(r.stated_concentration), doses: num(r.doses), intervalHours: num(r.interval_hours), otherTreatments: str(r.other_treatments),
+    fishCount: num(r.fish_count),
+    sizeClass: str(r.size_class),
+    conditionSlug: str(r.condition_slug),
+    startedOn: str(r.started_on),
+    water: {
+      volume: num(r.water_volume),
+      volumeUnit: str(r.water_volume_unit),
+      temperature: num(r.temperature),
+      temperatureUnit: str(r.temperature_unit),
+      ph: num(r.ph),
+      setting: str(r.setting),
     },
-    outcome: { fishLost: num(r.fish_lost), lossCause: str(r.loss_cause) ?? null, distress: str(r.distress), condition: str(r.condition_outcome), observedDaysAfter: num(r.observed_days_after), notes: str(r.notes) },
+    treatment: {
+      agentSlug: str(r.agent_slug),
+      stockFormId: str(r.stock_form_id) ?? null,
+      stockPercent: num(r.stock_percent),
+      stockBasis: str(r.stock_basis),
+      stockDensityGPerMl: num(r.stock_density_g_per_ml),
+      amountMl: num(r.amount_ml),
+      statedConcentration: num(r.stated_concentration),
+      doses: num(r.doses),
+      intervalHours: num(r.interval_hours),
+      otherTreatments: str(r.other_treatments),
+    },
+    outcome: {
+      fishLost: num(r.fish_lost),
+      lossCause: str(r.loss_cause) ?? null,
+      distress: str(r.distress),
+      condition: str(r.condition_outcome),
+      observedDaysAfter: num(r.observed_days_after),
+      notes: str(r.notes),
+    },
     showName: false,
   };
 }
@@ -86,12 +113,33 @@ function rowToInput(r: Record<string, string>) {
 /** The report's columns from a checked input (what the API would store), before the server's derived values. */
 function toColumns(i: ReportInput) {
   return {
-    speciesId: i.speciesId, speciesOther: i.speciesOther ?? null, fishCount: i.fishCount, sizeClass: i.sizeClass, conditionSlug: i.conditionSlug, startedOn: i.startedOn,
-    waterVolume: i.water.volume, waterVolumeUnit: i.water.volumeUnit, temperature: i.water.temperature, temperatureUnit: i.water.temperatureUnit, ph: i.water.ph ?? null, setting: i.water.setting,
-    agentSlug: i.treatment.agentSlug, stockFormId: i.treatment.stockFormId ?? null, stockPercent: i.treatment.stockPercent ?? null, stockBasis: i.treatment.stockBasis ?? null, stockDensityGPerMl: i.treatment.stockDensityGPerMl ?? null,
-    amountMl: i.treatment.amountMl ?? null, statedConcentration: i.treatment.statedConcentration ?? null, doses: i.treatment.doses, intervalHours: i.treatment.intervalHours ?? null,
+    speciesId: i.speciesId,
+    speciesOther: i.speciesOther ?? null,
+    fishCount: i.fishCount,
+    sizeClass: i.sizeClass,
+    conditionSlug: i.conditionSlug,
+    startedOn: i.startedOn,
+    waterVolume: i.water.volume,
+    waterVolumeUnit: i.water.volumeUnit,
+    temperature: i.water.temperature,
+    temperatureUnit: i.water.temperatureUnit,
+    ph: i.water.ph ?? null,
+    setting: i.water.setting,
+    agentSlug: i.treatment.agentSlug,
+    stockFormId: i.treatment.stockFormId ?? null,
+    stockPercent: i.treatment.stockPercent ?? null,
+    stockBasis: i.treatment.stockBasis ?? null,
+    stockDensityGPerMl: i.treatment.stockDensityGPerMl ?? null,
+    amountMl: i.treatment.amountMl ?? null,
+    statedConcentration: i.treatment.statedConcentration ?? null,
+    doses: i.treatment.doses,
+    intervalHours: i.treatment.intervalHours ?? null,
     otherTreatments: i.treatment.otherTreatments ?? null,
-    fishLost: i.outcome.fishLost, lossCause: i.outcome.lossCause, distress: i.outcome.distress, conditionOutcome: i.outcome.condition, observedDaysAfter: i.outcome.observedDaysAfter,
+    fishLost: i.outcome.fishLost,
+    lossCause: i.outcome.lossCause,
+    distress: i.outcome.distress,
+    conditionOutcome: i.outcome.condition,
+    observedDaysAfter: i.outcome.observedDaysAfter,
     notes: i.outcome.notes ?? null,
   };
 }
@@ -99,7 +147,10 @@ function toColumns(i: ReportInput) {
 /** The content fingerprint: the normalised report (key order ignored) and its reporter. Status and history are not content. */
 function fingerprint(input: ReportInput, reporter: string | null): string {
   const { showName: _s, submit: _u, ...content } = input;
-  return crypto.createHash("sha256").update(`${canonicalJson(content)}\n${(reporter ?? "").toLowerCase()}`).digest("hex");
+  return crypto
+    .createHash("sha256")
+    .update(`${canonicalJson(content)}\n${(reporter ?? "").toLowerCase()}`)
+    .digest("hex");
 }
 
 const importStatuses = reportStatuses.filter((s) => s !== "draft");
@@ -150,15 +201,31 @@ export interface PreparedImport {
  */
 export function prepareReportsImport(actor: Actor | null, text: string): PreparedImport {
   assertRole(actor, ["admin"], "import reports");
-  const parsed = Papa.parse<Record<string, string>>(text, { header: true, comments: "#", skipEmptyLines: "greedy", transformHeader: (h) => h.trim() });
+  const parsed = Papa.parse<Record<string, string>>(text, {
+    header: true,
+    comments: "#",
+    skipEmptyLines: "greedy",
+    transformHeader: (h) => h.trim(),
+  });
   const fatal = parsed.errors.find((e) => e.type === "Delimiter" || e.type === "Quotes");
-  if (fatal) throw new AppError("bad_request", `The file could not be read as CSV (${fatal.message}, row ${(fatal.row ?? 0) + 2}).`);
+  if (fatal)
+    throw new AppError(
+      "bad_request",
+      `The file could not be read as CSV (${fatal.message}, row ${(fatal.row ?? 0) + 2}).`,
+    );
   const fields = parsed.meta.fields ?? [];
   const missing = ["fish_count", "agent_slug", "started_on"].filter((c) => !fields.includes(c));
-  if (missing.length) throw new AppError("invalid", "The file lacks required columns; use the columns of the reports export.", missing.map((m) => ({ path: m, message: `Column ${m} is missing.` })));
-  if (parsed.data.length > MAX_IMPORT_ROWS) throw new AppError("too_large", `At most ${MAX_IMPORT_ROWS.toLocaleString("en")} rows per import; split the file.`);
+  if (missing.length)
+    throw new AppError(
+      "invalid",
+      "The file lacks required columns; use the columns of the reports export.",
+      missing.map((m) => ({ path: m, message: `Column ${m} is missing.` })),
+    );
+  if (parsed.data.length > MAX_IMPORT_ROWS)
+    throw new AppError("too_large", `At most ${MAX_IMPORT_ROWS.toLocaleString("en")} rows per import; split the file.`);
   const ragged = new Map<number, string>();
-  for (const e of parsed.errors) if (e.type === "FieldMismatch" && e.row !== undefined) ragged.set(e.row + 2, e.message);
+  for (const e of parsed.errors)
+    if (e.type === "FieldMismatch" && e.row !== undefined) ragged.set(e.row + 2, e.message);
   return { actor: actor, rows: parsed.data, ragged };
 }
 
@@ -166,8 +233,23 @@ const breathe = () => new Promise<void>((resolve) => setImmediate(resolve));
 
 // Fields derive() never reads (outcome, description): left out of its cache key. Any other field, including one
 // added later, is part of the key, so a cached answer is always derive()'s own for the same inputs.
-const NOT_DERIVED = new Set(["fishCount", "sizeClass", "conditionSlug", "startedOn", "ph", "setting", "doses", "intervalHours", "otherTreatments",
-  "fishLost", "lossCause", "distress", "conditionOutcome", "observedDaysAfter", "notes"]);
+const NOT_DERIVED = new Set([
+  "fishCount",
+  "sizeClass",
+  "conditionSlug",
+  "startedOn",
+  "ph",
+  "setting",
+  "doses",
+  "intervalHours",
+  "otherTreatments",
+  "fishLost",
+  "lossCause",
+  "distress",
+  "conditionOutcome",
+  "observedDaysAfter",
+  "notes",
+]);
 type DeriveCache = Map<string, ReturnType<typeof derive>>;
 
 /**
@@ -206,22 +288,34 @@ async function checkRow(
   if (issues.length) return { issues };
 
   const id = str(r.id);
-  if (id !== undefined && !ID.test(id)) issues.push({ path: "id", message: "id must be a report id from an export (a UUID), or left empty." });
+  if (id !== undefined && !ID.test(id))
+    issues.push({ path: "id", message: "id must be a report id from an export (a UUID), or left empty." });
   const input = rowToInput(r);
   const check = reportInputSchema.safeParse(JSON.parse(JSON.stringify(input)));
   if (!check.success) issues.push(...zodIssues(check.error));
-  if (input.speciesId && !known.species.has(input.speciesId)) issues.push({ path: "species_id", message: `No species "${input.speciesId}" in the catalogue.` });
-  if (input.conditionSlug && !known.conditions.has(input.conditionSlug)) issues.push({ path: "condition_slug", message: `No condition "${input.conditionSlug}".` });
-  if (input.treatment.agentSlug && !known.agents.has(input.treatment.agentSlug)) issues.push({ path: "agent_slug", message: `No agent "${input.treatment.agentSlug}".` });
+  if (input.speciesId && !known.species.has(input.speciesId))
+    issues.push({ path: "species_id", message: `No species "${input.speciesId}" in the catalogue.` });
+  if (input.conditionSlug && !known.conditions.has(input.conditionSlug))
+    issues.push({ path: "condition_slug", message: `No condition "${input.conditionSlug}".` });
+  if (input.treatment.agentSlug && !known.agents.has(input.treatment.agentSlug))
+    issues.push({ path: "agent_slug", message: `No agent "${input.treatment.agentSlug}".` });
   const status = str(r.status) ?? "awaiting_review";
-  if (!(importStatuses as readonly string[]).includes(status)) issues.push({ path: "status", message: "status must be accepted, awaiting_review, returned, declined or retracted (or empty)." });
+  if (!(importStatuses as readonly string[]).includes(status))
+    issues.push({
+      path: "status",
+      message: "status must be accepted, awaiting_review, returned, declined or retracted (or empty).",
+    });
   const times: Record<string, Date | null> = {};
   for (const column of ["submitted_at", "decided_at"] as const) {
     const v = str(r[column]);
     times[column] = null;
     if (v === undefined) continue;
     if (isoTime.safeParse(v).success) times[column] = new Date(v);
-    else issues.push({ path: column, message: `${column} must be a date and time (ISO 8601, for example 2026-05-01T12:00:00Z), or empty.` });
+    else
+      issues.push({
+        path: column,
+        message: `${column} must be a date and time (ISO 8601, for example 2026-05-01T12:00:00Z), or empty.`,
+      });
   }
   let events: ExchangedEvent[] = [];
   const eventsCell = str(r.review_events);
@@ -230,14 +324,27 @@ async function checkRow(
     try {
       json = JSON.parse(eventsCell);
     } catch {
-      issues.push({ path: "review_events", message: "review_events must be a JSON array of { at, actor, action, from, to, note }, as the export writes it." });
+      issues.push({
+        path: "review_events",
+        message:
+          "review_events must be a JSON array of { at, actor, action, from, to, note }, as the export writes it.",
+      });
     }
     if (json !== undefined) {
       const ev = eventsSchema.safeParse(json);
-      if (!ev.success) issues.push(...ev.error.issues.map((i) => ({ path: ["review_events", ...i.path.map(String)].join("."), message: i.message })));
+      if (!ev.success)
+        issues.push(
+          ...ev.error.issues.map((i) => ({
+            path: ["review_events", ...i.path.map(String)].join("."),
+            message: i.message,
+          })),
+        );
       else {
-        const bad = ev.data.flatMap((e, k) => [e.actor, e.note].flatMap((s) => (s && controlCharacterIn(s) ? [k] : [])));
-        if (bad.length) issues.push({ path: `review_events.${bad[0]}`, message: "Contains a control character; remove it." });
+        const bad = ev.data.flatMap((e, k) =>
+          [e.actor, e.note].flatMap((s) => (s && controlCharacterIn(s) ? [k] : [])),
+        );
+        if (bad.length)
+          issues.push({ path: `review_events.${bad[0]}`, message: "Contains a control character; remove it." });
         else events = ev.data;
       }
     }
@@ -256,9 +363,15 @@ async function checkRow(
   const decided = status !== "awaiting_review";
   return {
     good: {
-      row, id, status: status as GoodRow["status"], reporter, fingerprint: fingerprint(check.data, reporter),
-      columns: { ...columns, ...derived }, events,
-      submittedAt: times.submitted_at ?? new Date(), decidedAt: times.decided_at ?? (decided ? new Date() : null),
+      row,
+      id,
+      status: status as GoodRow["status"],
+      reporter,
+      fingerprint: fingerprint(check.data, reporter),
+      columns: { ...columns, ...derived },
+      events,
+      submittedAt: times.submitted_at ?? new Date(),
+      decidedAt: times.decided_at ?? (decided ? new Date() : null),
     },
   };
 }
@@ -286,7 +399,11 @@ export async function runReportsImport(p: PreparedImport, opts: ImportOptions = 
   for (let start = 0; start < rows.length; start += CHECK_CHUNK) {
     const chunk = rows.slice(start, start + CHECK_CHUNK);
     const ids = chunk.map((r) => str(r.id)).filter((x): x is string => !!x && ID.test(x));
-    const present = new Set(ids.length ? (await db.select({ id: reports.id }).from(reports).where(inArray(reports.id, ids))).map((x) => x.id) : []);
+    const present = new Set(
+      ids.length
+        ? (await db.select({ id: reports.id }).from(reports).where(inArray(reports.id, ids))).map((x) => x.id)
+        : [],
+    );
     const checked: (Omit<GoodRow, "id" | "hadId"> & { id: string | undefined })[] = [];
     for (const [k, raw] of chunk.entries()) {
       const row = start + k + 2;
@@ -305,7 +422,13 @@ export async function runReportsImport(p: PreparedImport, opts: ImportOptions = 
       }
     }
     const prints = checked.filter((g) => !g.id).map((g) => g.fingerprint);
-    const printed = new Set(prints.length ? (await db.select({ f: reports.fingerprint }).from(reports).where(inArray(reports.fingerprint, prints))).map((x) => x.f) : []);
+    const printed = new Set(
+      prints.length
+        ? (await db.select({ f: reports.fingerprint }).from(reports).where(inArray(reports.fingerprint, prints))).map(
+            (x) => x.f,
+          )
+        : [],
+    );
     for (const g of checked) {
       if (!g.id && (printed.has(g.fingerprint) || seenPrints.has(g.fingerprint))) {
         result.skipped += 1;
@@ -389,16 +512,34 @@ async function writeBatch(tx: Tx, actor: Actor, batch: GoodRow[]): Promise<GoodR
   await tx.execute(sql`select pg_advisory_xact_lock(hashtext('tanklore.reports-import'))`);
   const ids = batch.filter((g) => g.hadId).map((g) => g.id);
   const prints = batch.filter((g) => !g.hadId).map((g) => g.fingerprint);
-  const taken = new Set(ids.length ? (await tx.select({ id: reports.id }).from(reports).where(inArray(reports.id, ids))).map((x) => x.id) : []);
-  const printed = new Set(prints.length ? (await tx.select({ f: reports.fingerprint }).from(reports).where(inArray(reports.fingerprint, prints))).map((x) => x.f) : []);
+  const taken = new Set(
+    ids.length
+      ? (await tx.select({ id: reports.id }).from(reports).where(inArray(reports.id, ids))).map((x) => x.id)
+      : [],
+  );
+  const printed = new Set(
+    prints.length
+      ? (await tx.select({ f: reports.fingerprint }).from(reports).where(inArray(reports.fingerprint, prints))).map(
+          (x) => x.f,
+        )
+      : [],
+  );
   const fresh = batch.filter((g) => (g.hadId ? !taken.has(g.id) : !printed.has(g.fingerprint)));
   if (!fresh.length) return [];
   const inserted = await tx
     .insert(reports)
     .values(
       fresh.map((g) => ({
-        ...g.columns, id: g.id, authorId: actor.id, status: g.status, source: "import", externalReporter: g.reporter, fingerprint: g.fingerprint,
-        showName: false, submittedAt: g.submittedAt, decidedAt: g.decidedAt,
+        ...g.columns,
+        id: g.id,
+        authorId: actor.id,
+        status: g.status,
+        source: "import",
+        externalReporter: g.reporter,
+        fingerprint: g.fingerprint,
+        showName: false,
+        submittedAt: g.submittedAt,
+        decidedAt: g.decidedAt,
       })),
     )
     .onConflictDoNothing({ target: reports.id })
@@ -407,8 +548,26 @@ async function writeBatch(tx: Tx, actor: Actor, batch: GoodRow[]): Promise<GoodR
   const written = fresh.filter((g) => done.has(g.id));
   const now = new Date();
   const events = written.flatMap((g) => [
-    ...g.events.map((e) => ({ reportId: g.id, actorId: null, actorName: e.actor, action: e.action, fromStatus: e.from, toStatus: e.to, note: e.note, at: new Date(e.at) })),
-    { reportId: g.id, actorId: actor.id, actorName: null, action: "imported", fromStatus: null, toStatus: g.status, note: `CSV row ${g.row}`, at: now },
+    ...g.events.map((e) => ({
+      reportId: g.id,
+      actorId: null,
+      actorName: e.actor,
+      action: e.action,
+      fromStatus: e.from,
+      toStatus: e.to,
+      note: e.note,
+      at: new Date(e.at),
+    })),
+    {
+      reportId: g.id,
+      actorId: actor.id,
+      actorName: null,
+      action: "imported",
+      fromStatus: null,
+      toStatus: g.status,
+      note: `CSV row ${g.row}`,
+      at: now,
+    },
   ]);
   // Bounded statements: PostgreSQL takes at most 65,535 parameters in one.
   for (let k = 0; k < events.length; k += 2000) await tx.insert(reportEvents).values(events.slice(k, k + 2000));
@@ -418,6 +577,10 @@ async function writeBatch(tx: Tx, actor: Actor, batch: GoodRow[]): Promise<GoodR
 }
 
 /** Checks and imports a reports CSV in one call (the API's synchronous answer). */
-export async function importReportsCsv(actor: Actor | null, text: string, opts: ImportOptions = {}): Promise<ImportResult> {
+export async function importReportsCsv(
+  actor: Actor | null,
+  text: string,
+  opts: ImportOptions = {},
+): Promise<ImportResult> {
   return runReportsImport(prepareReportsImport(actor, text), opts);
 }

@@ -15,7 +15,16 @@ import pg from "pg";
 import tar from "tar-stream";
 import { schema, type Db } from "@/db/client";
 import { acquireLock, releaseLock } from "@/db/lock";
-import { archivePaths, BACKUP_FORMAT, BACKUP_FORMAT_VERSION, countClub, pgToolConnection, secretFingerprint, type BackupCounts, type BackupManifest } from "./backup";
+import {
+  archivePaths,
+  BACKUP_FORMAT,
+  BACKUP_FORMAT_VERSION,
+  countClub,
+  pgToolConnection,
+  secretFingerprint,
+  type BackupCounts,
+  type BackupManifest,
+} from "./backup";
 import { objectStorage } from "@/features/shared/server/object-storage";
 
 const run = promisify(execFile);
@@ -45,7 +54,8 @@ export interface RestoreResult {
 }
 
 // Only these names may come out of an archive: nothing can be written outside the target.
-const allowedEntry = /^(manifest\.json|auth-secret|database\/(pgdata\.tar|tanklore\.pgdump)|uploads\/[\w-]+(\/[\w.-]+)*)$/;
+const allowedEntry =
+  /^(manifest\.json|auth-secret|database\/(pgdata\.tar|tanklore\.pgdump)|uploads\/[\w-]+(\/[\w.-]+)*)$/;
 
 async function extract(file: string, into: string): Promise<void> {
   const ex = tar.extract();
@@ -55,7 +65,9 @@ async function extract(file: string, into: string): Promise<void> {
       const name = entry.header.name;
       if (entry.header.type !== "file" || !allowedEntry.test(name) || name.split("/").includes("..")) {
         entry.resume();
-        throw new RestoreRefusedError(`The archive holds an unexpected entry "${name}"; it is not a Tanklore backup. Nothing was restored.`);
+        throw new RestoreRefusedError(
+          `The archive holds an unexpected entry "${name}"; it is not a Tanklore backup. Nothing was restored.`,
+        );
       }
       const out = path.join(into, name);
       await fsp.mkdir(path.dirname(out), { recursive: true });
@@ -66,7 +78,10 @@ async function extract(file: string, into: string): Promise<void> {
     ex.destroy();
     await done.catch(() => undefined);
     if (err instanceof RestoreRefusedError) throw err;
-    throw new RestoreRefusedError(`The archive could not be read (${(err as Error).message}); it is damaged or not a Tanklore backup. Nothing was restored.`, { cause: err });
+    throw new RestoreRefusedError(
+      `The archive could not be read (${(err as Error).message}); it is damaged or not a Tanklore backup. Nothing was restored.`,
+      { cause: err },
+    );
   }
 }
 
@@ -79,21 +94,36 @@ async function sha256(file: string): Promise<string> {
 /** Reads the manifest and checks every file against it: size, checksum, and nothing more or less. */
 async function verify(dir: string): Promise<BackupManifest> {
   const manifestFile = path.join(dir, archivePaths.manifest);
-  if (!fs.existsSync(manifestFile)) throw new RestoreRefusedError("The archive has no manifest.json; it is not a Tanklore backup. Nothing was restored.");
+  if (!fs.existsSync(manifestFile))
+    throw new RestoreRefusedError(
+      "The archive has no manifest.json; it is not a Tanklore backup. Nothing was restored.",
+    );
   const manifest = JSON.parse(await fsp.readFile(manifestFile, "utf8")) as BackupManifest;
-  if (manifest.format !== BACKUP_FORMAT) throw new RestoreRefusedError("The archive's manifest is not a Tanklore backup's. Nothing was restored.");
+  if (manifest.format !== BACKUP_FORMAT)
+    throw new RestoreRefusedError("The archive's manifest is not a Tanklore backup's. Nothing was restored.");
   if (manifest.formatVersion > BACKUP_FORMAT_VERSION) {
-    throw new RestoreRefusedError(`The archive was made by a newer Tanklore (backup format ${manifest.formatVersion}, app ${manifest.appVersion}); update this copy first. Nothing was restored.`);
+    throw new RestoreRefusedError(
+      `The archive was made by a newer Tanklore (backup format ${manifest.formatVersion}, app ${manifest.appVersion}); update this copy first. Nothing was restored.`,
+    );
   }
   const listed = new Set(manifest.files.map((f) => f.path));
   for (const f of manifest.files) {
     const abs = path.join(dir, f.path);
-    if (!fs.existsSync(abs)) throw new RestoreRefusedError(`The archive lacks ${f.path}, which its manifest lists; it is incomplete. Nothing was restored.`);
+    if (!fs.existsSync(abs))
+      throw new RestoreRefusedError(
+        `The archive lacks ${f.path}, which its manifest lists; it is incomplete. Nothing was restored.`,
+      );
     const [size, sum] = [(await fsp.stat(abs)).size, await sha256(abs)];
-    if (size !== f.bytes || sum !== f.sha256) throw new RestoreRefusedError(`${f.path} does not match its checksum in the manifest; the archive is damaged. Nothing was restored.`);
+    if (size !== f.bytes || sum !== f.sha256)
+      throw new RestoreRefusedError(
+        `${f.path} does not match its checksum in the manifest; the archive is damaged. Nothing was restored.`,
+      );
   }
   for (const rel of await walk(dir)) {
-    if (rel !== archivePaths.manifest && !listed.has(rel)) throw new RestoreRefusedError(`The archive holds ${rel}, which its manifest does not list; it has been altered. Nothing was restored.`);
+    if (rel !== archivePaths.manifest && !listed.has(rel))
+      throw new RestoreRefusedError(
+        `The archive holds ${rel}, which its manifest does not list; it has been altered. Nothing was restored.`,
+      );
   }
   return manifest;
 }
@@ -111,8 +141,12 @@ async function walk(dir: string, prefix = ""): Promise<string[]> {
 /** Refuses a data directory holding anything but a backups/ folder (where the nightly archives may sit). */
 function assertEmptyDataDir(dir: string): void {
   if (!fs.existsSync(dir)) return;
-  if (!fs.statSync(dir).isDirectory()) throw new RestoreRefusedError(`${dir} is not a directory. Nothing was restored.`);
-  const found = fs.readdirSync(dir).filter((n) => n !== "backups").sort();
+  if (!fs.statSync(dir).isDirectory())
+    throw new RestoreRefusedError(`${dir} is not a directory. Nothing was restored.`);
+  const found = fs
+    .readdirSync(dir)
+    .filter((n) => n !== "backups")
+    .sort();
   if (found.length) {
     throw new RestoreRefusedError(
       `The data directory ${dir} is not empty (it holds ${found.slice(0, 5).join(", ")}${found.length > 5 ? ", …" : ""}). ` +
@@ -126,7 +160,9 @@ async function assertEmptyDatabase(url: string): Promise<void> {
   try {
     await client.connect();
   } catch (err) {
-    throw new RestoreRefusedError(`Could not connect to DATABASE_URL (${(err as Error).message}). Nothing was restored.`);
+    throw new RestoreRefusedError(
+      `Could not connect to DATABASE_URL (${(err as Error).message}). Nothing was restored.`,
+    );
   }
   try {
     const r = await client.query<{ n: string }>(
@@ -145,11 +181,20 @@ async function assertEmptyDatabase(url: string): Promise<void> {
 async function pgRestore(url: string, file: string): Promise<void> {
   try {
     const { dbname, env } = pgToolConnection(url);
-    await run("pg_restore", ["--no-owner", "--no-privileges", "--exit-on-error", `--dbname=${dbname}`, file], { env, maxBuffer: 16 * 1024 * 1024 });
+    await run("pg_restore", ["--no-owner", "--no-privileges", "--exit-on-error", `--dbname=${dbname}`, file], {
+      env,
+      maxBuffer: 16 * 1024 * 1024,
+    });
   } catch (err) {
     const e = err as NodeJS.ErrnoException & { stderr?: string };
-    if (e.code === "ENOENT") throw new RestoreRefusedError("pg_restore was not found on PATH; install the PostgreSQL client tools (the server's major version). Nothing was restored.");
-    throw new Error(`pg_restore failed: ${e.stderr?.trim() || e.message}. The database at DATABASE_URL may hold part of the club: drop and recreate it before trying again.`, { cause: err });
+    if (e.code === "ENOENT")
+      throw new RestoreRefusedError(
+        "pg_restore was not found on PATH; install the PostgreSQL client tools (the server's major version). Nothing was restored.",
+      );
+    throw new Error(
+      `pg_restore failed: ${e.stderr?.trim() || e.message}. The database at DATABASE_URL may hold part of the club: drop and recreate it before trying again.`,
+      { cause: err },
+    );
   }
 }
 
@@ -170,10 +215,14 @@ export async function restoreBackup(file: string, target: RestoreTarget): Promis
     await extract(file, work);
     const manifest = await verify(work);
     if (manifest.database.kind === "pglite" && target.databaseUrl) {
-      throw new RestoreRefusedError("This archive holds an embedded (PGlite) database; unset DATABASE_URL to restore it into DATA_DIR. Nothing was restored.");
+      throw new RestoreRefusedError(
+        "This archive holds an embedded (PGlite) database; unset DATABASE_URL to restore it into DATA_DIR. Nothing was restored.",
+      );
     }
     if (manifest.database.kind === "postgres" && !target.databaseUrl) {
-      throw new RestoreRefusedError("This archive holds a PostgreSQL server's dump; set DATABASE_URL to an empty database to restore it. Nothing was restored.");
+      throw new RestoreRefusedError(
+        "This archive holds a PostgreSQL server's dump; set DATABASE_URL to an empty database to restore it. Nothing was restored.",
+      );
     }
 
     await fsp.mkdir(dataDir, { recursive: true });
@@ -201,7 +250,10 @@ export async function restoreBackup(file: string, target: RestoreTarget): Promis
       }
     }
     for (const k of Object.keys(manifest.counts) as (keyof BackupCounts)[]) {
-      if (counts[k] !== manifest.counts[k]) throw new Error(`The restored database holds ${counts[k]} ${k} where the backup counted ${manifest.counts[k]}.`);
+      if (counts[k] !== manifest.counts[k])
+        throw new Error(
+          `The restored database holds ${counts[k]} ${k} where the backup counted ${manifest.counts[k]}.`,
+        );
     }
 
     const uploads = path.join(work, "uploads");
@@ -223,12 +275,24 @@ export async function restoreBackup(file: string, target: RestoreTarget): Promis
       written.push(path.join(dataDir, "auth-secret"));
       await fsp.copyFile(path.join(work, archivePaths.secret), path.join(dataDir, "auth-secret"));
       await fsp.chmod(path.join(dataDir, "auth-secret"), 0o600);
-      if (target.authSecretEnv) warnings.push("BETTER_AUTH_SECRET is set here and takes precedence over the restored auth-secret file; unset it, or sessions and export pseudonyms will change.");
+      if (target.authSecretEnv)
+        warnings.push(
+          "BETTER_AUTH_SECRET is set here and takes precedence over the restored auth-secret file; unset it, or sessions and export pseudonyms will change.",
+        );
     } else if (manifest.authSecret.source === "environment") {
-      if (!target.authSecretEnv) warnings.push("The backed-up club took its secret from BETTER_AUTH_SECRET, which the archive does not hold: set the same value before starting, or members must sign in again and export pseudonyms change.");
-      else if (secretFingerprint(target.authSecretEnv) !== manifest.authSecret.fingerprint) warnings.push("BETTER_AUTH_SECRET differs from the backed-up club's: set the old value, or members must sign in again and export pseudonyms change.");
+      if (!target.authSecretEnv)
+        warnings.push(
+          "The backed-up club took its secret from BETTER_AUTH_SECRET, which the archive does not hold: set the same value before starting, or members must sign in again and export pseudonyms change.",
+        );
+      else if (secretFingerprint(target.authSecretEnv) !== manifest.authSecret.fingerprint)
+        warnings.push(
+          "BETTER_AUTH_SECRET differs from the backed-up club's: set the old value, or members must sign in again and export pseudonyms change.",
+        );
     }
-    if (photoFiles < counts.photos * 2) warnings.push(`${counts.photos * 2 - photoFiles} photo files named by the database were missing when the backup was taken.`);
+    if (photoFiles < counts.photos * 2)
+      warnings.push(
+        `${counts.photos * 2 - photoFiles} photo files named by the database were missing when the backup was taken.`,
+      );
     return { manifest, counts, photoFiles, warnings };
   } catch (err) {
     for (const p of written.reverse()) await fsp.rm(p, { recursive: true, force: true });

@@ -27,7 +27,10 @@ export async function startCatcher(port: number): Promise<{ port: number; close:
         }
         objectStorage()
           .put(`mail/${name}`, Buffer.concat(chunks), "message/rfc822")
-          .then(() => callback(), (err: Error) => callback(err));
+          .then(
+            () => callback(),
+            (err: Error) => callback(err),
+          );
       });
     },
   });

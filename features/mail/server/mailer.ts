@@ -57,8 +57,13 @@ export interface StoredMail {
 /** Messages kept by the local mail catcher, newest first, for admins; links are masked. */
 export async function listCaughtMail({ actor }: Caller, limit = 100): Promise<StoredMail[]> {
   authorize(actor, canReadOutbox, "read the mail outbox");
-  const objects = (await objectStorage().list("mail/")).filter((o) => o.key.endsWith(".eml")).reverse().slice(0, limit);
-  return (await Promise.all(objects.map((o) => readStored(o.key.slice("mail/".length), o.modifiedAt)))).filter((m): m is StoredMail => m !== null);
+  const objects = (await objectStorage().list("mail/"))
+    .filter((o) => o.key.endsWith(".eml"))
+    .reverse()
+    .slice(0, limit);
+  return (await Promise.all(objects.map((o) => readStored(o.key.slice("mail/".length), o.modifiedAt)))).filter(
+    (m): m is StoredMail => m !== null,
+  );
 }
 
 /** One kept message for an admin, links masked; null when there is no such message. */

@@ -1,7 +1,8 @@
 import "server-only";
 import type { OutgoingMail } from "./mailer";
 
-const footer = "\n\n— Tanklore, your club's treatment-outcome registry.\nYou get this because of an action on your account.";
+const footer =
+  "\n\n— Tanklore, your club's treatment-outcome registry.\nYou get this because of an action on your account.";
 
 export function verificationMail(to: string, name: string, url: string): OutgoingMail {
   return {

@@ -32,7 +32,8 @@ function RoleSelect({ member }: { member: Member }) {
   const [error, setError] = useState<string | null>(null);
   const [pending, setPending] = useState<Role | null>(null);
   const change = useMutation({
-    mutationFn: (role: Role) => fetchJson(`/api/admin/members/${member.id}`, { method: "PATCH", body: JSON.stringify({ role }) }),
+    mutationFn: (role: Role) =>
+      fetchJson(`/api/admin/members/${member.id}`, { method: "PATCH", body: JSON.stringify({ role }) }),
     onSuccess: () => {
       setError(null);
       setPending(null);
@@ -62,12 +63,26 @@ function RoleSelect({ member }: { member: Member }) {
       {proposed ? (
         <div className="mt-1 flex flex-wrap items-center gap-2 text-sm" id={`${id}-confirm`} data-testid="role-confirm">
           <span>
-            Make {member.name} {proposed === "admin" ? "an" : "a"} {roleWords[proposed] ?? proposed} (now {roleWords[member.role as Role] ?? member.role})?
+            Make {member.name} {proposed === "admin" ? "an" : "a"} {roleWords[proposed] ?? proposed} (now{" "}
+            {roleWords[member.role as Role] ?? member.role})?
           </span>
-          <button type="button" disabled={change.isPending} onClick={() => change.mutate(proposed)} className="rounded-md bg-peat-700 px-2 py-1 font-bold text-white">
+          <button
+            type="button"
+            disabled={change.isPending}
+            onClick={() => change.mutate(proposed)}
+            className="rounded-md bg-peat-700 px-2 py-1 font-bold text-white"
+          >
             {change.isPending ? "Changing…" : "Change role"}
           </button>
-          <button type="button" disabled={change.isPending} onClick={() => { setPending(null); setError(null); }} className="rounded-md border border-peat-500 px-2 py-1">
+          <button
+            type="button"
+            disabled={change.isPending}
+            onClick={() => {
+              setPending(null);
+              setError(null);
+            }}
+            className="rounded-md border border-peat-500 px-2 py-1"
+          >
             Cancel
           </button>
         </div>
@@ -92,7 +107,8 @@ const columns = helper.columns([
   }),
   helper.accessor("createdAt", {
     header: "Joined",
-    cell: (c) => new Date(c.getValue()).toLocaleDateString("en-GB", { year: "numeric", month: "short", day: "numeric" }),
+    cell: (c) =>
+      new Date(c.getValue()).toLocaleDateString("en-GB", { year: "numeric", month: "short", day: "numeric" }),
   }),
 ]);
 
@@ -160,11 +176,38 @@ export function MembersTable() {
           {query.error instanceof ApiError ? query.error.message : "The member list could not be loaded."}
         </p>
       ) : null}
-      <TableView table={table} caption="Club members, sortable by column" empty={query.isPending ? <p className="py-8">Loading members…</p> : (
-        <EmptyState icon={<SearchX />} title="No member matches." action={<button type="button" className={emptyQuietActionClass} onClick={() => { setQ(""); setRole(""); server.firstPage(); }}>Clear the search</button>}>
-          {q || role ? "No name or e-mail address fits the search and role chosen above." : "Nobody has joined the club yet."}
-        </EmptyState>
-      )} columnCount={columns.length} />
+      <TableView
+        table={table}
+        caption="Club members, sortable by column"
+        empty={
+          query.isPending ? (
+            <p className="py-8">Loading members…</p>
+          ) : (
+            <EmptyState
+              icon={<SearchX />}
+              title="No member matches."
+              action={
+                <button
+                  type="button"
+                  className={emptyQuietActionClass}
+                  onClick={() => {
+                    setQ("");
+                    setRole("");
+                    server.firstPage();
+                  }}
+                >
+                  Clear the search
+                </button>
+              }
+            >
+              {q || role
+                ? "No name or e-mail address fits the search and role chosen above."
+                : "Nobody has joined the club yet."}
+            </EmptyState>
+          )
+        }
+        columnCount={columns.length}
+      />
       <Pager table={table} label="Member list pages" page={pagination.pageIndex + 1} pages={pages} />
     </div>
   );

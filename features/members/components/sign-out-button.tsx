@@ -5,7 +5,11 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { authClient } from "../auth-client";
 
-export function SignOutButton({ className = "flex items-center gap-1.5 rounded px-2 py-1 text-peat-100 underline hover:text-white" }: { className?: string }) {
+export function SignOutButton({
+  className = "flex items-center gap-1.5 rounded px-2 py-1 text-peat-100 underline hover:text-white",
+}: {
+  className?: string;
+}) {
   const router = useRouter();
   const [busy, setBusy] = useState(false);
   return (

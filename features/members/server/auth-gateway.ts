@@ -22,7 +22,13 @@ export function authPath(req: Request): string {
   } catch {
     // Not valid percent-encoding: compare it as it came.
   }
-  return p.replace(/\/{2,}/g, "/").replace(/^\/api\/auth/i, "").replace(/\/+$/, "").toLowerCase() || "/";
+  return (
+    p
+      .replace(/\/{2,}/g, "/")
+      .replace(/^\/api\/auth/i, "")
+      .replace(/\/+$/, "")
+      .toLowerCase() || "/"
+  );
 }
 
 /** Refuses over-long names and addresses (422) wherever a better-auth body carries them. */
@@ -45,9 +51,12 @@ function checkFields(body: unknown): void {
 export async function handleAuthRequest(req: Request): Promise<Response> {
   const path = authPath(req);
   // The admin plugin's routes are closed (see closedAdminPaths), however the path is spelled.
-  if (path === "/admin" || path.startsWith("/admin/")) throw new AppError("not_found", "That sign-in route is not available.");
+  if (path === "/admin" || path.startsWith("/admin/"))
+    throw new AppError("not_found", "That sign-in route is not available.");
   const hasBody = req.method !== "GET" && req.method !== "HEAD";
-  const raw = hasBody ? await readBody(req, AUTH_BODY_LIMIT, `The body is larger than ${AUTH_BODY_LIMIT / 1024} KB.`) : null;
+  const raw = hasBody
+    ? await readBody(req, AUTH_BODY_LIMIT, `The body is larger than ${AUTH_BODY_LIMIT / 1024} KB.`)
+    : null;
   let body: unknown = undefined;
   if (raw && raw.length && (req.headers.get("content-type") ?? "").includes("application/json")) {
     try {
@@ -62,9 +71,15 @@ export async function handleAuthRequest(req: Request): Promise<Response> {
   headers.delete(CLIENT_ADDRESS_HEADER);
   const address = clientAddress(req.headers);
   if (address) headers.set(CLIENT_ADDRESS_HEADER, address);
-  const forwarded = new Request(req.url, { method: req.method, headers, body: raw && raw.length ? new Uint8Array(raw) : undefined, redirect: "manual" });
+  const forwarded = new Request(req.url, {
+    method: req.method,
+    headers,
+    body: raw && raw.length ? new Uint8Array(raw) : undefined,
+    redirect: "manual",
+  });
 
-  const email = path === "/sign-in/email" && body && typeof body === "object" ? (body as { email?: unknown }).email : undefined;
+  const email =
+    path === "/sign-in/email" && body && typeof body === "object" ? (body as { email?: unknown }).email : undefined;
   if (typeof email === "string" && email) {
     const check = await countSignInAttempt(email);
     if (!check.allowed) {
@@ -76,7 +91,10 @@ export async function handleAuthRequest(req: Request): Promise<Response> {
             message: `Too many wrong passwords for this account: password sign-in is paused for about ${minutes} minute${minutes === 1 ? "" : "s"}. To get in sooner, reset your password.`,
           },
         },
-        { status: 429, headers: { "Retry-After": String(check.retryAfter), "X-Retry-After": String(check.retryAfter) } },
+        {
+          status: 429,
+          headers: { "Retry-After": String(check.retryAfter), "X-Retry-After": String(check.retryAfter) },
+        },
       );
     }
   }

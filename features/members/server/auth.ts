@@ -23,10 +23,21 @@ import { clearSignInAttempts } from "./sign-in-guard";
  * setting and removal have no place in the app.
  */
 export const closedAdminPaths = [
-  "/admin/set-role", "/admin/get-user", "/admin/create-user", "/admin/update-user", "/admin/list-users",
-  "/admin/list-user-sessions", "/admin/unban-user", "/admin/ban-user", "/admin/impersonate-user",
-  "/admin/stop-impersonating", "/admin/revoke-user-session", "/admin/revoke-user-sessions", "/admin/remove-user",
-  "/admin/set-user-password", "/admin/has-permission",
+  "/admin/set-role",
+  "/admin/get-user",
+  "/admin/create-user",
+  "/admin/update-user",
+  "/admin/list-users",
+  "/admin/list-user-sessions",
+  "/admin/unban-user",
+  "/admin/ban-user",
+  "/admin/impersonate-user",
+  "/admin/stop-impersonating",
+  "/admin/revoke-user-session",
+  "/admin/revoke-user-sessions",
+  "/admin/remove-user",
+  "/admin/set-user-password",
+  "/admin/has-permission",
 ];
 
 /** The session secret: BETTER_AUTH_SECRET, or one generated once and kept in the data directory. */
@@ -70,7 +81,9 @@ async function createAuth() {
       },
       // Sign-up with a known address answers like a fresh one; the owner hears of it instead.
       async onExistingUserSignUp({ user }) {
-        sendMailLater(signUpAttemptMail(user.email, user.name, `${publicBaseUrl()}/sign-in`, `${publicBaseUrl()}/forgot-password`));
+        sendMailLater(
+          signUpAttemptMail(user.email, user.name, `${publicBaseUrl()}/sign-in`, `${publicBaseUrl()}/forgot-password`),
+        );
       },
       customSyntheticUser: ({ coreFields, additionalFields, id }) => ({
         ...coreFields,
@@ -102,7 +115,10 @@ async function createAuth() {
           // the app's changeMemberRole (which writes directly) is the one place that does.
           async before(data) {
             if ("role" in data || data.banned === true) {
-              throw new APIError("FORBIDDEN", { message: "Roles change only on the members page.", code: "ROLE_CHANGE_CLOSED" });
+              throw new APIError("FORBIDDEN", {
+                message: "Roles change only on the members page.",
+                code: "ROLE_CHANGE_CLOSED",
+              });
             }
           },
         },

@@ -22,7 +22,10 @@ export async function changeMemberRole(actor: Actor | null, userId: string, role
       .from(users)
       .where(and(eq(users.role, "admin"), ne(users.id, userId)));
     if ((others?.n ?? 0) === 0) {
-      throw new AppError("conflict", "This is the club's only admin: make someone else admin before changing this role.");
+      throw new AppError(
+        "conflict",
+        "This is the club's only admin: make someone else admin before changing this role.",
+      );
     }
   }
   await db.transaction(async (tx) => {

@@ -25,4 +25,3 @@ export function assertRole(actor: Actor | null, allowed: readonly Role[], what?:
   if (!actor) throw unauthenticated();
   if (!allowed.includes(actor.role)) throw forbidden(what);
 }
-

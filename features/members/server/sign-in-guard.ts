@@ -40,10 +40,16 @@ export async function countSignInAttempt(rawEmail: string, now = new Date()): Pr
     const windowStartedAt = fresh ? now : row.windowStartedAt;
     if (attempts > SIGN_IN_LIMIT.attempts) {
       const lockedUntil = new Date(now.getTime() + SIGN_IN_LIMIT.pauseMinutes * 60_000);
-      await tx.update(signInLimits).set({ attempts, windowStartedAt, lockedUntil }).where(eq(signInLimits.email, email));
+      await tx
+        .update(signInLimits)
+        .set({ attempts, windowStartedAt, lockedUntil })
+        .where(eq(signInLimits.email, email));
       return { allowed: false as const, retryAfter: secondsUntil(lockedUntil, now), newlyLocked: true };
     }
-    await tx.update(signInLimits).set({ attempts, windowStartedAt, lockedUntil: null }).where(eq(signInLimits.email, email));
+    await tx
+      .update(signInLimits)
+      .set({ attempts, windowStartedAt, lockedUntil: null })
+      .where(eq(signInLimits.email, email));
     return { allowed: true as const, newlyLocked: false };
   });
   if (result.newlyLocked) await tellOwner(email);
@@ -63,9 +69,15 @@ function secondsUntil(t: Date, now: Date): number {
 
 async function tellOwner(email: string): Promise<void> {
   const db = await getDb();
-  const [owner] = await db.select({ name: users.name, email: users.email }).from(users).where(eq(users.email, email)).limit(1);
+  const [owner] = await db
+    .select({ name: users.name, email: users.email })
+    .from(users)
+    .where(eq(users.email, email))
+    .limit(1);
   if (!owner) return; // Guesses at an address with no account: nobody to tell.
-  sendMailLater(signInLockedMail(owner.email, owner.name, SIGN_IN_LIMIT.pauseMinutes, `${publicBaseUrl()}/forgot-password`));
+  sendMailLater(
+    signInLockedMail(owner.email, owner.name, SIGN_IN_LIMIT.pauseMinutes, `${publicBaseUrl()}/forgot-password`),
+  );
 }
 
 /** Rows for addresses whose window and pause are over (guesses at random addresses would otherwise pile up). */
@@ -74,5 +86,10 @@ async function pruneSignInLimits(now: Date): Promise<void> {
   const cutoff = new Date(now.getTime() - SIGN_IN_LIMIT.windowMinutes * 60_000);
   await db
     .delete(signInLimits)
-    .where(and(lt(signInLimits.windowStartedAt, cutoff), or(isNull(signInLimits.lockedUntil), lt(signInLimits.lockedUntil, now))));
+    .where(
+      and(
+        lt(signInLimits.windowStartedAt, cutoff),
+        or(isNull(signInLimits.lockedUntil), lt(signInLimits.lockedUntil, now)),
+      ),
+    );
 }

@@ -6,7 +6,11 @@ import { AppError, notFound } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { getVisibleReportRow, recordEvent } from "@/features/reports/server";
 import { readBody } from "@/features/shared/server/http";
-import { claimIdempotencyKey, storeIdempotentResponse, type IdempotencyClaim } from "@/features/shared/server/idempotency";
+import {
+  claimIdempotencyKey,
+  storeIdempotentResponse,
+  type IdempotencyClaim,
+} from "@/features/shared/server/idempotency";
 import { MAX_PHOTO_BYTES, processPhoto } from "./process";
 import { photoStorage } from "./storage";
 
@@ -17,34 +21,56 @@ export const stages = ["before", "during", "after"] as const;
 export async function readUpload(req: Request): Promise<{ file: Buffer; stage: string }> {
   const limit = MAX_PHOTO_BYTES + 64 * 1024;
   const type = req.headers.get("content-type") ?? "";
-  if (!type.startsWith("multipart/form-data")) throw new AppError("unsupported_type", "Send the photo as multipart/form-data with the file in the field named file.");
+  if (!type.startsWith("multipart/form-data"))
+    throw new AppError(
+      "unsupported_type",
+      "Send the photo as multipart/form-data with the file in the field named file.",
+    );
   const body = await readBody(req, limit, "Photos can be at most 10 MB. Save a smaller copy and try again.");
   if (body.length === 0) throw new AppError("bad_request", "The upload was empty.");
   let form: FormData;
   try {
     form = await new Response(new Uint8Array(body), { headers: { "content-type": type } }).formData();
   } catch {
-    throw new AppError("bad_request", "The upload could not be read as a form; send the photo in the field named file.");
+    throw new AppError(
+      "bad_request",
+      "The upload could not be read as a form; send the photo in the field named file.",
+    );
   }
   const file = form.get("file");
-  if (!file || typeof file === "string") throw new AppError("invalid", "No photo was attached.", [{ path: "file", message: "Attach the photo in the field named file." }]);
+  if (!file || typeof file === "string")
+    throw new AppError("invalid", "No photo was attached.", [
+      { path: "file", message: "Attach the photo in the field named file." },
+    ]);
   const stage = String(form.get("stage") ?? "during");
   return { file: Buffer.from(await file.arrayBuffer()), stage };
 }
 
-const tooManyPhotos = () => new AppError("conflict", `A report holds at most ${MAX_PHOTOS_PER_REPORT} photos; remove one first.`);
+const tooManyPhotos = () =>
+  new AppError("conflict", `A report holds at most ${MAX_PHOTOS_PER_REPORT} photos; remove one first.`);
 
 async function countPhotos(db: Pick<Db, "select">, reportId: string): Promise<number> {
   const [row] = await db.select({ n: count() }).from(schema.photos).where(eq(schema.photos.reportId, reportId));
   return row?.n ?? 0;
 }
 
-export async function addPhoto(actor: Actor | null, reportId: string, file: Buffer, stage: string, idempotency?: IdempotencyClaim) {
+export async function addPhoto(
+  actor: Actor | null,
+  reportId: string,
+  file: Buffer,
+  stage: string,
+  idempotency?: IdempotencyClaim,
+) {
   if (!actor) throw new AppError("unauthenticated", "Sign in to add photos.");
   const report = await getVisibleReportRow(actor, reportId);
-  if (report.authorId !== actor.id) throw new AppError("forbidden", "Only the member who filed a report may add its photos.");
-  if (!["draft", "returned"].includes(report.status)) throw new AppError("conflict", "Photos can be added while the report is a draft or returned for changes.");
-  if (!(stages as readonly string[]).includes(stage)) throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "stage", message: "stage must be before, during or after." }]);
+  if (report.authorId !== actor.id)
+    throw new AppError("forbidden", "Only the member who filed a report may add its photos.");
+  if (!["draft", "returned"].includes(report.status))
+    throw new AppError("conflict", "Photos can be added while the report is a draft or returned for changes.");
+  if (!(stages as readonly string[]).includes(stage))
+    throw new AppError("invalid", "Some fields need fixing; see issues.", [
+      { path: "stage", message: "stage must be before, during or after." },
+    ]);
   const db = await getDb();
   // A quick refusal before the costly image work; the count that counts is taken under the lock below.
   if ((await countPhotos(db, reportId)) >= MAX_PHOTOS_PER_REPORT) throw tooManyPhotos();
@@ -62,11 +88,33 @@ export async function addPhoto(actor: Actor | null, reportId: string, file: Buff
       await claimIdempotencyKey(tx, idempotency);
       // Parallel uploads to one report queue on its row (FOR UPDATE; PGlite runs one transaction at a time anyway),
       // so each counts the photos the others stored and the limit holds.
-      const [locked] = await tx.select({ status: schema.reports.status }).from(schema.reports).where(eq(schema.reports.id, reportId)).for("update");
-      if (!locked || !["draft", "returned"].includes(locked.status)) throw new AppError("conflict", "Photos can be added while the report is a draft or returned for changes.");
+      const [locked] = await tx
+        .select({ status: schema.reports.status })
+        .from(schema.reports)
+        .where(eq(schema.reports.id, reportId))
+        .for("update");
+      if (!locked || !["draft", "returned"].includes(locked.status))
+        throw new AppError("conflict", "Photos can be added while the report is a draft or returned for changes.");
       if ((await countPhotos(tx, reportId)) >= MAX_PHOTOS_PER_REPORT) throw tooManyPhotos();
-      await tx.insert(schema.photos).values({ id, reportId, uploaderId: actor.id, stage, width: r.width, height: r.height, bytes: r.full.length, fullKey, thumbKey });
-      await recordEvent(tx, { reportId, actorId: actor.id, action: "photo_added", from: locked.status, to: locked.status, note: stage });
+      await tx.insert(schema.photos).values({
+        id,
+        reportId,
+        uploaderId: actor.id,
+        stage,
+        width: r.width,
+        height: r.height,
+        bytes: r.full.length,
+        fullKey,
+        thumbKey,
+      });
+      await recordEvent(tx, {
+        reportId,
+        actorId: actor.id,
+        action: "photo_added",
+        from: locked.status,
+        to: locked.status,
+        note: stage,
+      });
       await storeIdempotentResponse(tx, idempotency, result);
     });
   } catch (err) {
@@ -98,8 +146,10 @@ export async function removePhoto(actor: Actor | null, photoId: string) {
   const report = await getVisibleReportRow(actor, photo.reportId).catch(() => {
     throw notFound("That photo");
   });
-  if (report.authorId !== actor.id) throw new AppError("forbidden", "Only the member who filed a report may remove its photos.");
-  if (!["draft", "returned"].includes(report.status)) throw new AppError("conflict", "Photos can be removed while the report is a draft or returned.");
+  if (report.authorId !== actor.id)
+    throw new AppError("forbidden", "Only the member who filed a report may remove its photos.");
+  if (!["draft", "returned"].includes(report.status))
+    throw new AppError("conflict", "Photos can be removed while the report is a draft or returned.");
   await db.delete(schema.photos).where(eq(schema.photos.id, photoId));
   await photoStorage().remove(photo.fullKey);
   await photoStorage().remove(photo.thumbKey);

@@ -38,7 +38,10 @@ export class DiskStorage implements PhotoStorage {
 
 /** Photo keys ("<report>/<id>-full.jpg") under uploads/ of the shared storage. */
 class PrefixedStorage implements PhotoStorage {
-  constructor(private readonly inner: ObjectStorage, private readonly prefix: string) {}
+  constructor(
+    private readonly inner: ObjectStorage,
+    private readonly prefix: string,
+  ) {}
   put(key: string, data: Buffer): Promise<void> {
     return this.inner.put(this.prefix + key, data, "image/jpeg");
   }

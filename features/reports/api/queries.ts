@@ -31,7 +31,13 @@ export const reportKeys = {
 };
 
 export function myReportsQuery(p: MyReportsParams) {
-  const q = new URLSearchParams({ scope: "mine", sort: p.sort, dir: p.dir, page: String(p.page), pageSize: String(p.pageSize) });
+  const q = new URLSearchParams({
+    scope: "mine",
+    sort: p.sort,
+    dir: p.dir,
+    page: String(p.page),
+    pageSize: String(p.pageSize),
+  });
   if (p.status) q.set("status", p.status);
   return queryOptions({
     queryKey: reportKeys.mine(p),

@@ -41,7 +41,14 @@ function toLocalInput(iso: string): string {
   const d = new Date(iso);
   return new Date(d.getTime() - d.getTimezoneOffset() * 60000).toISOString().slice(0, 16);
 }
-const fmtTime = (iso: string) => new Date(iso).toLocaleString("en-GB", { weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" });
+const fmtTime = (iso: string) =>
+  new Date(iso).toLocaleString("en-GB", {
+    weekday: "short",
+    day: "numeric",
+    month: "short",
+    hour: "2-digit",
+    minute: "2-digit",
+  });
 const round = (n: number, digits = 1) => n.toLocaleString("en-GB", { maximumFractionDigits: digits });
 
 /** "in 5 hours", "2 days ago": the words for a time relative to now. */
@@ -56,11 +63,19 @@ function inWords(iso: string, now = Date.now()): string {
 
 /** An API error as one sentence, whether the server asks the keeper to confirm an unusual value, and the guard rails it names. */
 function explain(err: unknown): { message: string; needsConfirm: boolean; rails: RailWarning[] } {
-  if (!(err instanceof ApiError)) return { message: "The entry could not be saved; try again.", needsConfirm: false, rails: [] };
+  if (!(err instanceof ApiError))
+    return { message: "The entry could not be saved; try again.", needsConfirm: false, rails: [] };
   const issues = (err.body.issues ?? []) as { path: string; message: string; code?: string }[];
   // Guard-rail warnings are shown on their own, to be acknowledged; the other reasons stay in the sentence.
-  const rails = issues.filter((i) => i.code).map((i) => ({ code: i.code!, message: i.message.replace(/ If you have read this and it is right, send confirm: true if it is right\.$/, "") }));
-  const rest = issues.filter((i) => !i.code).map((i) => i.message.replace(/send confirm: true if it is right\./, "confirm below if it is right."));
+  const rails = issues
+    .filter((i) => i.code)
+    .map((i) => ({
+      code: i.code!,
+      message: i.message.replace(/ If you have read this and it is right, send confirm: true if it is right\.$/, ""),
+    }));
+  const rest = issues
+    .filter((i) => !i.code)
+    .map((i) => i.message.replace(/send confirm: true if it is right\./, "confirm below if it is right."));
   return {
     message: [err.message.replace("see issues", "see below"), ...rest].join(" "),
     needsConfirm: err.status === 422 && issues.length > 0 && issues.every((i) => /confirm: true/.test(i.message)),
@@ -74,25 +89,48 @@ function ConfirmBox({ rails, busy, onConfirm }: { rails: RailWarning[]; busy: bo
   return (
     <div className="grid min-w-0 gap-2" data-testid="entry-confirm">
       {rails.length ? (
-        <div role="alert" className="grid min-w-0 gap-2 rounded-lg border-2 border-alarm-500 bg-alarm-100 p-3 text-alarm-700" data-testid="entry-rails">
+        <div
+          role="alert"
+          className="grid min-w-0 gap-2 rounded-lg border-2 border-alarm-500 bg-alarm-100 p-3 text-alarm-700"
+          data-testid="entry-rails"
+        >
           <p className="font-bold">Stop and read before you log this dose</p>
           <ul className="list-disc space-y-1 pl-5">
-            {rails.map((w) => <li key={w.code} data-code={w.code}>{w.message}</li>)}
+            {rails.map((w) => (
+              <li key={w.code} data-code={w.code}>
+                {w.message}
+              </li>
+            ))}
           </ul>
           <label className="flex items-start gap-2 font-bold">
-            <input type="checkbox" className="mt-1" checked={read} onChange={(e) => setRead(e.target.checked)} />
-            I have read these warnings; this is what I gave.
+            <input type="checkbox" className="mt-1" checked={read} onChange={(e) => setRead(e.target.checked)} />I have
+            read these warnings; this is what I gave.
           </label>
         </div>
       ) : null}
-      <button type="button" disabled={busy || (rails.length > 0 && !read)} onClick={onConfirm} className="justify-self-start rounded-md border-2 border-alarm-700 px-4 py-2 font-bold text-alarm-700 disabled:opacity-50">
+      <button
+        type="button"
+        disabled={busy || (rails.length > 0 && !read)}
+        onClick={onConfirm}
+        className="justify-self-start rounded-md border-2 border-alarm-700 px-4 py-2 font-bold text-alarm-700 disabled:opacity-50"
+      >
         Yes, it is right: save it
       </button>
     </div>
   );
 }
 
-export function CourseLog({ reportId, entries, open, figures }: { reportId: string; entries: CourseEntryView[]; open: boolean; figures?: CourseFiguresView | null }) {
+export function CourseLog({
+  reportId,
+  entries,
+  open,
+  figures,
+}: {
+  reportId: string;
+  entries: CourseEntryView[];
+  open: boolean;
+  figures?: CourseFiguresView | null;
+}) {
   const router = useRouter();
   const id = useId();
   const [kind, setKind] = useState<"dose" | "observation">("dose");
@@ -124,8 +162,12 @@ export function CourseLog({ reportId, entries, open, figures }: { reportId: stri
       await fetchJson(`/api/reports/${reportId}/entries`, {
         method: "POST",
         body: JSON.stringify({
-          kind, at: new Date(at).toISOString(), ...(confirm ? { confirm: true } : {}),
-          ...(kind === "dose" ? { amountMl: Number(amount.replace(",", ".")) || undefined } : { text: text.trim() || undefined, photoId }),
+          kind,
+          at: new Date(at).toISOString(),
+          ...(confirm ? { confirm: true } : {}),
+          ...(kind === "dose"
+            ? { amountMl: Number(amount.replace(",", ".")) || undefined }
+            : { text: text.trim() || undefined, photoId }),
         }),
       });
       setAmount("");
@@ -152,37 +194,77 @@ export function CourseLog({ reportId, entries, open, figures }: { reportId: stri
 
   return (
     <section className="grid min-w-0 gap-3" aria-labelledby={`${id}-title`}>
-      <h2 id={`${id}-title`} className="text-xl font-bold text-peat-900">Course log</h2>
+      <h2 id={`${id}-title`} className="text-xl font-bold text-peat-900">
+        Course log
+      </h2>
       {figures?.open ? <NextDose figures={figures} /> : null}
       {entries.length === 0 ? (
-        <p className="text-peat-700">Nothing logged yet. Log each dose when you give it; you will get an e-mail when the next one is due.</p>
+        <p className="text-peat-700">
+          Nothing logged yet. Log each dose when you give it; you will get an e-mail when the next one is due.
+        </p>
       ) : (
         <ol className="grid gap-2" data-testid="course-entries">
           {entries.map((e) => (
             <li key={e.id} className="grid min-w-0 gap-1 break-words" data-struck={e.struckAt ? "true" : undefined}>
               <div className={e.struckAt ? "text-peat-700 line-through" : undefined}>
-                <time dateTime={e.at} className="font-bold">{new Date(e.at).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}</time>{" "}
+                <time dateTime={e.at} className="font-bold">
+                  {new Date(e.at).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}
+                </time>{" "}
                 — {e.kind === "dose" ? `dose of ${e.amountMl} mL` : e.text}
-                {e.kind === "dose" && e.concentration != null ? <span data-testid="entry-concentration"> → {round(e.concentration, 2)} {figures?.unit ?? "mg/L"}</span> : null}
-                {e.kind === "dose" && e.concentration != null && figures?.unit === "g/L" && figures.volumeL ? <span> ({round(e.concentration * figures.volumeL, 1)} g of salt)</span> : null}
+                {e.kind === "dose" && e.concentration != null ? (
+                  <span data-testid="entry-concentration">
+                    {" "}
+                    → {round(e.concentration, 2)} {figures?.unit ?? "mg/L"}
+                  </span>
+                ) : null}
+                {e.kind === "dose" && e.concentration != null && figures?.unit === "g/L" && figures.volumeL ? (
+                  <span> ({round(e.concentration * figures.volumeL, 1)} g of salt)</span>
+                ) : null}
                 {e.kind === "dose" && e.text ? <span> ({e.text})</span> : null}
                 {e.photoId ? (
                   <a href={`/api/photos/${e.photoId}?size=full`} className="ml-2 inline-block align-middle">
-                    <img src={`/api/photos/${e.photoId}?size=thumb`} alt="Photo with this observation" className="inline h-12 rounded border border-peat-100" />
+                    <img
+                      src={`/api/photos/${e.photoId}?size=thumb`}
+                      alt="Photo with this observation"
+                      className="inline h-12 rounded border border-peat-100"
+                    />
                   </a>
                 ) : null}
               </div>
               {e.warnings?.length ? (
                 <ul className="grid gap-1 text-sm font-bold text-alarm-700" data-testid="entry-warning">
-                  {e.warnings.map((w) => <li key={w.code} data-code={w.code}>Warning acknowledged: {w.message}</li>)}
+                  {e.warnings.map((w) => (
+                    <li key={w.code} data-code={w.code}>
+                      Warning acknowledged: {w.message}
+                    </li>
+                  ))}
                 </ul>
               ) : null}
-              {e.struckAt ? <span className="text-sm text-peat-700">Struck out {new Date(e.struckAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}; kept in the history.</span> : null}
+              {e.struckAt ? (
+                <span className="text-sm text-peat-700">
+                  Struck out {new Date(e.struckAt).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}
+                  ; kept in the history.
+                </span>
+              ) : null}
               {open && !e.struckAt ? (
                 editing === e.id ? (
-                  <EntryEditor reportId={reportId} entry={e} onDone={() => { setEditing(null); router.refresh(); }} onCancel={() => setEditing(null)} />
+                  <EntryEditor
+                    reportId={reportId}
+                    entry={e}
+                    onDone={() => {
+                      setEditing(null);
+                      router.refresh();
+                    }}
+                    onCancel={() => setEditing(null)}
+                  />
                 ) : (
-                  <button type="button" className="justify-self-start text-sm underline" onClick={() => setEditing(e.id)}>Correct or strike out</button>
+                  <button
+                    type="button"
+                    className="justify-self-start text-sm underline"
+                    onClick={() => setEditing(e.id)}
+                  >
+                    Correct or strike out
+                  </button>
                 )
               ) : null}
             </li>
@@ -190,32 +272,99 @@ export function CourseLog({ reportId, entries, open, figures }: { reportId: stri
         </ol>
       )}
       {open ? (
-        <form onSubmit={onSubmit} className="grid w-full max-w-xl min-w-0 gap-3 rounded-lg border border-peat-100 bg-white p-4" aria-label="Add to the course log">
+        <form
+          onSubmit={onSubmit}
+          className="grid w-full max-w-xl min-w-0 gap-3 rounded-lg border border-peat-100 bg-white p-4"
+          aria-label="Add to the course log"
+        >
           <fieldset className="flex flex-wrap gap-4">
             <legend className="sr-only">What to log</legend>
-            <label className="flex items-center gap-2"><input type="radio" name="kind" checked={kind === "dose"} onChange={() => setKind("dose")} /> A dose</label>
-            <label className="flex items-center gap-2"><input type="radio" name="kind" checked={kind === "observation"} onChange={() => setKind("observation")} /> An observation</label>
+            <label className="flex items-center gap-2">
+              <input type="radio" name="kind" checked={kind === "dose"} onChange={() => setKind("dose")} /> A dose
+            </label>
+            <label className="flex items-center gap-2">
+              <input
+                type="radio"
+                name="kind"
+                checked={kind === "observation"}
+                onChange={() => setKind("observation")}
+              />{" "}
+              An observation
+            </label>
           </fieldset>
-          <label htmlFor={`${id}-at`} className="font-bold">When</label>
-          <input id={`${id}-at`} type="datetime-local" value={at} onChange={(e) => { setAt(e.target.value); setConfirming(false); setRails([]); }} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
+          <label htmlFor={`${id}-at`} className="font-bold">
+            When
+          </label>
+          <input
+            id={`${id}-at`}
+            type="datetime-local"
+            value={at}
+            onChange={(e) => {
+              setAt(e.target.value);
+              setConfirming(false);
+              setRails([]);
+            }}
+            className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
+          />
           {kind === "dose" ? (
             <>
-              <label htmlFor={`${id}-ml`} className="font-bold">mL of stock added</label>
-              <input id={`${id}-ml`} inputMode="decimal" value={amount} onChange={(e) => { setAmount(e.target.value); setConfirming(false); setRails([]); }} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
+              <label htmlFor={`${id}-ml`} className="font-bold">
+                mL of stock added
+              </label>
+              <input
+                id={`${id}-ml`}
+                inputMode="decimal"
+                value={amount}
+                onChange={(e) => {
+                  setAmount(e.target.value);
+                  setConfirming(false);
+                  setRails([]);
+                }}
+                className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
+              />
             </>
           ) : (
             <>
-              <label htmlFor={`${id}-text`} className="font-bold">What you saw</label>
-              <textarea id={`${id}-text`} rows={3} value={text} onChange={(e) => setText(e.target.value)} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
-              <label htmlFor={`${id}-photo`} className="font-bold">Photo (optional)</label>
-              <input id={`${id}-photo`} type="file" accept="image/jpeg,image/png,image/webp,image/avif" onChange={(e) => setPhoto(e.target.files?.[0] ?? null)} className="w-full min-w-0" />
+              <label htmlFor={`${id}-text`} className="font-bold">
+                What you saw
+              </label>
+              <textarea
+                id={`${id}-text`}
+                rows={3}
+                value={text}
+                onChange={(e) => setText(e.target.value)}
+                className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
+              />
+              <label htmlFor={`${id}-photo`} className="font-bold">
+                Photo (optional)
+              </label>
+              <input
+                id={`${id}-photo`}
+                type="file"
+                accept="image/jpeg,image/png,image/webp,image/avif"
+                onChange={(e) => setPhoto(e.target.files?.[0] ?? null)}
+                className="w-full min-w-0"
+              />
             </>
           )}
-          {error ? <p role="alert" className="font-bold text-alarm-700">{error}</p> : null}
+          {error ? (
+            <p role="alert" className="font-bold text-alarm-700">
+              {error}
+            </p>
+          ) : null}
           <div className="flex flex-wrap gap-3">
-            <button type="submit" disabled={busy} className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white">{busy ? "Saving…" : "Add to the log"}</button>
+            <button type="submit" disabled={busy} className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white">
+              {busy ? "Saving…" : "Add to the log"}
+            </button>
           </div>
-          {confirming ? <ConfirmBox key={rails.map((r) => r.code).join()} rails={rails} busy={busy} onConfirm={() => void save(true)} /> : null}
+          {confirming ? (
+            <ConfirmBox
+              key={rails.map((r) => r.code).join()}
+              rails={rails}
+              busy={busy}
+              onConfirm={() => void save(true)}
+            />
+          ) : null}
         </form>
       ) : null}
     </section>
@@ -228,29 +377,75 @@ function NextDose({ figures }: { figures: CourseFiguresView }) {
     <div className="grid min-w-0 gap-2 rounded-lg border-2 border-peat-500 bg-white p-4" data-testid="next-dose">
       {next ? (
         <p>
-          <span className="font-bold">{next.first ? "First dose: due now" : Date.parse(next.at) <= Date.now() ? `Next dose: due since ${inWords(next.at)}` : `Next dose: ${inWords(next.at)}`}</span>
-          {next.first ? null : <> (<time dateTime={next.at}>{fmtTime(next.at)}</time>)</>} —{" "}
-          <span data-testid="next-dose-ml">{round(next.doseMl, 1)} mL</span>
-          {next.concentration != null ? <>, making <span data-testid="next-dose-concentration">{round(next.concentration, 2)} {next.unit}</span></> : null}
-          {figures.intervalHours ? <> (every {figures.intervalHours} h)</> : null}. Give it only if the fish took the last dose well.
+          <span className="font-bold">
+            {next.first
+              ? "First dose: due now"
+              : Date.parse(next.at) <= Date.now()
+                ? `Next dose: due since ${inWords(next.at)}`
+                : `Next dose: ${inWords(next.at)}`}
+          </span>
+          {next.first ? null : (
+            <>
+              {" "}
+              (<time dateTime={next.at}>{fmtTime(next.at)}</time>)
+            </>
+          )}{" "}
+          — <span data-testid="next-dose-ml">{round(next.doseMl, 1)} mL</span>
+          {next.concentration != null ? (
+            <>
+              , making{" "}
+              <span data-testid="next-dose-concentration">
+                {round(next.concentration, 2)} {next.unit}
+              </span>
+            </>
+          ) : null}
+          {figures.intervalHours ? <> (every {figures.intervalHours} h)</> : null}. Give it only if the fish took the
+          last dose well.
         </p>
       ) : (
-        <p className="font-bold">No further dose is planned{figures.watchUntil ? <>; keep watching until <time dateTime={figures.watchUntil}>{fmtTime(figures.watchUntil)}</time></> : null}.</p>
+        <p className="font-bold">
+          No further dose is planned
+          {figures.watchUntil ? (
+            <>
+              ; keep watching until <time dateTime={figures.watchUntil}>{fmtTime(figures.watchUntil)}</time>
+            </>
+          ) : null}
+          .
+        </p>
       )}
       {figures.nextDoseWarnings?.length ? (
-        <ul className="grid gap-1 rounded-md bg-alarm-100 p-2 font-bold text-alarm-700" data-testid="next-dose-warnings">
-          {figures.nextDoseWarnings.map((w) => <li key={w.code} data-code={w.code}>{w.message}</li>)}
+        <ul
+          className="grid gap-1 rounded-md bg-alarm-100 p-2 font-bold text-alarm-700"
+          data-testid="next-dose-warnings"
+        >
+          {figures.nextDoseWarnings.map((w) => (
+            <li key={w.code} data-code={w.code}>
+              {w.message}
+            </li>
+          ))}
         </ul>
       ) : null}
       <p className="font-bold">What to watch for</p>
       <ul className="ml-5 grid list-disc gap-1">
-        {figures.watchFor.map((w) => <li key={w}>{w}</li>)}
+        {figures.watchFor.map((w) => (
+          <li key={w}>{w}</li>
+        ))}
       </ul>
     </div>
   );
 }
 
-function EntryEditor({ reportId, entry, onDone, onCancel }: { reportId: string; entry: CourseEntryView; onDone: () => void; onCancel: () => void }) {
+function EntryEditor({
+  reportId,
+  entry,
+  onDone,
+  onCancel,
+}: {
+  reportId: string;
+  entry: CourseEntryView;
+  onDone: () => void;
+  onCancel: () => void;
+}) {
   const id = useId();
   const [at, setAt] = useState(() => toLocalInput(entry.at));
   const [amount, setAmount] = useState(entry.amountMl != null ? String(entry.amountMl) : "");
@@ -265,7 +460,10 @@ function EntryEditor({ reportId, entry, onDone, onCancel }: { reportId: string; 
     setBusy(true);
     setError(null);
     try {
-      await fetchJson(`/api/reports/${reportId}/entries/${entry.id}`, { method: "PATCH", body: JSON.stringify({ ...body, ...(note.trim() ? { note: note.trim() } : {}) }) });
+      await fetchJson(`/api/reports/${reportId}/entries/${entry.id}`, {
+        method: "PATCH",
+        body: JSON.stringify({ ...body, ...(note.trim() ? { note: note.trim() } : {}) }),
+      });
       onDone();
     } catch (err) {
       const e = explain(err);
@@ -291,29 +489,91 @@ function EntryEditor({ reportId, entry, onDone, onCancel }: { reportId: string; 
 
   return (
     <form
-      onSubmit={(e) => { e.preventDefault(); void send(changes(false)); }}
+      onSubmit={(e) => {
+        e.preventDefault();
+        void send(changes(false));
+      }}
       className="grid w-full max-w-xl min-w-0 gap-2 rounded-lg border border-peat-100 bg-white p-3"
       aria-label="Correct this entry"
     >
-      <label htmlFor={`${id}-at`} className="font-bold">When</label>
-      <input id={`${id}-at`} type="datetime-local" value={at} onChange={(e) => { setAt(e.target.value); setConfirming(false); }} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
+      <label htmlFor={`${id}-at`} className="font-bold">
+        When
+      </label>
+      <input
+        id={`${id}-at`}
+        type="datetime-local"
+        value={at}
+        onChange={(e) => {
+          setAt(e.target.value);
+          setConfirming(false);
+        }}
+        className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
+      />
       {entry.kind === "dose" ? (
         <>
-          <label htmlFor={`${id}-ml`} className="font-bold">mL of stock added</label>
-          <input id={`${id}-ml`} inputMode="decimal" value={amount} onChange={(e) => { setAmount(e.target.value); setConfirming(false); }} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
+          <label htmlFor={`${id}-ml`} className="font-bold">
+            mL of stock added
+          </label>
+          <input
+            id={`${id}-ml`}
+            inputMode="decimal"
+            value={amount}
+            onChange={(e) => {
+              setAmount(e.target.value);
+              setConfirming(false);
+            }}
+            className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
+          />
         </>
       ) : null}
-      <label htmlFor={`${id}-text`} className="font-bold">{entry.kind === "dose" ? "Note on the dose" : "What you saw"}</label>
-      <textarea id={`${id}-text`} rows={2} value={text} onChange={(e) => setText(e.target.value)} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
-      <label htmlFor={`${id}-note`} className="font-bold">Why (kept in the history)</label>
-      <input id={`${id}-note`} value={note} onChange={(e) => setNote(e.target.value)} className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2" />
-      {error ? <p role="alert" className="font-bold text-alarm-700">{error}</p> : null}
+      <label htmlFor={`${id}-text`} className="font-bold">
+        {entry.kind === "dose" ? "Note on the dose" : "What you saw"}
+      </label>
+      <textarea
+        id={`${id}-text`}
+        rows={2}
+        value={text}
+        onChange={(e) => setText(e.target.value)}
+        className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
+      />
+      <label htmlFor={`${id}-note`} className="font-bold">
+        Why (kept in the history)
+      </label>
+      <input
+        id={`${id}-note`}
+        value={note}
+        onChange={(e) => setNote(e.target.value)}
+        className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
+      />
+      {error ? (
+        <p role="alert" className="font-bold text-alarm-700">
+          {error}
+        </p>
+      ) : null}
       <div className="flex flex-wrap gap-3">
-        <button type="submit" disabled={busy} className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white">Save the correction</button>
-        <button type="button" disabled={busy} onClick={() => void send({ struck: true })} className="rounded-md border border-alarm-700 px-4 py-2 text-alarm-700">Strike out</button>
-        <button type="button" disabled={busy} onClick={onCancel} className="rounded-md px-4 py-2 underline">Cancel</button>
+        <button type="submit" disabled={busy} className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white">
+          Save the correction
+        </button>
+        <button
+          type="button"
+          disabled={busy}
+          onClick={() => void send({ struck: true })}
+          className="rounded-md border border-alarm-700 px-4 py-2 text-alarm-700"
+        >
+          Strike out
+        </button>
+        <button type="button" disabled={busy} onClick={onCancel} className="rounded-md px-4 py-2 underline">
+          Cancel
+        </button>
       </div>
-      {confirming ? <ConfirmBox key={rails.map((r) => r.code).join()} rails={rails} busy={busy} onConfirm={() => void send(changes(true))} /> : null}
+      {confirming ? (
+        <ConfirmBox
+          key={rails.map((r) => r.code).join()}
+          rails={rails}
+          busy={busy}
+          onConfirm={() => void send(changes(true))}
+        />
+      ) : null}
     </form>
   );
 }

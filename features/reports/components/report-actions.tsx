@@ -18,7 +18,11 @@ export function ReportActions({ id, status }: { id: string; status: string }) {
       router.push(then);
       router.refresh();
     } catch (err) {
-      setError(err instanceof ApiError ? [err.message, ...(err.body.issues ?? []).map((i) => `${i.path}: ${i.message}`)].join(" ") : "That did not work; try again.");
+      setError(
+        err instanceof ApiError
+          ? [err.message, ...(err.body.issues ?? []).map((i) => `${i.path}: ${i.message}`)].join(" ")
+          : "That did not work; try again.",
+      );
     } finally {
       setBusy(false);
     }
@@ -26,22 +30,38 @@ export function ReportActions({ id, status }: { id: string; status: string }) {
   return (
     <div className="grid gap-2">
       <div className="flex flex-wrap gap-3">
-        <Link href={`/reports/${id}/edit?step=0`} className="rounded-md border border-peat-500 px-4 py-2 font-bold no-underline">Edit</Link>
-        <button type="button" disabled={busy} onClick={() => run(`/api/reports/${id}/submit`, "POST", `/reports/${id}?submitted=1`)} className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white">
+        <Link
+          href={`/reports/${id}/edit?step=0`}
+          className="rounded-md border border-peat-500 px-4 py-2 font-bold no-underline"
+        >
+          Edit
+        </Link>
+        <button
+          type="button"
+          disabled={busy}
+          onClick={() => run(`/api/reports/${id}/submit`, "POST", `/reports/${id}?submitted=1`)}
+          className="rounded-md bg-peat-700 px-4 py-2 font-bold text-white"
+        >
           {status === "returned" ? "Resubmit for review" : "Submit for review"}
         </button>
         {status === "draft" ? (
           <button
             type="button"
             disabled={busy}
-            onClick={() => window.confirm("Delete this draft for good?") && run(`/api/reports/${id}`, "DELETE", "/reports")}
+            onClick={() =>
+              window.confirm("Delete this draft for good?") && run(`/api/reports/${id}`, "DELETE", "/reports")
+            }
             className="rounded-md border border-alarm-500 px-4 py-2 text-alarm-700"
           >
             Delete draft
           </button>
         ) : null}
       </div>
-      {error ? <p role="alert" className="font-bold text-alarm-700">{error}</p> : null}
+      {error ? (
+        <p role="alert" className="font-bold text-alarm-700">
+          {error}
+        </p>
+      ) : null}
     </div>
   );
 }

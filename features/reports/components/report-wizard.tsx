@@ -83,7 +83,6 @@ const steps = ["Fish", "Water", "Treatment", "Outcome", "Photos and submit"] as 
 // Set when the reader moves to another step; the step's heading then takes focus, so keyboard and screen-reader users
 // start at the top of the new step. Module-level, and a deadline rather than a flag, because saving a step renders the
 // new step and then remounts the wizard once the refreshed draft arrives (its key changes): both should focus.
-let focusStepHeadingUntil = 0;
 const s = (v: number | string | null | undefined) => (v == null ? "" : String(v));
 const labels: Record<string, string> = {
   juvenile: "Juvenile",
@@ -279,11 +278,15 @@ export function ReportWizard({
     ],
   });
   const stepHeading = useRef<HTMLHeadingElement>(null);
+  // Set when the keeper moves between steps (not on first load), so focus lands on the new step's heading.
+  const focusStepHeading = useRef(false);
   useEffect(() => {
-    if (Date.now() < focusStepHeadingUntil) stepHeading.current?.focus();
+    if (!focusStepHeading.current) return;
+    focusStepHeading.current = false;
+    stepHeading.current?.focus();
   }, [step]);
   const goTo = (n: number) => {
-    focusStepHeadingUntil = Date.now() + 3000;
+    focusStepHeading.current = true;
     setStep(n);
   };
 
@@ -349,7 +352,7 @@ export function ReportWizard({
       } else if (step < 4) {
         await fetchJson(`/api/reports/${reportId}`, { method: "PATCH", body: JSON.stringify(patch) });
       }
-      focusStepHeadingUntil = Date.now() + 10_000;
+      focusStepHeading.current = true;
       router.replace(`/reports/${reportId}/edit?step=${next}`);
       router.refresh();
       setStep(next);
@@ -404,6 +407,7 @@ export function ReportWizard({
   };
   const fld = (name: FieldPath<WizardValues>) => ({ fid: id, name, error: errorOf(name) });
   const onSave = handleSubmit(
+    // eslint-disable-next-line react-hooks/refs -- handleSubmit calls this on submit only, never during render
     (values) => save(values, step + 1),
     () => setBanner("Some answers need fixing before you go on; each one says what to change."),
   );

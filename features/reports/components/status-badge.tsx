@@ -23,7 +23,9 @@ const tone: Record<ReportStatus, string> = {
 export function StatusBadge({ status }: { status: ReportStatus }) {
   const Icon = icons[status];
   return (
-    <span className={`inline-flex items-center gap-1 whitespace-nowrap rounded border px-2 py-0.5 text-sm font-bold ${tone[status]}`}>
+    <span
+      className={`inline-flex items-center gap-1 whitespace-nowrap rounded border px-2 py-0.5 text-sm font-bold ${tone[status]}`}
+    >
       {Icon ? <Icon className="h-3.5 w-3.5 shrink-0" aria-hidden="true" /> : null}
       {statusLabels[status]}
     </span>

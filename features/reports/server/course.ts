@@ -35,7 +35,8 @@ async function ownOpenCourse(actor: Actor | null, reportId: string, what: string
   if (!actor) throw new AppError("unauthenticated", "Sign in to log a treatment course.");
   const row = await getReportRowById(reportId);
   if (!row || !canSeeReport(actor, row)) throw notFound("That report");
-  if (row.authorId !== actor.id) throw new AppError("forbidden", `Only the member who keeps a course may ${what} in it.`);
+  if (row.authorId !== actor.id)
+    throw new AppError("forbidden", `Only the member who keeps a course may ${what} in it.`);
   if (row.status !== "draft") throw new AppError("conflict", "This course has been submitted; its log is closed.");
   return row;
 }
@@ -43,11 +44,18 @@ async function ownOpenCourse(actor: Actor | null, reportId: string, what: string
 /** mg of active per mL of the report's stock, read the one shared way (readStrength); null when it cannot be read. */
 async function courseStock(db: Awaited<ReturnType<typeof getDb>>, row: ReportRow) {
   const [agent] = row.agentSlug ? await db.select().from(agents).where(eq(agents.slug, row.agentSlug)) : [];
-  const [preset] = row.stockFormId ? await db.select().from(schema.stockForms).where(eq(schema.stockForms.id, row.stockFormId)) : [];
+  const [preset] = row.stockFormId
+    ? await db.select().from(schema.stockForms).where(eq(schema.stockForms.id, row.stockFormId))
+    : [];
   let mgPerMl: number | null = null;
   try {
     if (row.stockPercent != null || preset) {
-      mgPerMl = readStrength({ percent: row.stockPercent ?? undefined, basis: (row.stockBasis ?? undefined) as StockBasis | undefined, densityGPerMl: row.stockDensityGPerMl, preset: preset ?? null }).mgPerMl;
+      mgPerMl = readStrength({
+        percent: row.stockPercent ?? undefined,
+        basis: (row.stockBasis ?? undefined) as StockBasis | undefined,
+        densityGPerMl: row.stockDensityGPerMl,
+        preset: preset ?? null,
+      }).mgPerMl;
     }
   } catch (err) {
     if (!(err instanceof DosingInputError)) throw err;
@@ -55,14 +63,24 @@ async function courseStock(db: Awaited<ReturnType<typeof getDb>>, row: ReportRow
   return { agent: agent ?? null, mgPerMl, unit: (agent?.unit ?? "mg/L") as ConcentrationUnit };
 }
 
-const liveDoses = (entries: EntryRow[]) => entries.filter((e) => e.kind === "dose" && !e.struckAt && e.amountMl != null).sort((a, b) => a.at.getTime() - b.at.getTime() || a.id - b.id);
+const liveDoses = (entries: EntryRow[]) =>
+  entries
+    .filter((e) => e.kind === "dose" && !e.struckAt && e.amountMl != null)
+    .sort((a, b) => a.at.getTime() - b.at.getTime() || a.id - b.id);
 
 /**
  * The planned single dose in mL: the report's stated concentration turned into mL, else the first dose logged
  * (other than `except`), else the amount the course was opened with. Null when there is nothing to go by.
  */
-function plannedDoseMl(row: ReportRow, mgPerMl: number | null, unit: ConcentrationUnit, entries: EntryRow[], except?: number): number | null {
-  if (row.statedConcentration != null && row.volumeL && mgPerMl) return doseMlForTarget(row.statedConcentration, row.volumeL, mgPerMl, unit);
+function plannedDoseMl(
+  row: ReportRow,
+  mgPerMl: number | null,
+  unit: ConcentrationUnit,
+  entries: EntryRow[],
+  except?: number,
+): number | null {
+  if (row.statedConcentration != null && row.volumeL && mgPerMl)
+    return doseMlForTarget(row.statedConcentration, row.volumeL, mgPerMl, unit);
   const first = liveDoses(entries).find((e) => e.id !== except);
   if (first) return first.amountMl;
   return liveDoses(entries).length === 0 ? row.amountMl : null;
@@ -77,7 +95,12 @@ export interface CourseOptions {
 }
 
 /** The guard rails that judge one dose (the evidence-only notes such as sparse_evidence are the planner's to show). */
-const doseRailCodes: readonly DoseWarningCode[] = ["above_ceiling", "at_or_above_lowest_adverse", "above_highest_tolerated", "above_bmdl"];
+const doseRailCodes: readonly DoseWarningCode[] = [
+  "above_ceiling",
+  "at_or_above_lowest_adverse",
+  "above_highest_tolerated",
+  "above_bmdl",
+];
 
 /**
  * The shared guard rails for a logged dose: the concentration its mL make in the course's water, against the agent's
@@ -85,17 +108,26 @@ const doseRailCodes: readonly DoseWarningCode[] = ["above_ceiling", "at_or_above
  */
 async function courseRails(db: Awaited<ReturnType<typeof getDb>>, row: ReportRow, options: CourseOptions) {
   const { agent, mgPerMl, unit } = await courseStock(db, row);
-  const evidence = agent && row.groupSlug && options.loadEvidence ? await options.loadEvidence(row.groupSlug, agent.slug) : undefined;
+  const evidence =
+    agent && row.groupSlug && options.loadEvidence ? await options.loadEvidence(row.groupSlug, agent.slug) : undefined;
   return (amountMl: number, label = "this dose"): DoseWarning[] => {
     if (!agent || !row.volumeL || !mgPerMl) return [];
     const concentration = concentrationFromMl(amountMl, row.volumeL, mgPerMl, unit);
-    return doseWarnings({ unit, ceiling: agent.plausibleCeiling, doses: [{ label, concentration }], evidence }).filter((w) => doseRailCodes.includes(w.code));
+    return doseWarnings({ unit, ceiling: agent.plausibleCeiling, doses: [{ label, concentration }], evidence }).filter(
+      (w) => doseRailCodes.includes(w.code),
+    );
   };
 }
 
 /** The 422 issues that ask the keeper to acknowledge each warning before the dose is logged. */
-const railIssues = (warnings: DoseWarning[]) => warnings.map((w) => ({ path: "amountMl", code: w.code, message: `${w.message} If you have read this and it is right, ${CONFIRM_HINT}` }));
-const acknowledgedNote = (warnings: DoseWarning[]) => (warnings.length ? `; warnings acknowledged: ${warnings.map((w) => w.code.replaceAll("_", " ")).join(", ")}` : "");
+const railIssues = (warnings: DoseWarning[]) =>
+  warnings.map((w) => ({
+    path: "amountMl",
+    code: w.code,
+    message: `${w.message} If you have read this and it is right, ${CONFIRM_HINT}`,
+  }));
+const acknowledgedNote = (warnings: DoseWarning[]) =>
+  warnings.length ? `; warnings acknowledged: ${warnings.map((w) => w.code.replaceAll("_", " ")).join(", ")}` : "";
 function amountNeedsConfirm(amountMl: number, planned: number | null): string | null {
   if (planned == null || !(amountMl > 3 * planned)) return null;
   return `${fmt(amountMl)} mL is more than 3× the planned dose of ${fmt(planned)} mL: check for a typo, or ${CONFIRM_HINT}`;
@@ -107,31 +139,63 @@ async function syncFromLog(tx: Tx, row: ReportRow, userId: string): Promise<void
   const all = await tx.select().from(courseEntries).where(eq(courseEntries.reportId, row.id));
   const doses = liveDoses(all);
   const peak = doses.reduce<number | null>((m, e) => (m == null || e.amountMl! > m ? e.amountMl! : m), null);
-  await tx.update(reports).set({ doses: doses.length || null, amountMl: peak, courseOpen: true, updatedAt: new Date() }).where(eq(reports.id, row.id));
+  await tx
+    .update(reports)
+    .set({ doses: doses.length || null, amountMl: peak, courseOpen: true, updatedAt: new Date() })
+    .where(eq(reports.id, row.id));
   await saveDerived(tx, row.id);
   await tx.delete(reminders).where(and(eq(reminders.reportId, row.id), isNull(reminders.sentAt)));
   const last = doses.at(-1);
   if (!last) return;
   const [agent] = row.agentSlug ? await tx.select().from(agents).where(eq(agents.slug, row.agentSlug)) : [];
   const interval = row.intervalHours ?? agent?.redoseHours ?? null;
-  if (interval) await tx.insert(reminders).values({ reportId: row.id, userId, kind: "next_dose", dueAt: new Date(last.at.getTime() + interval * HOUR) });
-  await tx.insert(reminders).values({ reportId: row.id, userId, kind: "outcome", dueAt: new Date(last.at.getTime() + (agent?.watchDays ?? 7) * 24 * HOUR) });
+  if (interval)
+    await tx
+      .insert(reminders)
+      .values({ reportId: row.id, userId, kind: "next_dose", dueAt: new Date(last.at.getTime() + interval * HOUR) });
+  await tx.insert(reminders).values({
+    reportId: row.id,
+    userId,
+    kind: "outcome",
+    dueAt: new Date(last.at.getTime() + (agent?.watchDays ?? 7) * 24 * HOUR),
+  });
 }
 
-const entryOut = (e: EntryRow) => ({ id: e.id, kind: e.kind, at: e.at.toISOString(), amountMl: e.amountMl, text: e.text, photoId: e.photoId, struckAt: e.struckAt?.toISOString() ?? null });
+const entryOut = (e: EntryRow) => ({
+  id: e.id,
+  kind: e.kind,
+  at: e.at.toISOString(),
+  amountMl: e.amountMl,
+  text: e.text,
+  photoId: e.photoId,
+  struckAt: e.struckAt?.toISOString() ?? null,
+});
 const when = (d: Date) => d.toISOString().slice(0, 16).replace("T", " ") + " UTC";
-const describe = (e: { kind: string; amountMl: number | null; text: string | null }) => (e.kind === "dose" ? `dose of ${e.amountMl} mL` : `"${e.text ?? ""}"`);
+const describe = (e: { kind: string; amountMl: number | null; text: string | null }) =>
+  e.kind === "dose" ? `dose of ${e.amountMl} mL` : `"${e.text ?? ""}"`;
 
 /** The member logs a dose or an observation on an open course; due reminders are (re)scheduled. */
-export async function addCourseEntry(actor: Actor | null, reportId: string, entry: z.infer<typeof courseEntrySchema>, options: CourseOptions = {}) {
+export async function addCourseEntry(
+  actor: Actor | null,
+  reportId: string,
+  entry: z.infer<typeof courseEntrySchema>,
+  options: CourseOptions = {},
+) {
   const row = await ownOpenCourse(actor, reportId, "log");
   const db = await getDb();
   const at = new Date(entry.at);
   if (entry.photoId) {
-    const [photo] = await db.select({ reportId: schema.photos.reportId }).from(schema.photos).where(eq(schema.photos.id, entry.photoId));
-    if (photo?.reportId !== reportId) throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "photoId", message: "That photo does not belong to this report; upload it to the report first." }]);
+    const [photo] = await db
+      .select({ reportId: schema.photos.reportId })
+      .from(schema.photos)
+      .where(eq(schema.photos.id, entry.photoId));
+    if (photo?.reportId !== reportId)
+      throw new AppError("invalid", "Some fields need fixing; see issues.", [
+        { path: "photoId", message: "That photo does not belong to this report; upload it to the report first." },
+      ]);
   }
-  const warnings = entry.kind === "dose" && entry.amountMl !== undefined ? (await courseRails(db, row, options))(entry.amountMl) : [];
+  const warnings =
+    entry.kind === "dose" && entry.amountMl !== undefined ? (await courseRails(db, row, options))(entry.amountMl) : [];
   if (entry.kind === "dose" && entry.amountMl !== undefined && !entry.confirm) {
     const { mgPerMl, unit } = await courseStock(db, row);
     const existing = await db.select().from(courseEntries).where(eq(courseEntries.reportId, reportId));
@@ -142,11 +206,25 @@ export async function addCourseEntry(actor: Actor | null, reportId: string, entr
   return db.transaction(async (tx) => {
     const [saved] = await tx
       .insert(courseEntries)
-      .values({ reportId, kind: entry.kind, at, amountMl: entry.amountMl ?? null, text: entry.text ?? null, photoId: entry.photoId ?? null })
+      .values({
+        reportId,
+        kind: entry.kind,
+        at,
+        amountMl: entry.amountMl ?? null,
+        text: entry.text ?? null,
+        photoId: entry.photoId ?? null,
+      })
       .returning();
     if (entry.kind === "dose") {
       await syncFromLog(tx, row, actor!.id);
-      await recordEvent(tx, { reportId, actorId: actor!.id, action: "dose_logged", from: "draft", to: "draft", note: `${entry.amountMl} mL${acknowledgedNote(warnings)}` });
+      await recordEvent(tx, {
+        reportId,
+        actorId: actor!.id,
+        action: "dose_logged",
+        from: "draft",
+        to: "draft",
+        note: `${entry.amountMl} mL${acknowledgedNote(warnings)}`,
+      });
     }
     return entryOut(saved!);
   });
@@ -156,7 +234,13 @@ export async function addCourseEntry(actor: Actor | null, reportId: string, entr
  * The keeper corrects an entry (amount, time, text) or strikes it out. Nothing is deleted: the old values go
  * into the report's history, and a struck entry stays in the log, crossed out. Unusual values need `confirm`.
  */
-export async function correctCourseEntry(actor: Actor | null, reportId: string, entryId: string, patch: CourseEntryPatch, options: CourseOptions = {}) {
+export async function correctCourseEntry(
+  actor: Actor | null,
+  reportId: string,
+  entryId: string,
+  patch: CourseEntryPatch,
+  options: CourseOptions = {},
+) {
   const row = await ownOpenCourse(actor, reportId, "correct entries");
   const db = await getDb();
   const id = /^[1-9][0-9]{0,9}$/.test(entryId) ? Number(entryId) : NaN;
@@ -165,12 +249,19 @@ export async function correctCourseEntry(actor: Actor | null, reportId: string, 
   if (!entry) throw notFound("That course entry");
   if (entry.struckAt) throw new AppError("conflict", "This entry is struck out; log a new entry instead.");
   if (patch.amountMl !== undefined && entry.kind !== "dose") {
-    throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "amountMl", message: "An observation has no amount; correct its text or time." }]);
+    throw new AppError("invalid", "Some fields need fixing; see issues.", [
+      { path: "amountMl", message: "An observation has no amount; correct its text or time." },
+    ]);
   }
   if (entry.kind === "observation" && patch.text !== undefined && !patch.text) {
-    throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "text", message: "Describe what you saw, or strike the observation out." }]);
+    throw new AppError("invalid", "Some fields need fixing; see issues.", [
+      { path: "text", message: "Describe what you saw, or strike the observation out." },
+    ]);
   }
-  const warnings = patch.amountMl !== undefined && !patch.struck ? (await courseRails(db, row, options))(patch.amountMl, "the corrected dose") : [];
+  const warnings =
+    patch.amountMl !== undefined && !patch.struck
+      ? (await courseRails(db, row, options))(patch.amountMl, "the corrected dose")
+      : [];
   if (patch.amountMl !== undefined && !patch.confirm) {
     const { mgPerMl, unit } = await courseStock(db, row);
     const problem = amountNeedsConfirm(patch.amountMl, plannedDoseMl(row, mgPerMl, unit, all, entry.id));
@@ -181,11 +272,23 @@ export async function correctCourseEntry(actor: Actor | null, reportId: string, 
     let note: string;
     let saved: EntryRow | undefined;
     if (patch.struck) {
-      [saved] = await tx.update(courseEntries).set({ struckAt: new Date() }).where(and(eq(courseEntries.id, entry.id), isNull(courseEntries.struckAt))).returning();
+      [saved] = await tx
+        .update(courseEntries)
+        .set({ struckAt: new Date() })
+        .where(and(eq(courseEntries.id, entry.id), isNull(courseEntries.struckAt)))
+        .returning();
       note = `struck out the ${describe(entry)} of ${when(entry.at)}`;
     } else {
-      const next = { at: patch.at ? new Date(patch.at) : entry.at, amountMl: patch.amountMl ?? entry.amountMl, text: patch.text !== undefined ? patch.text || null : entry.text };
-      [saved] = await tx.update(courseEntries).set(next).where(and(eq(courseEntries.id, entry.id), isNull(courseEntries.struckAt))).returning();
+      const next = {
+        at: patch.at ? new Date(patch.at) : entry.at,
+        amountMl: patch.amountMl ?? entry.amountMl,
+        text: patch.text !== undefined ? patch.text || null : entry.text,
+      };
+      [saved] = await tx
+        .update(courseEntries)
+        .set(next)
+        .where(and(eq(courseEntries.id, entry.id), isNull(courseEntries.struckAt)))
+        .returning();
       const changes = [
         next.amountMl !== entry.amountMl ? `amount ${entry.amountMl} mL → ${next.amountMl} mL` : null,
         next.at.getTime() !== entry.at.getTime() ? `time ${when(entry.at)} → ${when(next.at)}` : null,
@@ -195,7 +298,14 @@ export async function correctCourseEntry(actor: Actor | null, reportId: string, 
     }
     if (!saved) throw new AppError("conflict", "This entry was struck out meanwhile; reload the log.");
     if (entry.kind === "dose") await syncFromLog(tx, row, actor!.id);
-    await recordEvent(tx, { reportId, actorId: actor!.id, action: patch.struck ? "entry_struck" : "entry_corrected", from: "draft", to: "draft", note: patch.note ? `${note} — ${patch.note}` : note });
+    await recordEvent(tx, {
+      reportId,
+      actorId: actor!.id,
+      action: patch.struck ? "entry_struck" : "entry_corrected",
+      from: "draft",
+      to: "draft",
+      note: patch.note ? `${note} — ${patch.note}` : note,
+    });
     return entryOut(saved);
   });
 }
@@ -210,7 +320,11 @@ export async function getCourse(actor: Actor | null, reportId: string, options: 
   const db = await getDb();
   const { agent, mgPerMl, unit } = await courseStock(db, row);
   const rails = await courseRails(db, row, options);
-  const all = await db.select().from(courseEntries).where(eq(courseEntries.reportId, reportId)).orderBy(asc(courseEntries.at), asc(courseEntries.id));
+  const all = await db
+    .select()
+    .from(courseEntries)
+    .where(eq(courseEntries.reportId, reportId))
+    .orderBy(asc(courseEntries.at), asc(courseEntries.id));
   const figures = courseFigures(row, agent, mgPerMl, unit, all);
   return {
     ...figures,
@@ -236,11 +350,24 @@ export async function nextDosesOf(rows: ReportRow[]) {
   );
 }
 
-function concentrationOf(e: EntryRow, volumeL: number | null, mgPerMl: number | null, unit: ConcentrationUnit): number | null {
-  return e.kind === "dose" && e.amountMl != null && volumeL && mgPerMl ? concentrationFromMl(e.amountMl, volumeL, mgPerMl, unit) : null;
+function concentrationOf(
+  e: EntryRow,
+  volumeL: number | null,
+  mgPerMl: number | null,
+  unit: ConcentrationUnit,
+): number | null {
+  return e.kind === "dose" && e.amountMl != null && volumeL && mgPerMl
+    ? concentrationFromMl(e.amountMl, volumeL, mgPerMl, unit)
+    : null;
 }
 
-function courseFigures(row: ReportRow, agent: typeof agents.$inferSelect | null, mgPerMl: number | null, unit: ConcentrationUnit, all: EntryRow[]) {
+function courseFigures(
+  row: ReportRow,
+  agent: typeof agents.$inferSelect | null,
+  mgPerMl: number | null,
+  unit: ConcentrationUnit,
+  all: EntryRow[],
+) {
   const doses = liveDoses(all);
   const last = doses.at(-1);
   const interval = row.intervalHours ?? agent?.redoseHours ?? null;
@@ -249,21 +376,44 @@ function courseFigures(row: ReportRow, agent: typeof agents.$inferSelect | null,
   // Later doses repeat the last one given; before the first, the planned dose is due now.
   const nextMl = last?.amountMl ?? planned;
   const nextAt = last ? (interval ? new Date(last.at.getTime() + interval * HOUR) : null) : new Date();
-  const nextDose = open && nextAt && nextMl != null
-    ? { at: nextAt.toISOString(), doseMl: nextMl, concentration: row.volumeL && mgPerMl ? concentrationFromMl(nextMl, row.volumeL, mgPerMl, unit) : null, unit, first: !last }
-    : null;
+  const nextDose =
+    open && nextAt && nextMl != null
+      ? {
+          at: nextAt.toISOString(),
+          doseMl: nextMl,
+          concentration: row.volumeL && mgPerMl ? concentrationFromMl(nextMl, row.volumeL, mgPerMl, unit) : null,
+          unit,
+          first: !last,
+        }
+      : null;
   const watchDays = agent?.watchDays ?? 7;
   const watchFor = [
     "For the first hour after each dose: fish gasping at the surface, fast gill movement, clamped fins, loss of balance or colour. If you see them, do a large, temperature-matched water change at once.",
     `Keep watching for ${watchDays} days after the last dose, and record the outcome then.`,
     "Never add a dose because the last one seemed to do nothing; if fish get worse, ask an aquatic vet.",
   ];
-  return { open, unit, volumeL: row.volumeL, stockMgPerMl: mgPerMl, intervalHours: interval, plannedDoseMl: planned, nextDose, watchFor, watchUntil: last ? new Date(last.at.getTime() + watchDays * 24 * HOUR).toISOString() : null };
+  return {
+    open,
+    unit,
+    volumeL: row.volumeL,
+    stockMgPerMl: mgPerMl,
+    intervalHours: interval,
+    plannedDoseMl: planned,
+    nextDose,
+    watchFor,
+    watchUntil: last ? new Date(last.at.getTime() + watchDays * 24 * HOUR).toISOString() : null,
+  };
 }
 
 const reminderText = {
-  next_dose: { subject: "Next dose due", lead: "By the interval you chose, the next dose of your treatment course is due now." },
-  outcome: { subject: "Time to record the outcome", lead: "Your watching period after the last dose is over: record how the course ended." },
+  next_dose: {
+    subject: "Next dose due",
+    lead: "By the interval you chose, the next dose of your treatment course is due now.",
+  },
+  outcome: {
+    subject: "Time to record the outcome",
+    lead: "Your watching period after the last dose is over: record how the course ended.",
+  },
 } as const;
 
 /**
@@ -274,7 +424,14 @@ const reminderText = {
 export async function runDueReminders(now = new Date()): Promise<number> {
   const db = await getDb();
   const due = await db
-    .select({ id: reminders.id, kind: reminders.kind, reportId: reminders.reportId, email: users.email, name: users.name, status: reports.status })
+    .select({
+      id: reminders.id,
+      kind: reminders.kind,
+      reportId: reminders.reportId,
+      email: users.email,
+      name: users.name,
+      status: reports.status,
+    })
     .from(reminders)
     .innerJoin(users, eq(users.id, reminders.userId))
     .innerJoin(reports, eq(reports.id, reminders.reportId))
@@ -284,7 +441,11 @@ export async function runDueReminders(now = new Date()): Promise<number> {
   for (const r of due) {
     const t = reminderText[r.kind as keyof typeof reminderText] ?? reminderText.outcome;
     const took = await db.transaction(async (tx) => {
-      const [claimed] = await tx.update(reminders).set({ sentAt: now }).where(and(eq(reminders.id, r.id), isNull(reminders.sentAt))).returning({ id: reminders.id });
+      const [claimed] = await tx
+        .update(reminders)
+        .set({ sentAt: now })
+        .where(and(eq(reminders.id, r.id), isNull(reminders.sentAt)))
+        .returning({ id: reminders.id });
       if (!claimed || r.status !== "draft") return false;
       await queueMail(
         {

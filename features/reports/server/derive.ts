@@ -20,15 +20,28 @@ import type { ReportColumns, ReportRow } from "./mapping";
 export async function checkReferences(db: Db, c: ReportColumns): Promise<void> {
   const issues: FieldIssue[] = [];
   if (c.speciesId) {
-    const [s] = await db.select({ id: schema.species.id }).from(schema.species).where(eq(schema.species.id, c.speciesId));
-    if (!s) issues.push({ path: "speciesId", message: `No species "${c.speciesId}" in the catalogue; choose one, or "not listed" (null) and name it.` });
+    const [s] = await db
+      .select({ id: schema.species.id })
+      .from(schema.species)
+      .where(eq(schema.species.id, c.speciesId));
+    if (!s)
+      issues.push({
+        path: "speciesId",
+        message: `No species "${c.speciesId}" in the catalogue; choose one, or "not listed" (null) and name it.`,
+      });
   }
   if (c.conditionSlug) {
-    const [s] = await db.select({ slug: schema.conditions.slug }).from(schema.conditions).where(eq(schema.conditions.slug, c.conditionSlug));
+    const [s] = await db
+      .select({ slug: schema.conditions.slug })
+      .from(schema.conditions)
+      .where(eq(schema.conditions.slug, c.conditionSlug));
     if (!s) issues.push({ path: "conditionSlug", message: `No condition "${c.conditionSlug}" in the catalogue.` });
   }
   if (c.agentSlug) {
-    const [s] = await db.select({ slug: schema.agents.slug }).from(schema.agents).where(eq(schema.agents.slug, c.agentSlug));
+    const [s] = await db
+      .select({ slug: schema.agents.slug })
+      .from(schema.agents)
+      .where(eq(schema.agents.slug, c.agentSlug));
     if (!s) issues.push({ path: "treatment.agentSlug", message: `No agent "${c.agentSlug}" in the catalogue.` });
   }
   if (issues.length) throw new AppError("invalid", "Some fields need fixing; see issues.", issues);
@@ -40,10 +53,15 @@ export async function checkReferences(db: Db, c: ReportColumns): Promise<void> {
  */
 export async function derive(db: Db, r: ReportRow): Promise<ReportColumns> {
   const out: ReportColumns = {};
-  out.volumeL = r.waterVolume != null && r.waterVolumeUnit ? toLitres(r.waterVolume, r.waterVolumeUnit as VolumeUnit) : null;
-  out.temperatureC = r.temperature != null && r.temperatureUnit ? toCelsius(r.temperature, r.temperatureUnit as TemperatureUnit) : null;
+  out.volumeL =
+    r.waterVolume != null && r.waterVolumeUnit ? toLitres(r.waterVolume, r.waterVolumeUnit as VolumeUnit) : null;
+  out.temperatureC =
+    r.temperature != null && r.temperatureUnit ? toCelsius(r.temperature, r.temperatureUnit as TemperatureUnit) : null;
   if (r.speciesId) {
-    const [s] = await db.select({ groupSlug: schema.species.groupSlug, mergedInto: schema.species.mergedInto }).from(schema.species).where(eq(schema.species.id, r.speciesId));
+    const [s] = await db
+      .select({ groupSlug: schema.species.groupSlug, mergedInto: schema.species.mergedInto })
+      .from(schema.species)
+      .where(eq(schema.species.id, r.speciesId));
     out.groupSlug = s?.groupSlug ?? null;
   } else if (r.speciesOther) {
     out.groupSlug = r.groupSlug; // a moderator maps "not listed" species; keep any mapping made
@@ -53,16 +71,25 @@ export async function derive(db: Db, r: ReportRow): Promise<ReportColumns> {
   out.stockDensityGPerMl = r.stockDensityGPerMl;
   out.stockActiveFraction = 1;
   if (r.agentSlug) {
-    const [a] = await db.select({ unit: schema.agents.unit }).from(schema.agents).where(eq(schema.agents.slug, r.agentSlug));
+    const [a] = await db
+      .select({ unit: schema.agents.unit })
+      .from(schema.agents)
+      .where(eq(schema.agents.slug, r.agentSlug));
     unit = a?.unit ?? "mg/L";
   }
   // One reading of the strength (features/dosing readStrength): a stock form applies only when the report names it.
   let preset = null;
   if (r.stockFormId) {
-    [preset] = await db.select().from(schema.stockForms).where(and(eq(schema.stockForms.id, r.stockFormId), eq(schema.stockForms.agentSlug, r.agentSlug ?? "")));
+    [preset] = await db
+      .select()
+      .from(schema.stockForms)
+      .where(and(eq(schema.stockForms.id, r.stockFormId), eq(schema.stockForms.agentSlug, r.agentSlug ?? "")));
     if (!preset) {
       throw new AppError("invalid", "Some fields need fixing; see issues.", [
-        { path: "treatment.stockFormId", message: `No stock form "${r.stockFormId}" for this agent; see /api/catalogue.` },
+        {
+          path: "treatment.stockFormId",
+          message: `No stock form "${r.stockFormId}" for this agent; see /api/catalogue.`,
+        },
       ]);
     }
   }
@@ -71,19 +98,38 @@ export async function derive(db: Db, r: ReportRow): Promise<ReportColumns> {
     const needsDensity = basis === "w/w" && r.stockDensityGPerMl == null && preset?.densityGPerMl == null;
     if (needsDensity && r.amountMl != null && out.volumeL) {
       throw new AppError("invalid", "Some fields need fixing; see issues.", [
-        { path: "treatment.stockDensityGPerMl", message: "A % w/w strength that is not one of the agent's stock forms needs the solution's density in g/mL." },
+        {
+          path: "treatment.stockDensityGPerMl",
+          message: "A % w/w strength that is not one of the agent's stock forms needs the solution's density in g/mL.",
+        },
       ]);
     }
     if (!needsDensity) {
       try {
-        const stock = readStrength({ percent: r.stockPercent ?? undefined, basis, densityGPerMl: r.stockDensityGPerMl, preset });
+        const stock = readStrength({
+          percent: r.stockPercent ?? undefined,
+          basis,
+          densityGPerMl: r.stockDensityGPerMl,
+          preset,
+        });
         out.stockPercent = stock.percent;
         out.stockDensityGPerMl = stock.densityGPerMl;
         out.stockActiveFraction = stock.activeFraction;
-        if (r.amountMl != null && out.volumeL) out.concentration = concentrationFromMl(r.amountMl, out.volumeL, stock.mgPerMl, unit === "g/L" ? "g/L" : "mg/L");
+        if (r.amountMl != null && out.volumeL)
+          out.concentration = concentrationFromMl(
+            r.amountMl,
+            out.volumeL,
+            stock.mgPerMl,
+            unit === "g/L" ? "g/L" : "mg/L",
+          );
       } catch (err) {
         if (!(err instanceof DosingInputError)) throw err;
-        const path = err.field === "basis" ? "treatment.stockBasis" : err.field === "densityGPerMl" ? "treatment.stockDensityGPerMl" : "treatment.stockPercent";
+        const path =
+          err.field === "basis"
+            ? "treatment.stockBasis"
+            : err.field === "densityGPerMl"
+              ? "treatment.stockDensityGPerMl"
+              : "treatment.stockPercent";
         throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path, message: err.message }]);
       }
     }
@@ -95,7 +141,9 @@ export async function derive(db: Db, r: ReportRow): Promise<ReportColumns> {
 }
 
 /** True when a stated concentration disagrees with the computed one by more than 15 %. */
-export function statedMismatch(r: Pick<ReportRow, "amountMl" | "statedConcentration" | "concentration">): number | null {
+export function statedMismatch(
+  r: Pick<ReportRow, "amountMl" | "statedConcentration" | "concentration">,
+): number | null {
   if (r.amountMl == null || r.statedConcentration == null || r.concentration == null) return null;
   const d = relativeDisagreement(r.statedConcentration, r.concentration);
   return d > STATED_CONCENTRATION_TOLERANCE ? d : null;

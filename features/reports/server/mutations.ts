@@ -5,7 +5,11 @@ import { getDb, schema, type Db } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { zodIssues } from "@/features/shared/server/http";
-import { claimIdempotencyKey, storeIdempotentResponse, type IdempotencyClaim } from "@/features/shared/server/idempotency";
+import {
+  claimIdempotencyKey,
+  storeIdempotentResponse,
+  type IdempotencyClaim,
+} from "@/features/shared/server/idempotency";
 import { reportDraftSchema, reportInputSchema, type ReportDraft, type ReportInput } from "../schemas";
 import { checkReferences, derive } from "./derive";
 import { computeFlags } from "./flags";
@@ -17,9 +21,23 @@ type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
 export async function recordEvent(
   tx: Tx | Db,
-  e: { reportId: string; actorId: string | null; action: string; from: string | null; to: string | null; note?: string | null },
+  e: {
+    reportId: string;
+    actorId: string | null;
+    action: string;
+    from: string | null;
+    to: string | null;
+    note?: string | null;
+  },
 ): Promise<void> {
-  await tx.insert(reportEvents).values({ reportId: e.reportId, actorId: e.actorId, action: e.action, fromStatus: e.from, toStatus: e.to, note: e.note ?? null });
+  await tx.insert(reportEvents).values({
+    reportId: e.reportId,
+    actorId: e.actorId,
+    action: e.action,
+    fromStatus: e.from,
+    toStatus: e.to,
+    note: e.note ?? null,
+  });
 }
 
 function requireMember(actor: Actor | null): asserts actor is Actor {
@@ -32,7 +50,10 @@ async function ownEditable(actor: Actor, id: string, states: string[], what: str
   if (!row || !canSeeReport(actor, row)) throw notFound("That report");
   if (row.authorId !== actor.id) throw new AppError("forbidden", `Only the member who filed a report may ${what} it.`);
   if (!states.includes(row.status)) {
-    throw new AppError("conflict", `This report is ${row.status.replace("_", " ")}; it can be ${what === "delete" ? "deleted" : "changed"} only while ${states.map((s) => s.replace("_", " ")).join(" or ")}.`);
+    throw new AppError(
+      "conflict",
+      `This report is ${row.status.replace("_", " ")}; it can be ${what === "delete" ? "deleted" : "changed"} only while ${states.map((s) => s.replace("_", " ")).join(" or ")}.`,
+    );
   }
   return row;
 }
@@ -47,16 +68,33 @@ export async function saveDerived(tx: Tx, id: string): Promise<ReportRow> {
 async function submitInTx(tx: Tx, row: ReportRow, actor: Actor): Promise<ReportRow> {
   const parsed = reportInputSchema.safeParse(toInput(row));
   if (!parsed.success) {
-    throw new AppError("invalid", "The report is not complete yet: fill in the fields listed in issues, then submit again.", zodIssues(parsed.error));
+    throw new AppError(
+      "invalid",
+      "The report is not complete yet: fill in the fields listed in issues, then submit again.",
+      zodIssues(parsed.error),
+    );
   }
   const { flags, completeness } = await computeFlags(tx as unknown as Db, row);
   const [updated] = await tx
     .update(reports)
-    .set({ status: "awaiting_review", flags, completeness, courseOpen: false, submittedAt: new Date(), updatedAt: new Date() })
+    .set({
+      status: "awaiting_review",
+      flags,
+      completeness,
+      courseOpen: false,
+      submittedAt: new Date(),
+      updatedAt: new Date(),
+    })
     .where(and(eq(reports.id, row.id), eq(reports.status, row.status)))
     .returning();
   if (!updated) throw new AppError("conflict", "The report changed while you submitted it; reload and try again.");
-  await recordEvent(tx, { reportId: row.id, actorId: actor.id, action: row.status === "returned" ? "resubmitted" : "submitted", from: row.status, to: "awaiting_review" });
+  await recordEvent(tx, {
+    reportId: row.id,
+    actorId: actor.id,
+    action: row.status === "returned" ? "resubmitted" : "submitted",
+    from: row.status,
+    to: "awaiting_review",
+  });
   return updated;
 }
 
@@ -90,8 +128,16 @@ export async function createDraft(actor: Actor | null, draft: ReportDraft) {
   await checkReferences(db, columns);
   const id = crypto.randomUUID();
   const row = await db.transaction(async (tx) => {
-    await tx.insert(reports).values({ ...columns, id, authorId: actor.id, status: "draft", courseOpen: draft.courseOpen ?? false });
-    await recordEvent(tx, { reportId: id, actorId: actor.id, action: draft.courseOpen ? "course_opened" : "created", from: null, to: "draft" });
+    await tx
+      .insert(reports)
+      .values({ ...columns, id, authorId: actor.id, status: "draft", courseOpen: draft.courseOpen ?? false });
+    await recordEvent(tx, {
+      reportId: id,
+      actorId: actor.id,
+      action: draft.courseOpen ? "course_opened" : "created",
+      from: null,
+      to: "draft",
+    });
     return saveDerived(tx, id);
   });
   return { id: row.id, status: row.status, concentration: row.concentration };
@@ -112,13 +158,28 @@ export async function updateReport(actor: Actor | null, id: string, patch: Repor
   }
   // Keep only what is set, then check the merged report with the draft rules.
   const clean = JSON.parse(JSON.stringify(merged));
-  const parsed = reportDraftSchema.safeParse({ ...clean, ...(patch.courseOpen !== undefined ? { courseOpen: patch.courseOpen } : {}) });
+  const parsed = reportDraftSchema.safeParse({
+    ...clean,
+    ...(patch.courseOpen !== undefined ? { courseOpen: patch.courseOpen } : {}),
+  });
   if (!parsed.success) throw new AppError("invalid", "Some fields need fixing; see issues.", zodIssues(parsed.error));
   const columns = toColumns(patch);
-  if (patch.outcome?.lossCause === undefined && merged.outcome && (merged.outcome as { lossCause?: unknown }).lossCause === null) columns.lossCause = null;
+  if (
+    patch.outcome?.lossCause === undefined &&
+    merged.outcome &&
+    (merged.outcome as { lossCause?: unknown }).lossCause === null
+  )
+    columns.lossCause = null;
   await checkReferences(db, columns);
   const updated = await db.transaction(async (tx) => {
-    await tx.update(reports).set({ ...columns, ...(patch.courseOpen !== undefined ? { courseOpen: patch.courseOpen } : {}), updatedAt: new Date() }).where(eq(reports.id, id));
+    await tx
+      .update(reports)
+      .set({
+        ...columns,
+        ...(patch.courseOpen !== undefined ? { courseOpen: patch.courseOpen } : {}),
+        updatedAt: new Date(),
+      })
+      .where(eq(reports.id, id));
     return saveDerived(tx, id);
   });
   return { id: updated.id, status: updated.status, concentration: updated.concentration };
@@ -128,7 +189,7 @@ export async function submitReport(actor: Actor | null, id: string) {
   requireMember(actor);
   const row = await ownEditable(actor, id, ["draft", "returned"], "submit");
   const db = await getDb();
-  const updated = await db.transaction(async (tx) => submitInTx(tx, (await saveDerived(tx, row.id)), actor));
+  const updated = await db.transaction(async (tx) => submitInTx(tx, await saveDerived(tx, row.id), actor));
   return { id: updated.id, status: updated.status };
 }
 
@@ -136,9 +197,10 @@ export async function deleteDraft(actor: Actor | null, id: string) {
   requireMember(actor);
   await ownEditable(actor, id, ["draft"], "delete");
   const db = await getDb();
-  const deleted = await db.delete(reports).where(and(eq(reports.id, id), eq(reports.status, "draft"))).returning({ id: reports.id });
+  const deleted = await db
+    .delete(reports)
+    .where(and(eq(reports.id, id), eq(reports.status, "draft")))
+    .returning({ id: reports.id });
   if (!deleted.length) throw new AppError("conflict", "The report is no longer a draft.");
   return { id, deleted: true };
 }
-
-

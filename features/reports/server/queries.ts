@@ -41,7 +41,11 @@ export async function getReportById(actor: Actor | null, id: string) {
     .where(and(eq(reportEvents.reportId, id), inArray(reportEvents.action, ["return", "decline", "retract"])))
     .orderBy(desc(reportEvents.at), desc(reportEvents.id))
     .limit(1);
-  const entries = await db.select().from(courseEntries).where(eq(courseEntries.reportId, id)).orderBy(asc(courseEntries.at), asc(courseEntries.id));
+  const entries = await db
+    .select()
+    .from(courseEntries)
+    .where(eq(courseEntries.reportId, id))
+    .orderBy(asc(courseEntries.at), asc(courseEntries.id));
   const mine = actor?.id === row.authorId;
   return {
     id: row.id,
@@ -49,7 +53,9 @@ export async function getReportById(actor: Actor | null, id: string) {
     source: row.source,
     isMine: mine,
     author: mine || row.showName || canReview(actor) ? { id: row.authorId, name: author?.name ?? "" } : null,
-    species: sp ? { id: sp.id, scientificName: sp.scientificName, commonName: sp.commonName, groupSlug: sp.groupSlug } : null,
+    species: sp
+      ? { id: sp.id, scientificName: sp.scientificName, commonName: sp.commonName, groupSlug: sp.groupSlug }
+      : null,
     speciesId: row.speciesId,
     speciesOther: row.speciesOther,
     groupSlug: row.groupSlug,
@@ -57,19 +63,51 @@ export async function getReportById(actor: Actor | null, id: string) {
     sizeClass: row.sizeClass,
     conditionSlug: row.conditionSlug,
     startedOn: row.startedOn,
-    water: { volume: row.waterVolume, volumeUnit: row.waterVolumeUnit, temperature: row.temperature, temperatureUnit: row.temperatureUnit, ph: row.ph, setting: row.setting, volumeL: row.volumeL, temperatureC: row.temperatureC },
-    treatment: {
-      agentSlug: row.agentSlug, agentName: agent?.name ?? null, stockPercent: row.stockPercent, stockBasis: row.stockBasis, stockDensityGPerMl: row.stockDensityGPerMl,
-      amountMl: row.amountMl, statedConcentration: row.statedConcentration, doses: row.doses, intervalHours: row.intervalHours, otherTreatments: row.otherTreatments,
+    water: {
+      volume: row.waterVolume,
+      volumeUnit: row.waterVolumeUnit,
+      temperature: row.temperature,
+      temperatureUnit: row.temperatureUnit,
+      ph: row.ph,
+      setting: row.setting,
+      volumeL: row.volumeL,
+      temperatureC: row.temperatureC,
     },
-    outcome: { fishLost: row.fishLost, lossCause: row.lossCause, distress: row.distress, condition: row.conditionOutcome, observedDaysAfter: row.observedDaysAfter, notes: row.notes },
+    treatment: {
+      agentSlug: row.agentSlug,
+      agentName: agent?.name ?? null,
+      stockPercent: row.stockPercent,
+      stockBasis: row.stockBasis,
+      stockDensityGPerMl: row.stockDensityGPerMl,
+      amountMl: row.amountMl,
+      statedConcentration: row.statedConcentration,
+      doses: row.doses,
+      intervalHours: row.intervalHours,
+      otherTreatments: row.otherTreatments,
+    },
+    outcome: {
+      fishLost: row.fishLost,
+      lossCause: row.lossCause,
+      distress: row.distress,
+      condition: row.conditionOutcome,
+      observedDaysAfter: row.observedDaysAfter,
+      notes: row.notes,
+    },
     showName: row.showName,
     concentration: row.concentration,
     unit: agent?.unit ?? "mg/L",
     flags: canReview(actor) || mine ? row.flags : [],
     completeness: row.completeness,
     courseOpen: row.courseOpen,
-    courseEntries: entries.map((e) => ({ id: e.id, kind: e.kind, at: e.at.toISOString(), amountMl: e.amountMl, text: e.text, photoId: e.photoId, struckAt: e.struckAt?.toISOString() ?? null })),
+    courseEntries: entries.map((e) => ({
+      id: e.id,
+      kind: e.kind,
+      at: e.at.toISOString(),
+      amountMl: e.amountMl,
+      text: e.text,
+      photoId: e.photoId,
+      struckAt: e.struckAt?.toISOString() ?? null,
+    })),
     lastNote: lastNote ? { action: lastNote.action, note: lastNote.note, at: lastNote.at.toISOString() } : null,
     photos: pics.map((p) => ({ id: p.id, width: p.width, height: p.height, bytes: p.bytes, stage: p.stage })),
     createdAt: row.createdAt.toISOString(),
@@ -86,14 +124,27 @@ export async function getReportsByAuthorId(actor: Actor | null, q: ListMineQuery
   const db = await getDb();
   const where = and(eq(reports.authorId, actor.id), q.status ? eq(reports.status, q.status) : undefined);
   const col = {
-    updatedAt: reports.updatedAt, startedOn: reports.startedOn, status: reports.status, concentration: reports.concentration,
-    species: species.commonName, agent: agents.name,
+    updatedAt: reports.updatedAt,
+    startedOn: reports.startedOn,
+    status: reports.status,
+    concentration: reports.concentration,
+    species: species.commonName,
+    agent: agents.name,
   }[q.sort];
   const rows = await db
     .select({
-      id: reports.id, status: reports.status, startedOn: reports.startedOn, updatedAt: reports.updatedAt, submittedAt: reports.submittedAt,
-      concentration: reports.concentration, speciesName: species.commonName, speciesOther: reports.speciesOther,
-      agentName: agents.name, unit: agents.unit, courseOpen: reports.courseOpen, source: reports.source,
+      id: reports.id,
+      status: reports.status,
+      startedOn: reports.startedOn,
+      updatedAt: reports.updatedAt,
+      submittedAt: reports.submittedAt,
+      concentration: reports.concentration,
+      speciesName: species.commonName,
+      speciesOther: reports.speciesOther,
+      agentName: agents.name,
+      unit: agents.unit,
+      courseOpen: reports.courseOpen,
+      source: reports.source,
     })
     .from(reports)
     .leftJoin(species, eq(species.id, reports.speciesId))
@@ -122,13 +173,33 @@ export async function getReportHistory(actor: Actor | null, id: string) {
   const db = await getDb();
   const who = alias(users, "who");
   const rows = await db
-    .select({ at: reportEvents.at, actorId: reportEvents.actorId, actorName: who.name, importedActor: reportEvents.actorName, action: reportEvents.action, from: reportEvents.fromStatus, to: reportEvents.toStatus, note: reportEvents.note })
+    .select({
+      at: reportEvents.at,
+      actorId: reportEvents.actorId,
+      actorName: who.name,
+      importedActor: reportEvents.actorName,
+      action: reportEvents.action,
+      from: reportEvents.fromStatus,
+      to: reportEvents.toStatus,
+      note: reportEvents.note,
+    })
     .from(reportEvents)
     .leftJoin(who, eq(who.id, reportEvents.actorId))
     .where(eq(reportEvents.reportId, id))
     .orderBy(asc(reportEvents.at), asc(reportEvents.id));
   return {
-    events: rows.map((e) => ({ at: e.at.toISOString(), actor: e.actorId ? { id: e.actorId, name: e.actorName ?? "" } : e.importedActor ? { id: null, name: e.importedActor } : null, action: e.action, from: e.from, to: e.to, note: e.note })),
+    events: rows.map((e) => ({
+      at: e.at.toISOString(),
+      actor: e.actorId
+        ? { id: e.actorId, name: e.actorName ?? "" }
+        : e.importedActor
+          ? { id: null, name: e.importedActor }
+          : null,
+      action: e.action,
+      from: e.from,
+      to: e.to,
+      note: e.note,
+    })),
   };
 }
 

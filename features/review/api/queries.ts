@@ -26,7 +26,14 @@ export const allReportsKeys = {
 
 /** The query string of GET /api/reports?scope=all for these filters (empty ones left out). */
 export function allReportsSearch(p: AllReportsParams): URLSearchParams {
-  const q = new URLSearchParams({ scope: "all", sort: p.sort, dir: p.dir, page: String(p.page), pageSize: String(p.pageSize), dateOf: p.dateOf });
+  const q = new URLSearchParams({
+    scope: "all",
+    sort: p.sort,
+    dir: p.dir,
+    page: String(p.page),
+    pageSize: String(p.pageSize),
+    dateOf: p.dateOf,
+  });
   for (const k of ["status", "group", "agent", "member", "from", "to"] as const) if (p[k].trim()) q.set(k, p[k].trim());
   return q;
 }
@@ -34,7 +41,10 @@ export function allReportsSearch(p: AllReportsParams): URLSearchParams {
 export function allReportsQuery(p: AllReportsParams) {
   return queryOptions({
     queryKey: allReportsKeys.list(p),
-    queryFn: () => fetchJson<{ reports: AllReportsRow[]; total: number; page: number; pageSize: number }>(`/api/reports?${allReportsSearch(p)}`),
+    queryFn: () =>
+      fetchJson<{ reports: AllReportsRow[]; total: number; page: number; pageSize: number }>(
+        `/api/reports?${allReportsSearch(p)}`,
+      ),
     placeholderData: keepPreviousData,
   });
 }

@@ -24,7 +24,12 @@ function filters(q: ListAllQuery): SQL | undefined {
     q.group ? eq(reports.groupSlug, q.group) : undefined,
     q.agent ? eq(reports.agentSlug, q.agent) : undefined,
     q.member
-      ? or(eq(reports.authorId, q.member), ilike(users.name, likeable(q.member)), ilike(users.email, likeable(q.member)), ilike(reports.externalReporter, likeable(q.member)))
+      ? or(
+          eq(reports.authorId, q.member),
+          ilike(users.name, likeable(q.member)),
+          ilike(users.email, likeable(q.member)),
+          ilike(reports.externalReporter, likeable(q.member)),
+        )
       : undefined,
     ...dates,
   );
@@ -43,18 +48,39 @@ export async function listAllReports({ actor, params }: { actor: Actor | null; p
   const db = await getDb();
   const where = filters(q);
   const col = {
-    submittedAt: reports.submittedAt, decidedAt: reports.decidedAt, startedOn: reports.startedOn, status: reports.status, concentration: reports.concentration,
-    species: sql`coalesce(${species.commonName}, ${reports.speciesOther})`, group: speciesGroups.name, agent: agents.name, member: sql`coalesce(${reports.externalReporter}, ${users.name})`,
+    submittedAt: reports.submittedAt,
+    decidedAt: reports.decidedAt,
+    startedOn: reports.startedOn,
+    status: reports.status,
+    concentration: reports.concentration,
+    species: sql`coalesce(${species.commonName}, ${reports.speciesOther})`,
+    group: speciesGroups.name,
+    agent: agents.name,
+    member: sql`coalesce(${reports.externalReporter}, ${users.name})`,
   }[q.sort];
   // Empty values last whichever way, then the id: a stable order, so pages neither repeat nor skip a report.
   const order = sql`${col} ${sql.raw(q.dir === "asc" ? "asc" : "desc")} nulls last`;
   const base = () =>
     db
       .select({
-        id: reports.id, status: reports.status, startedOn: reports.startedOn, submittedAt: reports.submittedAt, decidedAt: reports.decidedAt,
-        concentration: reports.concentration, speciesName: species.commonName, speciesOther: reports.speciesOther,
-        groupSlug: reports.groupSlug, groupName: speciesGroups.name, agentSlug: reports.agentSlug, agentName: agents.name, unit: agents.unit,
-        authorId: reports.authorId, authorName: users.name, externalReporter: reports.externalReporter, flags: reports.flags, source: reports.source,
+        id: reports.id,
+        status: reports.status,
+        startedOn: reports.startedOn,
+        submittedAt: reports.submittedAt,
+        decidedAt: reports.decidedAt,
+        concentration: reports.concentration,
+        speciesName: species.commonName,
+        speciesOther: reports.speciesOther,
+        groupSlug: reports.groupSlug,
+        groupName: speciesGroups.name,
+        agentSlug: reports.agentSlug,
+        agentName: agents.name,
+        unit: agents.unit,
+        authorId: reports.authorId,
+        authorName: users.name,
+        externalReporter: reports.externalReporter,
+        flags: reports.flags,
+        source: reports.source,
       })
       .from(reports)
       .innerJoin(users, eq(users.id, reports.authorId))
@@ -62,25 +88,32 @@ export async function listAllReports({ actor, params }: { actor: Actor | null; p
       .leftJoin(speciesGroups, eq(speciesGroups.slug, reports.groupSlug))
       .leftJoin(agents, eq(agents.slug, reports.agentSlug));
   const [rows, [total]] = await Promise.all([
-    base().where(where).orderBy(order, sql`${reports.id} asc`).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
+    base()
+      .where(where)
+      .orderBy(order, sql`${reports.id} asc`)
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize),
     db.select({ n: count() }).from(reports).innerJoin(users, eq(users.id, reports.authorId)).where(where),
   ]);
   return {
-    reports: rows.map(
-      (r): AllReportsRow => ({
-        id: r.id,
-        status: r.status as AllReportsRow["status"],
-        species: r.speciesName ?? `${r.speciesOther ?? "?"} (not listed)`,
-        groupSlug: r.groupSlug, groupName: r.groupName, agentSlug: r.agentSlug, agentName: r.agentName,
-        concentration: r.concentration, unit: r.unit, startedOn: r.startedOn,
-        submittedAt: r.submittedAt?.toISOString() ?? null,
-        decidedAt: r.decidedAt?.toISOString() ?? null,
-        member: { id: r.authorId, name: r.externalReporter ?? r.authorName },
-        isMine: r.authorId === actor.id,
-        flags: Array.isArray(r.flags) ? r.flags.length : 0,
-        source: r.source,
-      }),
-    ),
+    reports: rows.map((r): AllReportsRow => ({
+      id: r.id,
+      status: r.status as AllReportsRow["status"],
+      species: r.speciesName ?? `${r.speciesOther ?? "?"} (not listed)`,
+      groupSlug: r.groupSlug,
+      groupName: r.groupName,
+      agentSlug: r.agentSlug,
+      agentName: r.agentName,
+      concentration: r.concentration,
+      unit: r.unit,
+      startedOn: r.startedOn,
+      submittedAt: r.submittedAt?.toISOString() ?? null,
+      decidedAt: r.decidedAt?.toISOString() ?? null,
+      member: { id: r.authorId, name: r.externalReporter ?? r.authorName },
+      isMine: r.authorId === actor.id,
+      flags: Array.isArray(r.flags) ? r.flags.length : 0,
+      source: r.source,
+    })),
     total: total?.n ?? 0,
     page: q.page,
     pageSize: q.pageSize,

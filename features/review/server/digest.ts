@@ -18,12 +18,18 @@ const CLAIM_MS = 5 * 60_000;
  */
 export async function sendModeratorDigests(now = new Date()): Promise<number> {
   const db = await getDb();
-  const mods = await db.select({ id: users.id, email: users.email, name: users.name }).from(users).where(inArray(users.role, ["moderator", "admin"]));
+  const mods = await db
+    .select({ id: users.id, email: users.email, name: users.name })
+    .from(users)
+    .where(inArray(users.role, ["moderator", "admin"]));
   let sent = 0;
   const failures: unknown[] = [];
   for (const m of mods) {
     // "Never sent" is a row sent at the epoch, so the claim below is one update for everyone.
-    await db.insert(moderatorDigests).values({ userId: m.id, lastSentAt: new Date(0), coveredUntil: new Date(0) }).onConflictDoNothing();
+    await db
+      .insert(moderatorDigests)
+      .values({ userId: m.id, lastSentAt: new Date(0), coveredUntil: new Date(0) })
+      .onConflictDoNothing();
     const [claimed] = await db
       .update(moderatorDigests)
       .set({ claimedUntil: new Date(now.getTime() + CLAIM_MS) })
@@ -37,7 +43,10 @@ export async function sendModeratorDigests(now = new Date()): Promise<number> {
       .returning({ coveredUntil: moderatorDigests.coveredUntil });
     if (!claimed) continue;
     const release = (set: Partial<typeof moderatorDigests.$inferInsert> = {}) =>
-      db.update(moderatorDigests).set({ ...set, claimedUntil: null }).where(eq(moderatorDigests.userId, m.id));
+      db
+        .update(moderatorDigests)
+        .set({ ...set, claimedUntil: null })
+        .where(eq(moderatorDigests.userId, m.id));
     try {
       const fresh = await db
         .select({ id: reports.id, authorId: reports.authorId, submittedAt: reports.submittedAt })
@@ -60,7 +69,11 @@ export async function sendModeratorDigests(now = new Date()): Promise<number> {
       await release().catch(() => undefined);
     }
   }
-  if (failures.length) throw new Error(`${failures.length} moderator digest(s) could not be sent; they stay unsent and the next round tries again.`, { cause: failures[0] });
+  if (failures.length)
+    throw new Error(
+      `${failures.length} moderator digest(s) could not be sent; they stay unsent and the next round tries again.`,
+      { cause: failures[0] },
+    );
   return sent;
 }
 

@@ -13,9 +13,21 @@ export async function getReviewQueue(actor: Actor | null, order: "oldest" | "com
   const db = await getDb();
   const rows = await db
     .select({
-      id: reports.id, submittedAt: reports.submittedAt, concentration: reports.concentration, flags: reports.flags, completeness: reports.completeness,
-      speciesName: species.commonName, speciesOther: reports.speciesOther, groupSlug: reports.groupSlug, groupName: speciesGroups.name,
-      agentSlug: reports.agentSlug, agentName: agents.name, unit: agents.unit, authorId: reports.authorId, authorName: users.name, source: reports.source,
+      id: reports.id,
+      submittedAt: reports.submittedAt,
+      concentration: reports.concentration,
+      flags: reports.flags,
+      completeness: reports.completeness,
+      speciesName: species.commonName,
+      speciesOther: reports.speciesOther,
+      groupSlug: reports.groupSlug,
+      groupName: speciesGroups.name,
+      agentSlug: reports.agentSlug,
+      agentName: agents.name,
+      unit: agents.unit,
+      authorId: reports.authorId,
+      authorName: users.name,
+      source: reports.source,
     })
     .from(reports)
     .leftJoin(species, eq(species.id, reports.speciesId))
@@ -23,7 +35,12 @@ export async function getReviewQueue(actor: Actor | null, order: "oldest" | "com
     .leftJoin(agents, eq(agents.slug, reports.agentSlug))
     .innerJoin(users, eq(users.id, reports.authorId))
     .where(eq(reports.status, "awaiting_review"))
-    .orderBy(...(order === "completeness" ? [desc(reports.completeness), asc(reports.submittedAt)] : [asc(reports.submittedAt)]), asc(reports.id));
+    .orderBy(
+      ...(order === "completeness"
+        ? [desc(reports.completeness), asc(reports.submittedAt)]
+        : [asc(reports.submittedAt)]),
+      asc(reports.id),
+    );
   return {
     reports: rows.map((r) => ({
       ...r,
@@ -43,7 +60,12 @@ export async function countAwaitingReview({ actor }: Caller): Promise<number> {
 }
 
 /** Where a dose falls against the group's accepted reports for the agent (quartiles in SQL): for reviewers. */
-export async function getGroupContext({ actor }: Caller, groupSlug: string | null, agentSlug: string | null, dose: number | null) {
+export async function getGroupContext(
+  { actor }: Caller,
+  groupSlug: string | null,
+  agentSlug: string | null,
+  dose: number | null,
+) {
   authorize(actor, canReview, "review reports");
   if (!groupSlug || !agentSlug) return null;
   const db = await getDb();
@@ -58,7 +80,15 @@ export async function getGroupContext({ actor }: Caller, groupSlug: string | nul
       from reports
      where status = 'accepted' and group_slug = ${groupSlug} and agent_slug = ${agentSlug} and concentration is not null`);
   const row = (res as unknown as { rows: Record<string, number | null>[] }).rows[0]!;
-  return { n: Number(row.n), min: row.min, p25: row.p25, median: row.median, p75: row.p75, max: row.max, below: Number(row.below) };
+  return {
+    n: Number(row.n),
+    min: row.min,
+    p25: row.p25,
+    median: row.median,
+    p75: row.p75,
+    max: row.max,
+    below: Number(row.below),
+  };
 }
 
 /**

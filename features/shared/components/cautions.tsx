@@ -12,7 +12,8 @@ export const cautionPoints = [
 ];
 
 /** The last point without its "anecdotal" half, for pages that already carry the anecdotal notice once. */
-const vetPoint = "An aquatic veterinarian knows your case, and local rules on animal medicines and on disposing of treated water apply.";
+const vetPoint =
+  "An aquatic veterinarian knows your case, and local rules on animal medicines and on disposing of treated water apply.";
 
 /** `anecdotal={false}` on pages that show the anecdotal notice elsewhere, so it is read once, not skimmed past. */
 export function Cautions({ compact = false, anecdotal = true }: { compact?: boolean; anecdotal?: boolean }) {

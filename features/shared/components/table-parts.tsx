@@ -12,18 +12,39 @@ import type { ReactNode } from "react";
 // The table's generic types differ per table; these helpers use only methods every table has.
 type AnyTable = {
   getHeaderGroups: () => { id: string; headers: AnyHeader[] }[];
-  getRowModel: () => { rows: { id: string; getAllCells: () => { id: string; column: { columnDef: { header?: unknown } } }[] }[] };
+  getRowModel: () => {
+    rows: { id: string; getAllCells: () => { id: string; column: { columnDef: { header?: unknown } } }[] }[];
+  };
   FlexRender: (props: { header?: unknown; cell?: unknown }) => ReactNode;
   getCanPreviousPage: () => boolean;
   getCanNextPage: () => boolean;
   previousPage: () => void;
   nextPage: () => void;
 };
-type AnyHeader = { id: string; column: { getIsSorted: () => false | "asc" | "desc"; getCanSort: () => boolean; getToggleSortingHandler: () => ((e: unknown) => void) | undefined } };
+type AnyHeader = {
+  id: string;
+  column: {
+    getIsSorted: () => false | "asc" | "desc";
+    getCanSort: () => boolean;
+    getToggleSortingHandler: () => ((e: unknown) => void) | undefined;
+  };
+};
 
 const label = (header: unknown) => (typeof header === "string" ? header : undefined);
 
-export function TableView({ table, caption, empty, columnCount, small }: { table: unknown; caption: string; empty: ReactNode; columnCount: number; small?: boolean }) {
+export function TableView({
+  table,
+  caption,
+  empty,
+  columnCount,
+  small,
+}: {
+  table: unknown;
+  caption: string;
+  empty: ReactNode;
+  columnCount: number;
+  small?: boolean;
+}) {
   const t = table as AnyTable;
   const rows = t.getRowModel().rows;
   return (
@@ -38,9 +59,20 @@ export function TableView({ table, caption, empty, columnCount, small }: { table
                 const canSort = h.column.getCanSort();
                 const Arrow = sorted === "asc" ? ArrowUp : sorted === "desc" ? ArrowDown : ChevronsUpDown;
                 return (
-                  <th key={h.id} scope="col" className={`px-3 py-2 max-sm:p-0 ${canSort ? "max-sm:block" : "max-sm:hidden"}`} aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : canSort ? "none" : undefined}>
+                  <th
+                    key={h.id}
+                    scope="col"
+                    className={`px-3 py-2 max-sm:p-0 ${canSort ? "max-sm:block" : "max-sm:hidden"}`}
+                    aria-sort={
+                      sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : canSort ? "none" : undefined
+                    }
+                  >
                     {canSort ? (
-                      <button type="button" className="inline-flex items-center gap-1 font-bold max-sm:rounded-md max-sm:border max-sm:border-peat-300 max-sm:bg-white max-sm:px-2 max-sm:py-1 max-sm:text-sm" onClick={h.column.getToggleSortingHandler()}>
+                      <button
+                        type="button"
+                        className="inline-flex items-center gap-1 font-bold max-sm:rounded-md max-sm:border max-sm:border-peat-300 max-sm:bg-white max-sm:px-2 max-sm:py-1 max-sm:text-sm"
+                        onClick={h.column.getToggleSortingHandler()}
+                      >
                         <t.FlexRender header={h} />
                         <Arrow className={`h-4 w-4 ${sorted ? "" : "text-peat-500"}`} aria-hidden="true" />
                       </button>
@@ -56,11 +88,17 @@ export function TableView({ table, caption, empty, columnCount, small }: { table
         <tbody className="max-sm:grid max-sm:gap-3">
           {rows.length === 0 ? (
             <tr className="max-sm:block max-sm:rounded-lg max-sm:border max-sm:border-peat-100 max-sm:bg-white">
-              <td colSpan={columnCount} className="px-3 text-center text-peat-700 max-sm:block">{empty}</td>
+              <td colSpan={columnCount} className="px-3 text-center text-peat-700 max-sm:block">
+                {empty}
+              </td>
             </tr>
           ) : (
             rows.map((row) => (
-              <tr key={row.id} className="border-t border-peat-100 align-top focus-within:bg-peat-50 max-sm:grid max-sm:gap-1.5 max-sm:rounded-lg max-sm:border max-sm:bg-white max-sm:p-3" data-testid="table-row">
+              <tr
+                key={row.id}
+                className="border-t border-peat-100 align-top focus-within:bg-peat-50 max-sm:grid max-sm:gap-1.5 max-sm:rounded-lg max-sm:border max-sm:bg-white max-sm:p-3"
+                data-testid="table-row"
+              >
                 {row.getAllCells().map((cell) => (
                   <td
                     key={cell.id}
@@ -85,14 +123,24 @@ export function Pager({ table, label, page, pages }: { table: unknown; label: st
   const t = table as AnyTable;
   return (
     <nav aria-label={label} className="flex items-center gap-3">
-      <button type="button" className="inline-flex items-center gap-1 rounded border border-peat-300 bg-white px-3 py-1 disabled:opacity-40" disabled={!t.getCanPreviousPage()} onClick={() => t.previousPage()}>
+      <button
+        type="button"
+        className="inline-flex items-center gap-1 rounded border border-peat-300 bg-white px-3 py-1 disabled:opacity-40"
+        disabled={!t.getCanPreviousPage()}
+        onClick={() => t.previousPage()}
+      >
         <ChevronLeft className="h-4 w-4" aria-hidden="true" />
         Previous
       </button>
       <span>
         Page {page} of {Math.max(1, pages)}
       </span>
-      <button type="button" className="inline-flex items-center gap-1 rounded border border-peat-300 bg-white px-3 py-1 disabled:opacity-40" disabled={!t.getCanNextPage()} onClick={() => t.nextPage()}>
+      <button
+        type="button"
+        className="inline-flex items-center gap-1 rounded border border-peat-300 bg-white px-3 py-1 disabled:opacity-40"
+        disabled={!t.getCanNextPage()}
+        onClick={() => t.nextPage()}
+      >
         Next
         <ChevronRight className="h-4 w-4" aria-hidden="true" />
       </button>

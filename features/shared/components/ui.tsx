@@ -7,16 +7,34 @@ export function cx(...parts: (string | false | null | undefined)[]): string {
   return parts.filter(Boolean).join(" ");
 }
 
-export function Button({ variant = "primary", className, ...rest }: ButtonHTMLAttributes<HTMLButtonElement> & { variant?: "primary" | "quiet" | "danger" }) {
+export function Button({
+  variant = "primary",
+  className,
+  ...rest
+}: ButtonHTMLAttributes<HTMLButtonElement> & { variant?: "primary" | "quiet" | "danger" }) {
   const styles = {
     primary: "bg-peat-700 text-white hover:bg-peat-900 disabled:bg-peat-300",
     quiet: "border border-peat-300 bg-white text-peat-900 hover:bg-peat-50 disabled:text-peat-300",
     danger: "bg-alarm-500 text-white hover:bg-alarm-700",
   }[variant];
-  return <button className={cx("rounded-md px-4 py-2 font-bold disabled:cursor-not-allowed", styles, className)} {...rest} />;
+  return (
+    <button className={cx("rounded-md px-4 py-2 font-bold disabled:cursor-not-allowed", styles, className)} {...rest} />
+  );
 }
 
-export function Field({ label, id, hint, error, children }: { label: string; id: string; hint?: string; error?: string | null; children: ReactNode }) {
+export function Field({
+  label,
+  id,
+  hint,
+  error,
+  children,
+}: {
+  label: string;
+  id: string;
+  hint?: string;
+  error?: string | null;
+  children: ReactNode;
+}) {
   return (
     <div className="flex flex-col gap-1">
       <label htmlFor={id} className="font-bold">
@@ -37,11 +55,19 @@ export function Field({ label, id, hint, error, children }: { label: string; id:
   );
 }
 
-export function TextInput({ className, invalid, ...rest }: InputHTMLAttributes<HTMLInputElement> & { invalid?: boolean }) {
+export function TextInput({
+  className,
+  invalid,
+  ...rest
+}: InputHTMLAttributes<HTMLInputElement> & { invalid?: boolean }) {
   return (
     <input
       aria-invalid={invalid || undefined}
-      className={cx("rounded-md border bg-white px-3 py-2", invalid ? "border-alarm-500" : "border-peat-300", className)}
+      className={cx(
+        "rounded-md border bg-white px-3 py-2",
+        invalid ? "border-alarm-500" : "border-peat-300",
+        className,
+      )}
       {...rest}
     />
   );
@@ -51,7 +77,15 @@ export function Select({ className, ...rest }: SelectHTMLAttributes<HTMLSelectEl
   return <select className={cx("rounded-md border border-peat-300 bg-white px-3 py-2", className)} {...rest} />;
 }
 
-export function Notice({ tone = "info", title, children }: { tone?: "info" | "caution" | "alarm"; title?: string; children: ReactNode }) {
+export function Notice({
+  tone = "info",
+  title,
+  children,
+}: {
+  tone?: "info" | "caution" | "alarm";
+  title?: string;
+  children: ReactNode;
+}) {
   const styles = {
     info: "border-peat-300 bg-peat-50",
     caution: "border-reed-500 bg-reed-100",

@@ -24,7 +24,12 @@ export function useServerTable(initialSort: SortingState, pageSize = 20) {
       manualPagination: true,
       enableMultiSort: false,
     },
-    request: { sort: sort?.id ?? "", dir: (sort?.desc ? "desc" : "asc") as "asc" | "desc", page: pagination.pageIndex + 1, pageSize: pagination.pageSize },
+    request: {
+      sort: sort?.id ?? "",
+      dir: (sort?.desc ? "desc" : "asc") as "asc" | "desc",
+      page: pagination.pageIndex + 1,
+      pageSize: pagination.pageSize,
+    },
     pagination,
     firstPage,
   };

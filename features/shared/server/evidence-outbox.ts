@@ -32,9 +32,19 @@ export async function enqueueEvidenceRecompute(tx: OutboxExecutor, pairs: Eviden
  * Records every pair that has accepted reports or a stored summary, optionally only within some groups
  * and/or agents (a settings change: everything; a renamed group: its pairs; new band edges: the agent's).
  */
-export async function enqueueEvidenceRecomputeWhere(tx: OutboxExecutor, scope: { groupSlugs?: string[]; agentSlugs?: string[] } = {}): Promise<void> {
+export async function enqueueEvidenceRecomputeWhere(
+  tx: OutboxExecutor,
+  scope: { groupSlugs?: string[]; agentSlugs?: string[] } = {},
+): Promise<void> {
   const within = (column: string, values: string[] | undefined): SQL =>
-    values ? (values.length ? sql`${sql.identifier(column)} in (${sql.join(values.map((v) => sql`${v}`), sql`, `)})` : sql`false`) : sql`true`;
+    values
+      ? values.length
+        ? sql`${sql.identifier(column)} in (${sql.join(
+            values.map((v) => sql`${v}`),
+            sql`, `,
+          )})`
+        : sql`false`
+      : sql`true`;
   await tx.execute(sql`
     insert into evidence_outbox (group_slug, agent_slug)
     select group_slug, agent_slug

@@ -17,7 +17,8 @@ const MAX_CONTROL_ISSUES = 50;
 
 const codePoint = (ch: string) => `U+${ch.charCodeAt(0).toString(16).toUpperCase().padStart(4, "0")}`;
 /** A field name as it can be shown in an issue's path: control characters written out. */
-const printable = (key: string) => key.replace(CONTROL_ALL, (ch) => `\\u${ch.charCodeAt(0).toString(16).padStart(4, "0")}`);
+const printable = (key: string) =>
+  key.replace(CONTROL_ALL, (ch) => `\\u${ch.charCodeAt(0).toString(16).padStart(4, "0")}`);
 
 /**
  * Every string (and object key) in a parsed JSON value that holds a control character, as field issues.
@@ -32,7 +33,11 @@ export function controlCharacterIssues(value: unknown, root = ""): FieldIssue[] 
       issues.push({ path, message: `Remove the control character ${codePoint(badName)} from this field's name.` });
     } else if (typeof v === "string") {
       const m = CONTROL.exec(v);
-      if (m) issues.push({ path: path || "(body)", message: `Remove the control character ${codePoint(m[0])}: text may hold tabs and line breaks, no other control characters.` });
+      if (m)
+        issues.push({
+          path: path || "(body)",
+          message: `Remove the control character ${codePoint(m[0])}: text may hold tabs and line breaks, no other control characters.`,
+        });
     } else if (v !== null && typeof v === "object") {
       const entries = Array.isArray(v) ? v.map((x, i) => [String(i), x] as const) : Object.entries(v);
       // Reversed onto the stack, so issues come out in the body's order.
@@ -62,7 +67,8 @@ function parameterIssues(params: URLSearchParams): FieldIssue[] {
 
 function refuseControlCharactersInQuery(req: Request): void {
   const issues = parameterIssues(new URL(req.url).searchParams);
-  if (issues.length > 0) throw new AppError("invalid", "Some query parameters hold control characters; see issues.", issues);
+  if (issues.length > 0)
+    throw new AppError("invalid", "Some query parameters hold control characters; see issues.", issues);
 }
 
 export function json(data: unknown, init?: number | ResponseInit): Response {
@@ -75,7 +81,10 @@ export function zodIssues(error: z.ZodError): FieldIssue[] {
     const path = i.path.map(String);
     // An unknown field, at any depth, is named by its own path so the caller sees exactly what to remove.
     if (i.code === "unrecognized_keys") {
-      return i.keys.map((k) => ({ path: [...path, printable(k)].join("."), message: `There is no field "${printable(k)}" here; remove it.` }));
+      return i.keys.map((k) => ({
+        path: [...path, printable(k)].join("."),
+        message: `There is no field "${printable(k)}" here; remove it.`,
+      }));
     }
     return [{ path: path.join(".") || "(body)", message: i.message }];
   });
@@ -174,7 +183,8 @@ export function checkOrigin(req: Request): void {
   if (origin && origin !== "null") {
     const originHost = hostOf(origin);
     if (originHost === null) throw new AppError("forbidden", "The request's Origin header is not a valid address.");
-    if (!ownHosts(req).has(originHost)) throw new AppError("forbidden", "Requests that change data must come from Tanklore's own pages.");
+    if (!ownHosts(req).has(originHost))
+      throw new AppError("forbidden", "Requests that change data must come from Tanklore's own pages.");
     return;
   }
   if (!SESSION_COOKIE.test(req.headers.get("cookie") ?? "")) return;
@@ -202,7 +212,13 @@ export function errorResponse(err: unknown): Response {
   }
   console.error("Unexpected error in a route handler:", err);
   return json(
-    { error: { code: "internal", message: "Something went wrong on our side, so we cannot confirm what happened. Reload to check whether your change was saved before trying again." } },
+    {
+      error: {
+        code: "internal",
+        message:
+          "Something went wrong on our side, so we cannot confirm what happened. Reload to check whether your change was saved before trying again.",
+      },
+    },
     500,
   );
 }
@@ -241,7 +257,10 @@ type PlainHandler = (req: Request) => Promise<Response>;
 export function refuseOtherMethods(...allowed: Method[]): Record<Method | "OPTIONS", PlainHandler> {
   const allow = [...allowed, ...(allowed.includes("GET") ? ["HEAD"] : []), "OPTIONS"].join(", ");
   const refuse: PlainHandler = async (req) =>
-    json(new AppError("method_not_allowed", `${req.method} is not allowed here; use ${allowed.join(" or ")}.`).toBody(), { status: 405, headers: { allow } });
+    json(
+      new AppError("method_not_allowed", `${req.method} is not allowed here; use ${allowed.join(" or ")}.`).toBody(),
+      { status: 405, headers: { allow } },
+    );
   const handlers = Object.fromEntries(METHODS.map((m) => [m, refuse])) as Record<Method, PlainHandler>;
   return { ...handlers, OPTIONS: async () => new Response(null, { status: 204, headers: { allow } }) };
 }
@@ -251,13 +270,15 @@ export function refuseOtherMethods(...allowed: Method[]): Record<Method | "OPTIO
  * path (404), the query and a JSON or form body (422) in the error envelope, and hands back an equivalent request.
  */
 export async function refuseControlCharactersIn(req: Request, limit = MAX_JSON_BYTES): Promise<Request> {
-  refuseControlCharactersInParams(new URL(req.url).pathname.split("/").map((segment) => {
-    try {
-      return decodeURIComponent(segment);
-    } catch {
-      return segment;
-    }
-  }));
+  refuseControlCharactersInParams(
+    new URL(req.url).pathname.split("/").map((segment) => {
+      try {
+        return decodeURIComponent(segment);
+      } catch {
+        return segment;
+      }
+    }),
+  );
   refuseControlCharactersInQuery(req);
   if (SAFE_METHODS.has(req.method) || !req.body) return req;
   const type = req.headers.get("content-type") ?? "";
@@ -275,5 +296,10 @@ export async function refuseControlCharactersIn(req: Request, limit = MAX_JSON_B
     const issues = parameterIssues(new URLSearchParams(text));
     if (issues.length > 0) throw new AppError("invalid", "Some fields hold control characters; see issues.", issues);
   }
-  return new Request(req.url, { method: req.method, headers: req.headers, body: new Uint8Array(bytes), signal: req.signal });
+  return new Request(req.url, {
+    method: req.method,
+    headers: req.headers,
+    body: new Uint8Array(bytes),
+    signal: req.signal,
+  });
 }

@@ -40,9 +40,11 @@ const cutoff = () => new Date(Date.now() - IDEMPOTENCY_WINDOW_MS);
  * here: a key is stored only with its committed creation.)
  */
 function mismatch(): AppError {
-  return new AppError("invalid", "This Idempotency-Key was already used for a different request; use a new key for a new request.", [
-    { path: "Idempotency-Key", message: "Already used with another body within the last 24 hours." },
-  ]);
+  return new AppError(
+    "invalid",
+    "This Idempotency-Key was already used for a different request; use a new key for a new request.",
+    [{ path: "Idempotency-Key", message: "Already used with another body within the last 24 hours." }],
+  );
 }
 
 function answer(stored: Stored, hash: string): Response {
@@ -55,7 +57,13 @@ export async function claimIdempotencyKey(tx: Tx, claim: IdempotencyClaim | unde
   if (!claim) return;
   const taken = await tx
     .insert(idempotencyKeys)
-    .values({ memberId: claim.memberId, key: claim.key, requestHash: claim.requestHash, status: claim.status, body: null })
+    .values({
+      memberId: claim.memberId,
+      key: claim.key,
+      requestHash: claim.requestHash,
+      status: claim.status,
+      body: null,
+    })
     // An expired key is free again; a live one stays as it is (on PostgreSQL a concurrent claim waits for ours).
     .onConflictDoUpdate({
       target: [idempotencyKeys.memberId, idempotencyKeys.key],
@@ -72,7 +80,11 @@ export async function claimIdempotencyKey(tx: Tx, claim: IdempotencyClaim | unde
 }
 
 /** Last thing in the creating transaction: the response the key answers with from now on. */
-export async function storeIdempotentResponse(tx: Tx, claim: IdempotencyClaim | undefined, body: unknown): Promise<void> {
+export async function storeIdempotentResponse(
+  tx: Tx,
+  claim: IdempotencyClaim | undefined,
+  body: unknown,
+): Promise<void> {
   if (!claim) return;
   await tx
     .update(idempotencyKeys)
@@ -83,7 +95,10 @@ export async function storeIdempotentResponse(tx: Tx, claim: IdempotencyClaim | 
 /** A stable hash of what a request asks for: method, path and its parsed content (key order ignored). */
 export function requestHash(req: Request, content: unknown): string {
   const url = new URL(req.url);
-  return crypto.createHash("sha256").update(`${req.method} ${url.pathname}\n${canonicalJson(content)}`).digest("hex");
+  return crypto
+    .createHash("sha256")
+    .update(`${req.method} ${url.pathname}\n${canonicalJson(content)}`)
+    .digest("hex");
 }
 
 /** JSON with object keys sorted at every depth, so equal content hashes alike whatever its key order. */
@@ -92,7 +107,11 @@ export function canonicalJson(value: unknown): string {
     Array.isArray(v)
       ? v.map(canonical)
       : v && typeof v === "object"
-        ? Object.fromEntries(Object.keys(v).sort().map((k) => [k, canonical((v as Record<string, unknown>)[k])]))
+        ? Object.fromEntries(
+            Object.keys(v)
+              .sort()
+              .map((k) => [k, canonical((v as Record<string, unknown>)[k])]),
+          )
         : v;
   return JSON.stringify(canonical(value));
 }
@@ -102,9 +121,11 @@ export function idempotencyKeyOf(req: Request): string | undefined {
   const key = req.headers.get("idempotency-key");
   if (key === null) return undefined;
   if (!/^[\x21-\x7e]{1,255}$/.test(key)) {
-    throw new AppError("invalid", "The Idempotency-Key header must be 1 to 255 visible ASCII characters (a UUID works well).", [
-      { path: "Idempotency-Key", message: "1 to 255 visible ASCII characters." },
-    ]);
+    throw new AppError(
+      "invalid",
+      "The Idempotency-Key header must be 1 to 255 visible ASCII characters (a UUID works well).",
+      [{ path: "Idempotency-Key", message: "1 to 255 visible ASCII characters." }],
+    );
   }
   return key;
 }
@@ -127,7 +148,13 @@ export async function idempotent<T>(
   const [stored] = await db
     .select()
     .from(idempotencyKeys)
-    .where(and(eq(idempotencyKeys.memberId, memberId), eq(idempotencyKeys.key, key), gt(idempotencyKeys.createdAt, cutoff())));
+    .where(
+      and(
+        eq(idempotencyKeys.memberId, memberId),
+        eq(idempotencyKeys.key, key),
+        gt(idempotencyKeys.createdAt, cutoff()),
+      ),
+    );
   if (stored) return answer(stored, hash);
   try {
     return json(await create({ memberId, key, requestHash: hash, status }), status);

@@ -30,6 +30,7 @@ export interface JobContext {
 }
 
 export interface JobHandler {
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- each job kind defines its own payload shape; the runner passes stored JSON through
   run(payload: any, ctx: JobContext): Promise<void>;
   maxAttempts?: number;
   /** Wait before retry number `attempt` (1-based); default 30 s doubling, at most an hour. */
@@ -39,6 +40,7 @@ export interface JobHandler {
   /** Recurring rounds: run every `everyMs`, on slot boundaries. */
   everyMs?: number;
   /** What stays of a finished one-off job's payload (mails drop their body, which may hold sign-in links). */
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- each job kind defines its own payload shape; the runner passes stored JSON through
   summarize?(payload: any): Record<string, unknown>;
 }
 
@@ -101,7 +103,14 @@ async function ensureRounds(db: Db, now: Date): Promise<void> {
     if (!h.everyMs) continue;
     await db
       .insert(jobs)
-      .values({ id: crypto.randomUUID(), kind, dedupeKey: `round:${kind}`, payload: {}, runAt: now, maxAttempts: h.maxAttempts ?? 5 })
+      .values({
+        id: crypto.randomUUID(),
+        kind,
+        dedupeKey: `round:${kind}`,
+        payload: {},
+        runAt: now,
+        maxAttempts: h.maxAttempts ?? 5,
+      })
       .onConflictDoNothing();
   }
 }
@@ -119,10 +128,16 @@ const rowsOf = <T>(r: unknown): T[] => (r as { rows: T[] }).rows;
 /** Claims up to `limit` due jobs of the given kinds for this process. */
 async function claim(db: Db, kinds: string[], now: Date, limit: number): Promise<ClaimedRow[]> {
   if (!kinds.length) return [];
-  const kindList = sql.join(kinds.map((k) => sql`${k}`), sql`, `);
+  const kindList = sql.join(
+    kinds.map((k) => sql`${k}`),
+    sql`, `,
+  );
   // Each kind's own lease: a silent backup is given an hour, a silent mail five minutes.
   const until = sql`case kind ${sql.join(
-    kinds.map((k) => sql`when ${k} then ${new Date(now.getTime() + (registry().handlers.get(k)?.leaseMs ?? 5 * 60_000))}::timestamptz`),
+    kinds.map(
+      (k) =>
+        sql`when ${k} then ${new Date(now.getTime() + (registry().handlers.get(k)?.leaseMs ?? 5 * 60_000))}::timestamptz`,
+    ),
     sql` `,
   )} end`;
   const r = await db.execute(sql`
@@ -148,10 +163,16 @@ async function finish(db: Db, row: ClaimedRow, h: JobHandler, now: Date, err: un
   const released = { lockedBy: null, lockedUntil: null, updatedAt: new Date() };
   if (err === null) {
     if (h.everyMs) {
-      await db.update(jobs).set({ ...released, status: "queued", attempts: 0, lastError: null, runAt: nextSlot(now, h.everyMs) }).where(mine);
+      await db
+        .update(jobs)
+        .set({ ...released, status: "queued", attempts: 0, lastError: null, runAt: nextSlot(now, h.everyMs) })
+        .where(mine);
     } else {
       const payload = h.summarize ? h.summarize(row.payload) : (row.payload as Record<string, unknown>);
-      await db.update(jobs).set({ ...released, status: "done", lastError: null, payload }).where(mine);
+      await db
+        .update(jobs)
+        .set({ ...released, status: "done", lastError: null, payload })
+        .where(mine);
     }
     return;
   }
@@ -266,7 +287,13 @@ async function pruneJobs(db: Db, now: Date): Promise<void> {
 }
 
 /** Records (or clears, with error null) a failure of work queued elsewhere (the evidence outbox), for admins. */
-export async function recordFailure(kind: string, key: string, error: unknown | null, now = new Date(), payload: Record<string, unknown> = {}): Promise<void> {
+export async function recordFailure(
+  kind: string,
+  key: string,
+  error: unknown | null,
+  now = new Date(),
+  payload: Record<string, unknown> = {},
+): Promise<void> {
   const db = await getDb();
   const dedupeKey = `${kind}:${key}`;
   if (error === null) {
@@ -276,7 +303,16 @@ export async function recordFailure(kind: string, key: string, error: unknown | 
   const lastError = describeError(error);
   await db
     .insert(jobs)
-    .values({ id: crypto.randomUUID(), kind, dedupeKey, payload, status: "queued", attempts: 1, lastError, runAt: new Date(now.getTime() + defaultBackoff(1)) })
+    .values({
+      id: crypto.randomUUID(),
+      kind,
+      dedupeKey,
+      payload,
+      status: "queued",
+      attempts: 1,
+      lastError,
+      runAt: new Date(now.getTime() + defaultBackoff(1)),
+    })
     .onConflictDoUpdate({
       target: jobs.dedupeKey,
       set: {
@@ -320,15 +356,35 @@ export async function listJobs({ actor }: Caller, opts: { limit?: number } = {})
     .from(jobs)
     .groupBy(jobs.kind, jobs.status)
     .orderBy(jobs.kind, jobs.status);
-  const where: SQL = or(isNotNull(jobs.lastError), eq(jobs.status, "failed"), eq(jobs.status, "running"), sql`${jobs.dedupeKey} like 'round:%'`)!;
-  const rows = await db.select().from(jobs).where(where).orderBy(desc(jobs.updatedAt)).limit(opts.limit ?? 100);
+  const where: SQL = or(
+    isNotNull(jobs.lastError),
+    eq(jobs.status, "failed"),
+    eq(jobs.status, "running"),
+    sql`${jobs.dedupeKey} like 'round:%'`,
+  )!;
+  const rows = await db
+    .select()
+    .from(jobs)
+    .where(where)
+    .orderBy(desc(jobs.updatedAt))
+    .limit(opts.limit ?? 100);
   const view = (j: typeof jobs.$inferSelect): JobView => {
     const p = (j.payload ?? {}) as Record<string, unknown>;
     // Only what says which job it was: a queued mail's body may carry a sign-in link.
-    const summary = Object.fromEntries(Object.entries(p).filter(([k]) => ["to", "subject", "groupSlug", "agentSlug"].includes(k)));
+    const summary = Object.fromEntries(
+      Object.entries(p).filter(([k]) => ["to", "subject", "groupSlug", "agentSlug"].includes(k)),
+    );
     return {
-      id: j.id, kind: j.kind, status: j.status, attempts: j.attempts, maxAttempts: j.maxAttempts, runAt: j.runAt.toISOString(),
-      lockedBy: j.lockedBy, lastError: j.lastError, updatedAt: j.updatedAt.toISOString(), summary,
+      id: j.id,
+      kind: j.kind,
+      status: j.status,
+      attempts: j.attempts,
+      maxAttempts: j.maxAttempts,
+      runAt: j.runAt.toISOString(),
+      lockedBy: j.lockedBy,
+      lastError: j.lastError,
+      updatedAt: j.updatedAt.toISOString(),
+      summary,
     };
   };
   return {
@@ -343,11 +399,17 @@ export async function listJobs({ actor }: Caller, opts: { limit?: number } = {})
  * POST /api/admin/jobs: run a round now in this process ({ run: kind }) — its own claims still keep each
  * digest, reminder and backup to once — or queue a failed job again ({ retry: id }).
  */
-export async function adminJobAction({ actor }: Caller, action: { run: string } | { retry: string }): Promise<{ ran?: string; retried?: string }> {
+export async function adminJobAction(
+  { actor }: Caller,
+  action: { run: string } | { retry: string },
+): Promise<{ ran?: string; retried?: string }> {
   authorize(actor, canReadJobs, "run background jobs");
   if ("run" in action) {
     const h = registry().handlers.get(action.run);
-    if (!h?.everyMs) throw new AppError("invalid", "Some fields need fixing; see issues.", [{ path: "run", message: `run names a round: ${roundKinds().join(", ")}.` }]);
+    if (!h?.everyMs)
+      throw new AppError("invalid", "Some fields need fixing; see issues.", [
+        { path: "run", message: `run names a round: ${roundKinds().join(", ")}.` },
+      ]);
     await h.run({}, { now: new Date(), attempt: 1 });
     return { ran: action.run };
   }
@@ -363,5 +425,8 @@ export async function adminJobAction({ actor }: Caller, action: { run: string } 
 }
 
 export function roundKinds(): string[] {
-  return [...registry().handlers].filter(([, h]) => h.everyMs).map(([k]) => k).sort();
+  return [...registry().handlers]
+    .filter(([, h]) => h.everyMs)
+    .map(([k]) => k)
+    .sort();
 }

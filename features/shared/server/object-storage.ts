@@ -3,7 +3,13 @@ import fs from "node:fs";
 import fsp from "node:fs/promises";
 import path from "node:path";
 import {
-  DeleteObjectCommand, GetObjectCommand, ListObjectsV2Command, NoSuchKey, PutObjectCommand, S3Client, S3ServiceException,
+  DeleteObjectCommand,
+  GetObjectCommand,
+  ListObjectsV2Command,
+  NoSuchKey,
+  PutObjectCommand,
+  S3Client,
+  S3ServiceException,
 } from "@aws-sdk/client-s3";
 import { dataDir } from "@/features/shared/env";
 import { getS3Env, type S3Env } from "./storage-env";
@@ -99,12 +105,26 @@ export class S3ObjectStorage implements ObjectStorage {
     });
   }
   async put(key: string, data: Buffer, contentType = "application/octet-stream"): Promise<void> {
-    await this.client.send(new PutObjectCommand({ Bucket: this.env.S3_BUCKET, Key: checkKey(key), Body: data, ContentType: contentType, ContentLength: data.length }));
+    await this.client.send(
+      new PutObjectCommand({
+        Bucket: this.env.S3_BUCKET,
+        Key: checkKey(key),
+        Body: data,
+        ContentType: contentType,
+        ContentLength: data.length,
+      }),
+    );
   }
   async putFile(key: string, file: string, contentType = "application/octet-stream"): Promise<void> {
     const { size } = await fsp.stat(file);
     await this.client.send(
-      new PutObjectCommand({ Bucket: this.env.S3_BUCKET, Key: checkKey(key), Body: fs.createReadStream(file), ContentType: contentType, ContentLength: size }),
+      new PutObjectCommand({
+        Bucket: this.env.S3_BUCKET,
+        Key: checkKey(key),
+        Body: fs.createReadStream(file),
+        ContentType: contentType,
+        ContentLength: size,
+      }),
     );
   }
   async get(key: string): Promise<Buffer | null> {
@@ -112,7 +132,8 @@ export class S3ObjectStorage implements ObjectStorage {
       const r = await this.client.send(new GetObjectCommand({ Bucket: this.env.S3_BUCKET, Key: checkKey(key) }));
       return Buffer.from(await r.Body!.transformToByteArray());
     } catch (err) {
-      if (err instanceof NoSuchKey || (err instanceof S3ServiceException && err.$metadata.httpStatusCode === 404)) return null;
+      if (err instanceof NoSuchKey || (err instanceof S3ServiceException && err.$metadata.httpStatusCode === 404))
+        return null;
       throw err;
     }
   }
@@ -123,10 +144,13 @@ export class S3ObjectStorage implements ObjectStorage {
     const out: { key: string; bytes: number; modifiedAt: Date }[] = [];
     let token: string | undefined;
     do {
-      const r = await this.client.send(new ListObjectsV2Command({ Bucket: this.env.S3_BUCKET, Prefix: prefix, ContinuationToken: token }));
+      const r = await this.client.send(
+        new ListObjectsV2Command({ Bucket: this.env.S3_BUCKET, Prefix: prefix, ContinuationToken: token }),
+      );
       for (const o of r.Contents ?? []) {
         // Only the objects directly under the prefix, as on disk.
-        if (o.Key && !o.Key.slice(prefix.length).includes("/")) out.push({ key: o.Key, bytes: o.Size ?? 0, modifiedAt: o.LastModified ?? new Date(0) });
+        if (o.Key && !o.Key.slice(prefix.length).includes("/"))
+          out.push({ key: o.Key, bytes: o.Size ?? 0, modifiedAt: o.LastModified ?? new Date(0) });
       }
       token = r.IsTruncated ? r.NextContinuationToken : undefined;
     } while (token);

@@ -18,7 +18,18 @@ export interface Operation {
 
 const errorSchema = z.object({
   error: z.object({
-    code: z.enum(["bad_request", "unauthenticated", "forbidden", "not_found", "conflict", "too_large", "unsupported_type", "invalid", "rate_limited", "internal"]),
+    code: z.enum([
+      "bad_request",
+      "unauthenticated",
+      "forbidden",
+      "not_found",
+      "conflict",
+      "too_large",
+      "unsupported_type",
+      "invalid",
+      "rate_limited",
+      "internal",
+    ]),
     message: z.string(),
     issues: z.array(z.object({ path: z.string(), message: z.string() })).optional(),
   }),
@@ -39,12 +50,23 @@ export function buildOpenApi(ops: Operation[], info: { title: string; version: s
           schema: js(s as z.ZodType, "input"),
         }))
       : [];
-    const pathParams = [...op.path.matchAll(/\{(\w+)\}/g)].map((m) => ({ name: m[1], in: "path", required: true, schema: { type: "string" } }));
+    const pathParams = [...op.path.matchAll(/\{(\w+)\}/g)].map((m) => ({
+      name: m[1],
+      in: "path",
+      required: true,
+      schema: { type: "string" },
+    }));
     const responses: Record<string, unknown> = {
-      [String(op.status ?? 200)]: { description: "Success", content: { [op.contentType ?? "application/json"]: { schema: js(op.response, "output") } } },
+      [String(op.status ?? 200)]: {
+        description: "Success",
+        content: { [op.contentType ?? "application/json"]: { schema: js(op.response, "output") } },
+      },
     };
     for (const code of op.errors ?? [422]) {
-      responses[String(code)] = { description: "Error envelope", content: { "application/json": { schema: { $ref: "#/components/schemas/Error" } } } };
+      responses[String(code)] = {
+        description: "Error envelope",
+        content: { "application/json": { schema: { $ref: "#/components/schemas/Error" } } },
+      };
     }
     paths[op.path] ??= {};
     paths[op.path]![op.method] = {
@@ -52,7 +74,9 @@ export function buildOpenApi(ops: Operation[], info: { title: string; version: s
       tags: op.tags,
       ...(op.auth ? { security: [{ session: [] }], description: `Requires the ${op.auth} role or higher.` } : {}),
       parameters: [...pathParams, ...parameters],
-      ...(op.body ? { requestBody: { required: true, content: { "application/json": { schema: js(op.body, "input") } } } } : {}),
+      ...(op.body
+        ? { requestBody: { required: true, content: { "application/json": { schema: js(op.body, "input") } } } }
+        : {}),
       responses,
     };
   }

@@ -18,7 +18,13 @@ export function newNonce(): string {
 
 export function contentSecurityPolicy({ nonce, api, https, dev }: SurfaceOptions): string {
   if (api) {
-    return ["default-src 'none'", "object-src 'none'", "base-uri 'none'", "form-action 'none'", "frame-ancestors 'none'"].join("; ");
+    return [
+      "default-src 'none'",
+      "object-src 'none'",
+      "base-uri 'none'",
+      "form-action 'none'",
+      "frame-ancestors 'none'",
+    ].join("; ");
   }
   return [
     "default-src 'self'",
@@ -64,5 +70,9 @@ export function securityHeaders(o: SurfaceOptions): Record<string, string> {
  * address. A forged header can only add HSTS to a plain-http answer, which browsers ignore.
  */
 export function servedOverHttps(url: string, forwardedProto: string | null, publicUrl: string | undefined): boolean {
-  return url.startsWith("https:") || forwardedProto?.split(",")[0]?.trim() === "https" || (publicUrl?.startsWith("https:") ?? false);
+  return (
+    url.startsWith("https:") ||
+    forwardedProto?.split(",")[0]?.trim() === "https" ||
+    (publicUrl?.startsWith("https:") ?? false)
+  );
 }

@@ -20,7 +20,9 @@ const names = ["S3_ENDPOINT", "S3_BUCKET", "S3_REGION", "S3_ACCESS_KEY_ID", "S3_
 export function getS3Env(env: Record<string, string | undefined> = process.env): S3Env | null {
   const set = names.filter((n) => env[n]);
   if (set.length === 0) return null;
-  const raw = Object.fromEntries(Object.entries(env).filter(([k, v]) => k.startsWith("S3_") && v !== undefined && v !== ""));
+  const raw = Object.fromEntries(
+    Object.entries(env).filter(([k, v]) => k.startsWith("S3_") && v !== undefined && v !== ""),
+  );
   const parsed = s3Schema.safeParse(raw);
   if (!parsed.success) {
     const missing = names.filter((n) => !env[n]);

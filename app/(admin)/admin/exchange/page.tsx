@@ -10,12 +10,22 @@ export default async function ExchangePage() {
   const overview = await pageData(getExchangeOverview({ actor: await getPageActor() }));
   return (
     <div className="grid gap-6">
-      <PageTitle lead="Move reports in and out as CSV. Exports name no member: each reporter is a stable pseudonym. Every file carries the anecdotal notice.">Import and export</PageTitle>
+      <PageTitle lead="Move reports in and out as CSV. Exports name no member: each reporter is a stable pseudonym. Every file carries the anecdotal notice.">
+        Import and export
+      </PageTitle>
       <section className="grid gap-2">
         <h2 className="text-xl font-bold text-peat-900">Export</h2>
         <ul className="list-disc pl-6">
-          <li><a href="/api/export/reports.csv">All {overview.exportable} submitted reports (CSV, reporters pseudonymised)</a>{overview.imported ? `, ${overview.imported} of them imported` : ""}</li>
-          <li><a href="/api/export/summaries.csv?agent=hydrogen-peroxide">Hydrogen peroxide summaries (CSV)</a> — other agents from the evidence page</li>
+          <li>
+            <a href="/api/export/reports.csv">
+              All {overview.exportable} submitted reports (CSV, reporters pseudonymised)
+            </a>
+            {overview.imported ? `, ${overview.imported} of them imported` : ""}
+          </li>
+          <li>
+            <a href="/api/export/summaries.csv?agent=hydrogen-peroxide">Hydrogen peroxide summaries (CSV)</a> — other
+            agents from the evidence page
+          </li>
         </ul>
       </section>
       <section className="grid gap-2">

@@ -11,7 +11,9 @@ export default async function MembersPage() {
   const changes = await pageData(getRoleChangesByUserId({ actor }, undefined, 20));
   return (
     <div className="grid gap-8">
-      <PageTitle lead="Change a role with its menu; the change takes effect at once and is recorded below.">Members and roles</PageTitle>
+      <PageTitle lead="Change a role with its menu; the change takes effect at once and is recorded below.">
+        Members and roles
+      </PageTitle>
       <MembersTable />
       <section>
         <h2 className="mb-2 text-xl font-bold text-peat-900">Recent role changes</h2>
@@ -21,8 +23,8 @@ export default async function MembersPage() {
           <ul className="grid gap-1">
             {changes.map((c) => (
               <li key={c.id}>
-                <When at={c.at} />: {c.actorName ?? "someone"} changed{" "}
-                <strong>{c.memberName}</strong> from {c.fromRole} to {c.toRole}.
+                <When at={c.at} />: {c.actorName ?? "someone"} changed <strong>{c.memberName}</strong> from {c.fromRole}{" "}
+                to {c.toRole}.
               </li>
             ))}
           </ul>

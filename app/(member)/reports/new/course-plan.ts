@@ -42,9 +42,18 @@ export async function coursePlanFromParams(sp: Record<string, string | undefined
   const species = catalogue.species.find((s) => s.id === q.data.speciesId);
   const groupSlug = species?.groupSlug ?? q.data.group;
   const group = catalogue.speciesGroups.find((g) => g.slug === groupSlug);
-  const fish = species ? `${species.commonName} (${species.scientificName})${group ? `, ${group.name}` : ""}` : group ? group.name : null;
+  const fish = species
+    ? `${species.commonName} (${species.scientificName})${group ? `, ${group.name}` : ""}`
+    : group
+      ? group.name
+      : null;
   // What the keeper measures: the mL on the syringe's marks, or the grams on the scale, as the planner shows them.
-  const amount = (a: { doseMl: number | null; measured: { ml: number } | null; doseGrams?: number; weighed?: { grams: number } }) =>
+  const amount = (a: {
+    doseMl: number | null;
+    measured: { ml: number } | null;
+    doseGrams?: number;
+    weighed?: { grams: number };
+  }) =>
     a.doseMl == null
       ? `${fmt(a.weighed && a.weighed.grams > 0 ? a.weighed.grams : (a.doseGrams ?? 0), 1)} g of dry salt`
       : `${fmt(a.measured && a.measured.ml > 0 ? a.measured.ml : a.doseMl)} mL`;
@@ -55,7 +64,14 @@ export async function coursePlanFromParams(sp: Record<string, string | undefined
     target: answer.concentration,
     fullAmount: amount(answer),
     volumeL: answer.volumeL,
-    firstDose: answer.firstDose && answer.firstDose.fraction < 1 ? { fraction: answer.firstDose.fraction, concentration: answer.firstDose.concentration, amount: amount(answer.firstDose) } : null,
+    firstDose:
+      answer.firstDose && answer.firstDose.fraction < 1
+        ? {
+            fraction: answer.firstDose.fraction,
+            concentration: answer.firstDose.concentration,
+            amount: amount(answer.firstDose),
+          }
+        : null,
     warnings: answer.warnings.map((w) => ({ code: w.code, message: w.message })),
     acknowledged: (sp.acknowledged ?? "").split(",").filter(Boolean),
   };

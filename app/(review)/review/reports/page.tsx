@@ -10,10 +10,18 @@ export const metadata = { title: "All reports" };
 const one = (v: string | string[] | undefined) => (typeof v === "string" ? v : "");
 
 // Links may preset filters (e.g. ?status=accepted&group=corydoras); the API checks every value again.
-export default async function AllReportsPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+export default async function AllReportsPage({
+  searchParams,
+}: {
+  searchParams: Promise<Record<string, string | string[] | undefined>>;
+}) {
   // The list itself comes from the API; asking the data layer here makes the page refuse whoever it refuses.
   const actor = await getPageActor();
-  const [sp, catalogue, first] = await Promise.all([searchParams, getCatalogue(), pageData(listAllReports({ actor, params: { scope: "all", pageSize: "1" } }))]);
+  const [sp, catalogue, first] = await Promise.all([
+    searchParams,
+    getCatalogue(),
+    pageData(listAllReports({ actor, params: { scope: "all", pageSize: "1" } })),
+  ]);
   const dateOf = one(sp.dateOf);
   return (
     <div className="grid gap-6">
@@ -27,7 +35,12 @@ export default async function AllReportsPage({ searchParams }: { searchParams: P
         groups={catalogue.speciesGroups.map((g) => ({ slug: g.slug, name: g.name }))}
         agents={catalogue.agents.map((a) => ({ slug: a.slug, name: a.name }))}
         initial={{
-          status: one(sp.status), group: one(sp.group), agent: one(sp.agent), member: one(sp.member), from: one(sp.from), to: one(sp.to),
+          status: one(sp.status),
+          group: one(sp.group),
+          agent: one(sp.agent),
+          member: one(sp.member),
+          from: one(sp.from),
+          to: one(sp.to),
           dateOf: dateOf === "decided" || dateOf === "started" ? dateOf : "submitted",
         }}
       />

@@ -1,6 +1,20 @@
 import { setRoleSchema } from "@/features/members";
-import { AUTH_BODY_LIMIT, assertRole, authPath, changeMemberRole, getActor, handleAuthRequest } from "@/features/members/server";
-import { errorResponse, json, parseJson, refuseControlCharactersIn, refuseOtherMethods, route } from "@/features/shared/server/http";
+import {
+  AUTH_BODY_LIMIT,
+  assertRole,
+  authPath,
+  changeMemberRole,
+  getActor,
+  handleAuthRequest,
+} from "@/features/members/server";
+import {
+  errorResponse,
+  json,
+  parseJson,
+  refuseControlCharactersIn,
+  refuseOtherMethods,
+  route,
+} from "@/features/shared/server/http";
 
 // better-auth's own routes (sign-up, sign-in, sign-out, session, verification, password reset),
 // behind the app's body, field and sign-in limits (handleAuthRequest).

@@ -8,7 +8,10 @@ export const dynamic = "force-dynamic";
 export const GET = route(async (req) => {
   const body = await planCalendarFromQuery(parseQuery(req, planIcsQuerySchema));
   return new Response(body, {
-    headers: { "content-type": "text/calendar; charset=utf-8", "content-disposition": 'attachment; filename="dose-plan.ics"' },
+    headers: {
+      "content-type": "text/calendar; charset=utf-8",
+      "content-disposition": 'attachment; filename="dose-plan.ics"',
+    },
   });
 });
 

@@ -7,7 +7,10 @@ export const dynamic = "force-dynamic";
 export const GET = route(async (req) => {
   const actor = await requireActor(req.headers, ["moderator", "admin"], "export reports");
   return new Response(exportReportsCsv(actor), {
-    headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": 'attachment; filename="tanklore-reports.csv"' },
+    headers: {
+      "content-type": "text/csv; charset=utf-8",
+      "content-disposition": 'attachment; filename="tanklore-reports.csv"',
+    },
   });
 });
 

@@ -7,7 +7,11 @@ import { errorResponse, json, parseQuery, readBody, route, refuseOtherMethods } 
 export const dynamic = "force-dynamic";
 
 const answer = ({ imported, skipped, rejected, touched, dryRun }: ImportResult) => ({
-  imported, skipped, rejected, touched: touched.map((t) => ({ group: t.groupSlug, agent: t.agentSlug })), ...(dryRun ? { dryRun } : {}),
+  imported,
+  skipped,
+  rejected,
+  touched: touched.map((t) => ({ group: t.groupSlug, agent: t.agentSlug })),
+  ...(dryRun ? { dryRun } : {}),
 });
 
 /**
@@ -52,7 +56,9 @@ export const POST = route(async (req) => {
       open = false;
     },
   });
-  return new Response(stream, { headers: { "content-type": "application/x-ndjson; charset=utf-8", "cache-control": "no-store" } });
+  return new Response(stream, {
+    headers: { "content-type": "application/x-ndjson; charset=utf-8", "cache-control": "no-store" },
+  });
 });
 
 export const { GET, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("POST");

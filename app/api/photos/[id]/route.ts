@@ -10,11 +10,18 @@ export const GET = route<P>(async (req, { params }) => {
   const actor = await requireActor(req.headers);
   const size = new URL(req.url).searchParams.get("size") ?? "full";
   if (size !== "thumb" && size !== "full") {
-    throw new AppError("invalid", "Some query parameters need fixing; see issues.", [{ path: "size", message: "size must be thumb or full." }]);
+    throw new AppError("invalid", "Some query parameters need fixing; see issues.", [
+      { path: "size", message: "size must be thumb or full." },
+    ]);
   }
   const data = await getPhotoFile(actor, (await params).id, size);
   return new Response(new Uint8Array(data), {
-    headers: { "content-type": "image/jpeg", "cache-control": "private, max-age=3600", "x-content-type-options": "nosniff", "content-length": String(data.length) },
+    headers: {
+      "content-type": "image/jpeg",
+      "cache-control": "private, max-age=3600",
+      "x-content-type-options": "nosniff",
+      "content-length": String(data.length),
+    },
   });
 });
 

@@ -10,7 +10,13 @@ import { wizardCatalogue } from "../../_wizard-catalogue";
 
 export const metadata = { title: "Edit report" };
 
-export default async function EditReportPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ step?: string }> }) {
+export default async function EditReportPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ id: string }>;
+  searchParams: Promise<{ step?: string }>;
+}) {
   const [{ id }, { step }] = await Promise.all([params, searchParams]);
   const actor = await getPageActor();
   const report = await pageData(getReportById(actor, id));

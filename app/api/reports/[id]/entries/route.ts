@@ -9,7 +9,10 @@ export const dynamic = "force-dynamic";
 export const POST = route<{ id: string }>(async (req, { params }) => {
   const actor = await requireActor(req.headers);
   const { id } = await params;
-  return json(await addCourseEntry(actor, id, await parseJson(req, courseEntrySchema), { loadEvidence: groupSummary }), 201);
+  return json(
+    await addCourseEntry(actor, id, await parseJson(req, courseEntrySchema), { loadEvidence: groupSummary }),
+    201,
+  );
 });
 
 export const { GET, PUT, PATCH, DELETE, OPTIONS } = refuseOtherMethods("POST");

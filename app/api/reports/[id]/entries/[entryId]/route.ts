@@ -10,7 +10,11 @@ export const dynamic = "force-dynamic";
 export const PATCH = route<{ id: string; entryId: string }>(async (req, { params }) => {
   const actor = await requireActor(req.headers);
   const { id, entryId } = await params;
-  return json(await correctCourseEntry(actor, id, entryId, await parseJson(req, courseEntryPatchSchema), { loadEvidence: groupSummary }));
+  return json(
+    await correctCourseEntry(actor, id, entryId, await parseJson(req, courseEntryPatchSchema), {
+      loadEvidence: groupSummary,
+    }),
+  );
 });
 
 export const { GET, POST, PUT, DELETE, OPTIONS } = refuseOtherMethods("PATCH");
