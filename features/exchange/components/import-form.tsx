@@ -120,7 +120,7 @@ export function ImportForm() {
   return (
     <form
       onSubmit={onCheck}
-      className="grid max-w-2xl gap-3 rounded-lg border border-peat-100 bg-white p-4"
+      className="grid min-w-0 max-w-2xl grid-cols-1 gap-3 rounded-lg border border-peat-100 bg-white p-4"
       aria-label="Import reports"
     >
       <label htmlFor={`${id}-file`} className="font-bold">
@@ -130,7 +130,7 @@ export function ImportForm() {
         id={`${id}-file`}
         type="file"
         accept=".csv,text/csv"
-        className="max-w-full"
+        className="w-full min-w-0 max-w-full"
         onChange={(e) => {
           setFile(e.target.files?.[0] ?? null);
           setPreview(null);

@@ -9,11 +9,11 @@ export const metadata = { title: "Import and export" };
 export default async function ExchangePage() {
   const overview = await pageData(getExchangeOverview({ actor: await getPageActor() }));
   return (
-    <div className="grid gap-6">
+    <div className="grid min-w-0 grid-cols-1 gap-6">
       <PageTitle lead="Move reports in and out as CSV. Exports name no member: each reporter is a stable pseudonym. Every file carries the anecdotal notice.">
         Import and export
       </PageTitle>
-      <section className="grid gap-2">
+      <section className="grid min-w-0 grid-cols-1 gap-2">
         <h2 className="text-xl font-bold text-peat-900">Export</h2>
         <ul className="list-disc pl-6">
           <li>
@@ -28,7 +28,7 @@ export default async function ExchangePage() {
           </li>
         </ul>
       </section>
-      <section className="grid gap-2">
+      <section className="grid min-w-0 grid-cols-1 gap-2">
         <h2 className="text-xl font-bold text-peat-900">Import historical reports</h2>
         <ImportForm />
       </section>
