@@ -97,6 +97,7 @@ const bodies: Record<string, () => Record<string, unknown>> = {
   "POST /api/admin/catalogue/species/[key]/merge": () => ({ into: "danio-rerio", note: "The same fish." }),
   "PATCH /api/admin/members/[id]": () => ({ role: "moderator" }),
   "PATCH /api/admin/settings": () => ({ name: "Fuzz test club" }),
+  "POST /api/admin/jobs": () => ({ run: "moderator-digest" }),
 };
 
 /** Query parameters each GET route reads (besides these, an unknown one is tried on every route). */
