@@ -97,6 +97,8 @@ beforeAll(async () => {
     kind: "dose",
     at: new Date(Date.now() - 3 * 86400_000).toISOString(),
     amountMl: 33,
+    // 33 mL of 3 % in 40 L is about 25 mg/L, at or above the demo tetras' lowest adverse dose: the keeper acknowledges it.
+    confirm: true,
   });
   await post(member, `/api/reports/${courseId}/entries`, {
     kind: "dose",
