@@ -104,6 +104,7 @@ beforeAll(async () => {
     kind: "dose",
     at: new Date(Date.now() - 3600_000).toISOString(),
     amountMl: 33,
+    confirm: true,
   });
 }, 120_000);
 
