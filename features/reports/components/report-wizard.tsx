@@ -105,6 +105,7 @@ const labels: Record<string, string> = {
 
 export type WizardPrefill = Partial<
   Record<
+    | "speciesId"
     | "agentSlug"
     | "stockFormId"
     | "stockPercent"
@@ -121,7 +122,7 @@ function initialValues(r: WizardReport | null, defaults: WizardPrefill): WizardV
   // A course started from the planner arrives with its treatment and water filled in.
   const pre = r ? {} : Object.fromEntries(Object.entries(defaults).filter(([, v]) => v));
   return {
-    speciesId: r ? (r.speciesId ?? (r.speciesOther ? SPECIES_NOT_LISTED : "")) : "",
+    speciesId: r ? (r.speciesId ?? (r.speciesOther ? SPECIES_NOT_LISTED : "")) : (pre.speciesId ?? ""),
     speciesOther: s(r?.speciesOther),
     fishCount: s(r?.fishCount),
     sizeClass: s(r?.sizeClass),
