@@ -1,110 +1,59 @@
 "use client";
 
-import { useRouter } from "next/navigation";
-import { useState } from "react";
-import { zodResolver } from "@hookform/resolvers/zod";
-import { useForm, type FieldPath } from "react-hook-form";
-import type { z } from "zod";
-import { ApiError, fetchJson } from "@/features/shared/fetch-json";
-import { clubSettingsSchema } from "../settings-schema";
+import { useActionState } from "react";
 
-export interface SettingsValues {
-  name: string;
-  confidenceLevel: number;
-  minReports: number;
-  defaultVolumeUnit: string;
-  defaultTemperatureUnit: string;
-  firstDoseFraction: number;
-  nightlyBackup: boolean;
+export interface SettingsState {
+  ok: boolean;
+  message: string | null;
+  fieldErrors: Record<string, string>;
+  values: {
+    name: string;
+    confidenceLevel: number;
+    minReports: number;
+    defaultVolumeUnit: string;
+    defaultTemperatureUnit: string;
+    firstDoseFraction: number;
+    nightlyBackup: boolean;
+  };
 }
 
-type Input = z.input<typeof clubSettingsSchema>;
-type Output = z.output<typeof clubSettingsSchema>;
-
-/** The club settings, checked by the API's own schema and saved through PATCH /api/admin/settings. */
-export function SettingsForm({ initial }: { initial: SettingsValues }) {
-  const router = useRouter();
-  const [saved, setSaved] = useState(initial);
-  const [message, setMessage] = useState<{ ok: boolean; text: string } | null>(null);
-  const {
-    register,
-    handleSubmit,
-    setError,
-    formState: { errors, isSubmitting },
-  } = useForm<Input, unknown, Output>({
-    resolver: zodResolver(clubSettingsSchema),
-    mode: "onTouched",
-    defaultValues: {
-      ...initial,
-      // Stored as the schema wrote them; the selects hold text.
-      defaultVolumeUnit: initial.defaultVolumeUnit as Input["defaultVolumeUnit"],
-      defaultTemperatureUnit: initial.defaultTemperatureUnit as Input["defaultTemperatureUnit"],
-      confidenceLevel: String(initial.confidenceLevel),
-      minReports: String(initial.minReports),
-      firstDoseFraction: initial.firstDoseFraction === 0.5 ? "0.5" : "0.3333333333333333",
-    },
-  });
-  const onSubmit = handleSubmit(
-    async (values) => {
-      setMessage(null);
-      try {
-        const { settings } = await fetchJson<{ settings: SettingsValues }>("/api/admin/settings", {
-          method: "PATCH",
-          body: JSON.stringify(values),
-        });
-        const recomputing =
-          settings.confidenceLevel !== saved.confidenceLevel || settings.minReports !== saved.minReports;
-        setSaved(settings);
-        setMessage({
-          ok: true,
-          text: recomputing
-            ? "Saved. Every summary is being recomputed with the new settings; the evidence pages show them within a few seconds."
-            : "Saved.",
-        });
-        router.refresh();
-      } catch (err) {
-        // The server's answer lands on the fields it names; the first of them gets the cursor.
-        const issues = err instanceof ApiError ? (err.body.issues ?? []) : [];
-        issues.forEach((i, n) =>
-          setError(i.path as FieldPath<Input>, { type: "server", message: i.message }, { shouldFocus: n === 0 }),
-        );
-        setMessage({
-          ok: false,
-          text: issues.length
-            ? "Some settings need fixing; nothing was changed."
-            : err instanceof ApiError
-              ? err.message
-              : "The settings could not be saved; check your connection and try again.",
-        });
-      }
-    },
-    () => setMessage({ ok: false, text: "Some settings need fixing; nothing was changed." }),
-  );
-  const cls = "rounded-md border border-peat-300 bg-white px-3 py-2";
-  const err = (k: keyof Input) =>
-    errors[k]?.message ? (
+export function SettingsForm({
+  action,
+  initial,
+}: {
+  action: (s: SettingsState, f: FormData) => Promise<SettingsState>;
+  initial: SettingsState;
+}) {
+  const [state, formAction, pending] = useActionState(action, initial);
+  const err = (k: string) =>
+    state.fieldErrors[k] ? (
       <p id={`${k}-error`} className="text-sm font-bold text-alarm-700">
-        {errors[k]?.message}
+        {state.fieldErrors[k]}
       </p>
     ) : null;
-  const aria = (k: keyof Input, help?: string) => ({
-    "aria-invalid": errors[k] ? true : undefined,
-    "aria-describedby": [help, errors[k] ? `${k}-error` : null].filter(Boolean).join(" ") || undefined,
-  });
+  const v = state.values;
+  const cls = "rounded-md border border-peat-300 bg-white px-3 py-2";
   return (
-    <form onSubmit={onSubmit} noValidate className="grid max-w-xl gap-4" aria-label="Club settings">
+    <form action={formAction} className="grid max-w-xl gap-4" aria-label="Club settings">
       <div className="grid gap-1">
         <label htmlFor="name" className="font-bold">
           Club name
         </label>
-        <input id="name" {...register("name")} className={cls} {...aria("name")} />
+        <input
+          id="name"
+          name="name"
+          defaultValue={v.name}
+          className={cls}
+          aria-invalid={state.fieldErrors.name ? true : undefined}
+          aria-describedby={state.fieldErrors.name ? "name-error" : undefined}
+        />
         {err("name")}
       </div>
       <div className="grid gap-1">
         <label htmlFor="confidenceLevel" className="font-bold">
           Confidence level of intervals
         </label>
-        <select id="confidenceLevel" {...register("confidenceLevel")} className={cls} {...aria("confidenceLevel")}>
+        <select id="confidenceLevel" name="confidenceLevel" defaultValue={String(v.confidenceLevel)} className={cls}>
           {[80, 90, 95, 99].map((x) => (
             <option key={x} value={x}>
               {x} %
@@ -119,10 +68,12 @@ export function SettingsForm({ initial }: { initial: SettingsValues }) {
         </label>
         <input
           id="minReports"
-          {...register("minReports")}
+          name="minReports"
           inputMode="numeric"
+          defaultValue={String(v.minReports)}
           className={cls}
-          {...aria("minReports")}
+          aria-invalid={state.fieldErrors.minReports ? true : undefined}
+          aria-describedby={state.fieldErrors.minReports ? "minReports-error" : undefined}
         />
         {err("minReports")}
       </div>
@@ -131,17 +82,11 @@ export function SettingsForm({ initial }: { initial: SettingsValues }) {
           <label htmlFor="defaultVolumeUnit" className="font-bold">
             Default volume unit
           </label>
-          <select
-            id="defaultVolumeUnit"
-            {...register("defaultVolumeUnit")}
-            className={cls}
-            {...aria("defaultVolumeUnit")}
-          >
+          <select id="defaultVolumeUnit" name="defaultVolumeUnit" defaultValue={v.defaultVolumeUnit} className={cls}>
             <option value="L">litres</option>
             <option value="gal_us">US gallons</option>
             <option value="gal_imp">imperial gallons</option>
           </select>
-          {err("defaultVolumeUnit")}
         </div>
         <div className="grid gap-1">
           <label htmlFor="defaultTemperatureUnit" className="font-bold">
@@ -149,14 +94,13 @@ export function SettingsForm({ initial }: { initial: SettingsValues }) {
           </label>
           <select
             id="defaultTemperatureUnit"
-            {...register("defaultTemperatureUnit")}
+            name="defaultTemperatureUnit"
+            defaultValue={v.defaultTemperatureUnit}
             className={cls}
-            {...aria("defaultTemperatureUnit")}
           >
             <option value="C">°C</option>
             <option value="F">°F</option>
           </select>
-          {err("defaultTemperatureUnit")}
         </div>
       </div>
       <div className="grid gap-1">
@@ -165,9 +109,9 @@ export function SettingsForm({ initial }: { initial: SettingsValues }) {
         </label>
         <select
           id="firstDoseFraction"
-          {...register("firstDoseFraction")}
+          name="firstDoseFraction"
+          defaultValue={v.firstDoseFraction === 0.5 ? "0.5" : "0.3333333333333333"}
           className={cls}
-          {...aria("firstDoseFraction")}
         >
           <option value="0.5">½ of the usual (median tolerated) dose</option>
           <option value="0.3333333333333333">⅓ of the usual dose (more cautious)</option>
@@ -178,10 +122,11 @@ export function SettingsForm({ initial }: { initial: SettingsValues }) {
         <div className="flex items-center gap-2">
           <input
             id="nightlyBackup"
+            name="nightlyBackup"
             type="checkbox"
-            {...register("nightlyBackup")}
+            defaultChecked={v.nightlyBackup}
             className="h-4 w-4"
-            {...aria("nightlyBackup", "nightlyBackup-help")}
+            aria-describedby="nightlyBackup-help"
           />
           <label htmlFor="nightlyBackup" className="font-bold">
             Take a backup every night
@@ -193,20 +138,20 @@ export function SettingsForm({ initial }: { initial: SettingsValues }) {
         </p>
         {err("nightlyBackup")}
       </div>
-      {message ? (
+      {state.message ? (
         <p
-          role={message.ok ? "status" : "alert"}
-          className={message.ok ? "font-bold text-peat-700" : "font-bold text-alarm-700"}
+          role={state.ok ? "status" : "alert"}
+          className={state.ok ? "font-bold text-peat-700" : "font-bold text-alarm-700"}
         >
-          {message.text}
+          {state.message}
         </p>
       ) : null}
       <button
         type="submit"
-        disabled={isSubmitting}
+        disabled={pending}
         className="justify-self-start rounded-md bg-peat-700 px-4 py-2 font-bold text-white"
       >
-        {isSubmitting ? "Saving and recomputing…" : "Save settings"}
+        {pending ? "Saving and recomputing…" : "Save settings"}
       </button>
     </form>
   );

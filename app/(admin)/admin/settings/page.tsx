@@ -1,12 +1,35 @@
-import { getClubSettingsForEdit } from "@/features/catalogue/server";
-import { SettingsForm } from "@/features/catalogue/components/settings-form";
+import { clubSettingsSchema } from "@/features/catalogue";
+import { getClubSettings, getClubSettingsForEdit, updateClubSettings } from "@/features/catalogue/server";
+import { SettingsForm, type SettingsState } from "@/features/catalogue/components/settings-form";
 import { getPageActor } from "@/features/members/server";
 import { PageTitle } from "@/features/shared/components/ui";
 import { pageData } from "@/features/shared/server/page";
 import { When } from "@/features/shared/components/when";
 import { formatDayTime } from "@/features/shared/format-time";
+import { canEditClubSettings } from "@/features/shared/policies";
 
 export const metadata = { title: "Club settings" };
+
+/** A server action is a public endpoint: updateClubSettings checks the caller; the early answer is only kinder. */
+async function saveSettings(prev: SettingsState, form: FormData): Promise<SettingsState> {
+  "use server";
+  const actor = await getPageActor();
+  if (!canEditClubSettings(actor))
+    return { ...prev, ok: false, message: "Only club officers (admins) may change the settings.", fieldErrors: {} };
+  const raw = Object.fromEntries(form.entries());
+  const parsed = clubSettingsSchema.safeParse(raw);
+  if (!parsed.success) {
+    const fieldErrors = Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message]));
+    return { ...prev, ok: false, message: "Some settings need fixing; nothing was changed.", fieldErrors };
+  }
+  const before = await getClubSettings();
+  const saved = await updateClubSettings(actor, parsed.data);
+  const recomputing = saved.confidenceLevel !== before.confidenceLevel || saved.minReports !== before.minReports;
+  const message = recomputing
+    ? "Saved. Every summary is being recomputed with the new settings; the evidence pages show them within a few seconds."
+    : "Saved.";
+  return { ok: true, message, fieldErrors: {}, values: saved };
+}
 
 export default async function SettingsPage() {
   const s = await pageData(getClubSettingsForEdit({ actor: await getPageActor() }));
@@ -15,18 +38,7 @@ export default async function SettingsPage() {
       <PageTitle lead="These apply to every summary; changing the confidence level or the minimum recomputes them all.">
         Club settings
       </PageTitle>
-      {/* The form saves through PATCH /api/admin/settings, where updateClubSettings checks the caller. */}
-      <SettingsForm
-        initial={{
-          name: s.name,
-          confidenceLevel: s.confidenceLevel,
-          minReports: s.minReports,
-          defaultVolumeUnit: s.defaultVolumeUnit,
-          defaultTemperatureUnit: s.defaultTemperatureUnit,
-          firstDoseFraction: s.firstDoseFraction,
-          nightlyBackup: s.nightlyBackup,
-        }}
-      />
+      <SettingsForm action={saveSettings} initial={{ ok: true, message: null, fieldErrors: {}, values: s }} />
       <section aria-labelledby="backups-heading" className="grid max-w-xl gap-2">
         <h2 id="backups-heading" className="text-lg font-bold">
           Backups
