@@ -118,6 +118,8 @@ export type WizardPrefill = Partial<
   >
 >;
 
+const FOCUS_STEP_KEY = "tanklore-focus-step-heading";
+
 function initialValues(r: WizardReport | null, defaults: WizardPrefill): WizardValues {
   // A course started from the planner arrives with its treatment and water filled in.
   const pre = r ? {} : Object.fromEntries(Object.entries(defaults).filter(([, v]) => v));
@@ -279,15 +281,15 @@ export function ReportWizard({
     ],
   });
   const stepHeading = useRef<HTMLHeadingElement>(null);
-  // Set when the keeper moves between steps (not on first load), so focus lands on the new step's heading.
-  const focusStepHeading = useRef(false);
+  // Set when the keeper moves between steps (not on first load), so focus lands on the new step's heading. Kept in
+  // sessionStorage because saving a new draft navigates to its edit page, which mounts a fresh wizard.
   useEffect(() => {
-    if (!focusStepHeading.current) return;
-    focusStepHeading.current = false;
+    if (sessionStorage.getItem(FOCUS_STEP_KEY) !== "1") return;
+    sessionStorage.removeItem(FOCUS_STEP_KEY);
     stepHeading.current?.focus();
   }, [step]);
   const goTo = (n: number) => {
-    focusStepHeading.current = true;
+    sessionStorage.setItem(FOCUS_STEP_KEY, "1");
     setStep(n);
   };
 
@@ -353,7 +355,7 @@ export function ReportWizard({
       } else if (step < 4) {
         await fetchJson(`/api/reports/${reportId}`, { method: "PATCH", body: JSON.stringify(patch) });
       }
-      focusStepHeading.current = true;
+      sessionStorage.setItem(FOCUS_STEP_KEY, "1");
       router.replace(`/reports/${reportId}/edit?step=${next}`);
       router.refresh();
       setStep(next);
@@ -408,7 +410,6 @@ export function ReportWizard({
   };
   const fld = (name: FieldPath<WizardValues>) => ({ fid: id, name, error: errorOf(name) });
   const onSave = handleSubmit(
-    // eslint-disable-next-line react-hooks/refs -- handleSubmit calls this on submit only, never during render
     (values) => save(values, step + 1),
     () => setBanner("Some answers need fixing before you go on; each one says what to change."),
   );
