@@ -119,6 +119,10 @@ export type WizardPrefill = Partial<
 >;
 
 const FOCUS_STEP_KEY = "tanklore-focus-step-heading";
+/** Called from event handlers when the keeper moves to another step: the next step's heading takes the focus. */
+function markStepMove(): void {
+  sessionStorage.setItem(FOCUS_STEP_KEY, String(Date.now() + 10_000));
+}
 
 function initialValues(r: WizardReport | null, defaults: WizardPrefill): WizardValues {
   // A course started from the planner arrives with its treatment and water filled in.
@@ -284,12 +288,11 @@ export function ReportWizard({
   // Set when the keeper moves between steps (not on first load), so focus lands on the new step's heading. Kept in
   // sessionStorage because saving a new draft navigates to its edit page, which mounts a fresh wizard.
   useEffect(() => {
-    if (sessionStorage.getItem(FOCUS_STEP_KEY) !== "1") return;
-    sessionStorage.removeItem(FOCUS_STEP_KEY);
-    stepHeading.current?.focus();
+    // A save also refreshes the page, which may mount the wizard again: the mark holds for a few seconds.
+    if (Number(sessionStorage.getItem(FOCUS_STEP_KEY) ?? 0) > Date.now()) stepHeading.current?.focus();
   }, [step]);
   const goTo = (n: number) => {
-    sessionStorage.setItem(FOCUS_STEP_KEY, "1");
+    markStepMove();
     setStep(n);
   };
 
@@ -355,7 +358,7 @@ export function ReportWizard({
       } else if (step < 4) {
         await fetchJson(`/api/reports/${reportId}`, { method: "PATCH", body: JSON.stringify(patch) });
       }
-      sessionStorage.setItem(FOCUS_STEP_KEY, "1");
+      markStepMove();
       router.replace(`/reports/${reportId}/edit?step=${next}`);
       router.refresh();
       setStep(next);
