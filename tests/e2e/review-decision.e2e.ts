@@ -44,7 +44,9 @@ describe("the moderator's decision", () => {
       await mod.goto(`${baseUrl()}/review/${id}`);
       const flags = mod.getByTestId("review-flags");
       expect(await flags.textContent()).toMatch(/Above ceiling:.*300(\.0)? mg\/L.*plausible ceiling of 150 mg\/L/);
-      // The flags come before the decision form on the page.
+      // The flags come before the decision form on the page (both laid out first: boundingBox does not wait).
+      await flags.waitFor();
+      await mod.getByRole("form", { name: "Decision" }).waitFor();
       const [flagsY, formY] = await Promise.all([
         flags.boundingBox(),
         mod.getByRole("form", { name: "Decision" }).boundingBox(),
