@@ -76,32 +76,4 @@ export async function signIn(app: AppProcess, email: string, password = PASSWORD
     .join("; ");
 }
 
-/** A complete report body (docs/api.md), as tests/support/factories.ts makes it. */
-export function reportBody(over: Record<string, unknown> = {}) {
-  return {
-    speciesId: "paracheirodon-innesi",
-    fishCount: 6,
-    sizeClass: "adult",
-    conditionSlug: "white-spot",
-    startedOn: "2026-11-02",
-    water: { volume: 40, volumeUnit: "L", temperature: 25, temperatureUnit: "C", ph: 7.0, setting: "bare" },
-    treatment: {
-      agentSlug: "hydrogen-peroxide",
-      stockPercent: 3,
-      stockBasis: "w/v",
-      amountMl: 40,
-      doses: 3,
-      intervalHours: 48,
-    },
-    outcome: {
-      fishLost: 0,
-      lossCause: null,
-      distress: "mild",
-      condition: "cleared",
-      observedDaysAfter: 7,
-      notes: "Cluster test report.",
-    },
-    showName: false,
-    ...over,
-  };
-}
+export { reportBody } from "../support/report-body";
