@@ -138,7 +138,10 @@ export async function serve(database: PreparedDatabase, onReady: (url: string) =
   await closeDb(); // this process is done with it; the app opens its own connections
   const env = getEnv();
   const port = env.PORT;
-  const child = spawn(process.execPath, ["--import", "tsx", path.join(root, "db", "http-server.ts")], {
+  // TANKLORE_APP_NODE_ARGS: extra Node options for the app's process only (e.g. --cpu-prof to profile it;
+  // NODE_OPTIONS refuses those and would reach the database process too).
+  const extra = (process.env.TANKLORE_APP_NODE_ARGS ?? "").split(/\s+/).filter(Boolean);
+  const child = spawn(process.execPath, [...extra, "--import", "tsx", path.join(root, "db", "http-server.ts")], {
     stdio: ["ignore", "inherit", "inherit"],
     env: {
       ...process.env,

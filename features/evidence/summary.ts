@@ -94,8 +94,15 @@ export const summariesResponseSchema = z.object({
   groups: z.array(summarySchema),
 });
 
+/** The agent the evidence pages and the summaries API show when none is named. */
+export const DEFAULT_EVIDENCE_AGENT = "hydrogen-peroxide";
+
 export const summaryQuerySchema = z.object({
-  agent: z.string({ error: "agent is required: an agent slug from /api/catalogue." }).min(1, "agent is required."),
+  // Optional since the evidence pages open on hydrogen peroxide too: a bare /api/summaries answers that agent.
+  agent: z
+    .string({ error: "agent must be an agent slug from /api/catalogue." })
+    .min(1, "agent must be an agent slug from /api/catalogue, or left out for hydrogen-peroxide.")
+    .default(DEFAULT_EVIDENCE_AGENT),
   condition: z.string().min(1).optional(),
 });
 

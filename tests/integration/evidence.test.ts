@@ -163,8 +163,13 @@ describe("a fixture club worked out by hand", () => {
     const bad = await call(summariesRoute.GET, "/api/summaries?agent=snake-oil");
     expect(bad.status).toBe(422);
     expect(bad.body.error.issues[0].path).toBe("agent");
-    const missing = await call(summariesRoute.GET, "/api/summaries");
-    expect(missing.status).toBe(422);
+    // Without an agent the list is hydrogen peroxide's, as on the evidence pages (an extension of the contract).
+    const bare = await call(summariesRoute.GET, "/api/summaries");
+    expect(bare.status).toBe(200);
+    expect(bare.body.agent).toBe("hydrogen-peroxide");
+    const blank = await call(summariesRoute.GET, "/api/summaries?agent=");
+    expect(blank.status).toBe(422);
+    expect(blank.body.error.issues[0].path).toBe("agent");
   });
 
   it("reads stored summaries: no recompute on a read", async () => {

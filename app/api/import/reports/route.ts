@@ -25,7 +25,7 @@ export const POST = route(async (req) => {
     throw new AppError("unsupported_type", "Send the file as text/csv, with the columns of the reports export.");
   }
   const text = (await readBody(req, 20 * 1024 * 1024, "The file is larger than 20 MB; split it.")).toString("utf8");
-  const prepared = prepareReportsImport(actor, text);
+  const prepared = await prepareReportsImport(actor, text);
   if (!(req.headers.get("accept") ?? "").includes("application/x-ndjson")) {
     return json(answer(await runReportsImport(prepared, opts)));
   }
