@@ -11,6 +11,7 @@ import { sql } from "drizzle-orm";
 import { dataDir, getEnv } from "@/features/shared/env";
 import { acquireLock, releaseLock } from "./lock";
 import * as schema from "./schema";
+import { pgliteOptions } from "./pglite-options";
 
 export type Db = PgDatabase<PgQueryResultHKT, typeof schema>;
 export type DbKind = "pglite" | "postgres";
@@ -85,7 +86,7 @@ async function open(): Promise<Handle> {
   fs.mkdirSync(dir, { recursive: true });
   const lock = acquireLock(dir);
   try {
-    const client = await PGlite.create(dir);
+    const client = await PGlite.create(dir, pgliteOptions());
     const db = drizzlePglite({ client, schema, casing: "snake_case" });
     await migratePglite(db, { migrationsFolder: migrationsFolder() });
     return {

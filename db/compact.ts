@@ -52,8 +52,29 @@ async function main(): Promise<number> {
     // A PostgreSQL role may lack the right (pg_checkpoint); that server checkpoints on its own anyway.
     console.warn("CHECKPOINT skipped:", err instanceof Error ? err.message : err);
   }
-  const after = { dir: du(pgdata), live: await size() };
+  // With the app stopped this script holds the data directory: the write-ahead log segments past the current one
+  // are left from before the WAL bounds (db/pglite-options.ts) — recycled ahead of time, holding nothing yet — and
+  // can go once the database is closed. PostgreSQL makes new ones as it needs them.
+  const liveAfter = await size();
+  const ownsDir = kind === "pglite" && !process.env.TANKLORE_EMBEDDED_DB_URL;
+  const current = ownsDir
+    ? (
+        (await db.execute(sql`select pg_walfile_name(pg_current_wal_insert_lsn()) as f`)) as unknown as {
+          rows: { f: string }[];
+        }
+      ).rows[0]!.f
+    : null;
   await closeDb();
+  if (current) {
+    const wal = path.join(pgdata, "pg_wal");
+    const ahead = fs
+      .readdirSync(wal)
+      .filter((f) => /^[0-9A-F]{24}$/.test(f) && f > current)
+      .sort();
+    // Two are kept for the shutdown checkpoint's record and the next start.
+    for (const f of ahead.slice(2)) fs.rmSync(path.join(wal, f));
+  }
+  const after = { dir: du(pgdata), live: liveAfter };
   if (kind === "pglite")
     console.log(
       `Data directory ${mb(before.dir)} → ${mb(after.dir)}; live data (pg_database_size) ${mb(before.live)} → ${mb(after.live)}.`,

@@ -8,6 +8,7 @@ import { PGLiteSocketHandler } from "@electric-sql/pglite-socket";
 import { dataDir } from "@/features/shared/env";
 import { ExclusiveQueue } from "./embedded-queue";
 import { acquireLock, releaseLock } from "./lock";
+import { pgliteOptions } from "./pglite-options";
 
 // The embedded database's own process (started by db/serve.ts for `npm start` and `npm run demo`): it owns
 // DATA_DIR/pgdata and its lock, and serves PostgreSQL's wire protocol to the app, which connects with the same `pg`
@@ -21,7 +22,7 @@ const CHECKPOINT_EVERY_MS = Number(process.env.TANKLORE_CHECKPOINT_MS) || 60_000
 const dir = path.join(dataDir(), "pgdata");
 fs.mkdirSync(dir, { recursive: true });
 const lock = acquireLock(dir);
-const db = await PGlite.create(dir);
+const db = await PGlite.create(dir, pgliteOptions());
 const queue = new ExclusiveQueue(db);
 
 // A Unix socket beside the data directory (only this machine's users with access to DATA_DIR reach it); a

@@ -26,6 +26,7 @@ import {
   type BackupManifest,
 } from "./backup";
 import { objectStorage } from "@/features/shared/server/object-storage";
+import { pgliteOptions } from "@/db/pglite-options";
 
 const run = promisify(execFile);
 
@@ -234,7 +235,7 @@ export async function restoreBackup(file: string, target: RestoreTarget): Promis
       written.push(pgdata);
       await fsp.mkdir(pgdata, { recursive: true });
       const tarball = await fsp.readFile(path.join(work, manifest.database.file));
-      const client = await PGlite.create(pgdata, { loadDataDir: new Blob([new Uint8Array(tarball)]) });
+      const client = await PGlite.create(pgdata, pgliteOptions({ loadDataDir: new Blob([new Uint8Array(tarball)]) }));
       try {
         counts = await countClub(drizzlePglite({ client, schema, casing: "snake_case" }) as unknown as Db);
       } finally {
