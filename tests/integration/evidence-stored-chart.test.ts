@@ -5,7 +5,7 @@ import * as decisionRoute from "@/app/api/reports/[id]/decision/route";
 import * as summaryRoute from "@/app/api/summaries/[groupSlug]/route";
 import { getDb, schema } from "@/db/client";
 import { seedCatalogue } from "@/features/catalogue/server";
-import { drainEvidenceOutbox, recomputeGroupAgent } from "@/features/evidence/server";
+import { drainEvidenceOutbox, recomputeGroupAgent, recomputeStale } from "@/features/evidence/server";
 import { getPointsAndSpecies } from "@/features/evidence/server/compute";
 import { call } from "../support/http";
 import { reportBody, signedInUser } from "../support/factories";
@@ -169,6 +169,20 @@ describe("the group page's chart and species, stored by the recompute", () => {
     const r = await detail(g.slug);
     expect(r.body.species.map((s: { commonName: string }) => s.commonName)).toContain("Renamed tetra");
     expect(chartOf(r.body)).toEqual(await live(g.slug));
+  });
+
+  it("recomputes at start-up the pairs whose rows were stored without the chart", async () => {
+    const db = await getDb();
+    const g = groups[0]!;
+    await db.execute(sql`
+      update evidence_summaries set detail = jsonb_build_object('bands', detail->'bands')
+       where group_slug = ${g.slug} and agent_slug = ${AGENT}`);
+    expect((await storedDetail(g.slug))!.pointBins).toBeUndefined();
+    // Rows without the chart are still answered, live from the reports.
+    expect(chartOf((await detail(g.slug)).body)).toEqual(await live(g.slug));
+    expect(await recomputeStale(db)).toBeGreaterThan(0);
+    expect(Array.isArray((await storedDetail(g.slug))!.pointBins)).toBe(true);
+    expect(await recomputeStale(db)).toBe(0);
   });
 
   it("reads the reports live where the pair was never recomputed", async () => {

@@ -127,21 +127,30 @@ export function pairFiguresSql(groupSlug: string, agentSlug: string, edges: numb
            case when grouping(cond) = 1 then (select tnt from packed) end as tnt
       from base
      group by grouping sets ((), (cond))
+    ), sets as (
+      select whole, c, reports as n, lo, hi from figs
+    ), fine as (
+      -- The reports by condition, dose and outcome, and by condition and species: the chart's input, a few thousand
+      -- rows however many reports; each row then counts once in the all-conditions set and once in its condition's.
+      select cond, dose, tol, coalesce(clr, false) as clr, count(*)::int as cnt from base group by 1, 2, 3, 4
     ), b as (
-      -- Each report once in the all-conditions set and once in its condition set: the group page's chart input.
-      select f.whole, f.c, f.reports as n, f.lo, f.hi, x.dose, x.tol, x.clr, x.sid, x.sother
-        from base x join figs f on f.whole or f.c = x.cond
+      select s.whole, s.c, s.n, s.lo, s.hi, f.dose, f.tol, f.clr, f.cnt from fine f join sets s on s.whole or s.c = f.cond
     ), pts as (
-      select whole, c, ${POINTS_AGG} as pts from b where n <= ${POINTS_LIMIT} group by whole, c
+      select whole, c, ${POINTS_AGG} as pts
+        from (select b.* from b cross join generate_series(1, b.cnt) where b.n <= ${POINTS_LIMIT}) x
+       group by whole, c
     ), bins as (
       select whole, c, json_agg(json_build_array(k, bn, bt, bc) order by k) as bins
-        from (select whole, c, ${BIN_OF} as k, count(*)::int as bn, count(*) filter (where tol)::int as bt,
-                     count(*) filter (where clr)::int as bc
+        from (select whole, c, ${BIN_OF} as k, sum(cnt)::int as bn, coalesce(sum(cnt) filter (where tol), 0)::int as bt,
+                     coalesce(sum(cnt) filter (where clr), 0)::int as bc
                 from b where n > ${POINTS_LIMIT} group by whole, c, k) x
        group by whole, c
+    ), spf as (
+      select cond, sid, sother, count(*)::int as cnt from base group by 1, 2, 3
     ), sp as (
       select whole, c, json_agg(json_build_array(sid, sother, sn)) as sp
-        from (select whole, c, sid, sother, count(*)::int as sn from b group by whole, c, sid, sother) x
+        from (select s.whole, s.c, f.sid, f.sother, sum(f.cnt)::int as sn
+                from spf f join sets s on s.whole or s.c = f.cond group by s.whole, s.c, f.sid, f.sother) x
        group by whole, c
     )
     select figs.*, pts.pts, bins.bins, sp.sp
