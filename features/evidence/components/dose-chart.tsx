@@ -32,6 +32,8 @@ export function DoseChart({
   bands,
 }: Props) {
   const outcome = (d: Props["points"][number]) => (d.tolerated ? "Tolerated" : "Adverse");
+  // Everything the drawings read: the same figures reuse the same drawings (server-plot.tsx).
+  const key = JSON.stringify([unit, points, pointBins, p25, p75, median, medianInterval, lowestAdverse, bands]);
   // Large groups come as bins: one bar per bin and outcome, its height the count of reports.
   const binned =
     points.length === 0
@@ -127,7 +129,7 @@ export function DoseChart({
   return (
     <div className="grid gap-4">
       <figure className="grid gap-1">
-        <ServerPlot testId="dose-chart" build={dots} />
+        <ServerPlot testId="dose-chart" build={dots} cacheKey={key} />
         <figcaption className="text-sm text-peat-700">
           {points.length || !pointBins.length
             ? "Each dot is one accepted report at its peak dose."
@@ -137,7 +139,7 @@ export function DoseChart({
         </figcaption>
       </figure>
       <figure className="grid gap-1">
-        <ServerPlot testId="band-chart" build={shares} />
+        <ServerPlot testId="band-chart" build={shares} cacheKey={key} />
         <figcaption className="text-sm text-peat-700">
           Share of reports tolerated in each dose band, with its Wilson interval. The band table below gives the same
           figures as text.

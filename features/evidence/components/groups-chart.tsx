@@ -18,6 +18,7 @@ export function GroupsChart({ unit, rows }: { unit: string; rows: GroupRow[] }) 
   return (
     <ServerPlot
       testId="groups-chart"
+      cacheKey={JSON.stringify([unit, rows])}
       build={(width) => {
         // Group names take up to 40 % of a phone's width, cut with an ellipsis beyond it.
         const marginLeft = Math.min(170, Math.round(width * 0.4));

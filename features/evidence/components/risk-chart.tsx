@@ -26,6 +26,7 @@ export function RiskChart({ unit, curve, bmd, bmdl, points, pointBins = [] }: Pr
   return (
     <ServerPlot
       testId="risk-chart"
+      cacheKey={JSON.stringify([unit, curve, bmd, bmdl, points, pointBins])}
       build={(width) => ({
         width,
         height: width < 480 ? 240 : 260,

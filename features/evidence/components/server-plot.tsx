@@ -25,15 +25,47 @@ function drawSvg(options: Plot.PlotOptions): string {
 }
 
 /**
+ * Drawings already made, by chart and everything its drawing depends on (content-addressed: changed figures are a new
+ * key, so nothing goes stale). Drawing a page's charts costs tens of milliseconds per request; a page shown again with
+ * the same figures reuses them. Least recently used first out, bounded.
+ */
+const drawn = new Map<string, string[]>();
+const MAX_DRAWN = 96;
+
+function drawingsOf(key: string | undefined, build: (width: number) => Plot.PlotOptions): string[] {
+  if (key === undefined) return DRAWINGS.map((d) => drawSvg(build(d.width)));
+  const hit = drawn.get(key);
+  if (hit) {
+    drawn.delete(key);
+    drawn.set(key, hit);
+    return hit;
+  }
+  const svgs = DRAWINGS.map((d) => drawSvg(build(d.width)));
+  drawn.set(key, svgs);
+  if (drawn.size > MAX_DRAWN) drawn.delete(drawn.keys().next().value!);
+  return svgs;
+}
+
+/**
  * A chart as server-rendered SVG: in the first HTML, readable before (and without) any script, and no chart library
  * in the page's JavaScript. `build` gives the Plot options for a drawing width. The chart is hidden from assistive
- * technology: every chart on these pages has its text equivalent beside it.
+ * technology: every chart on these pages has its text equivalent beside it. `cacheKey`, when given, must name
+ * everything `build` reads (the chart's props, serialised): the drawings are then reused while it stays the same.
  */
-export function ServerPlot({ testId, build }: { testId: string; build: (width: number) => Plot.PlotOptions }) {
+export function ServerPlot({
+  testId,
+  build,
+  cacheKey,
+}: {
+  testId: string;
+  build: (width: number) => Plot.PlotOptions;
+  cacheKey?: string;
+}) {
+  const svgs = drawingsOf(cacheKey === undefined ? undefined : `${testId}\u0000${cacheKey}`, build);
   return (
     <div data-testid={testId} aria-hidden="true" className="min-w-0">
-      {DRAWINGS.map((d) => (
-        <div key={d.width} className={d.show} dangerouslySetInnerHTML={{ __html: drawSvg(build(d.width)) }} />
+      {DRAWINGS.map((d, i) => (
+        <div key={d.width} className={d.show} dangerouslySetInnerHTML={{ __html: svgs[i]! }} />
       ))}
     </div>
   );

@@ -103,14 +103,15 @@ export function pairFiguresSql(groupSlug: string, agentSlug: string, edges: numb
   return sql`
     with base as materialized (
       select coalesce(r.external_reporter, r.author_id) as author_id, r.fish_count, r.concentration as dose, coalesce(r.condition_slug, '') as cond,
-             ${TOLERATED} as tol, r.condition_outcome = 'cleared' as clr, width_bucket(r.concentration, ${edgeArray}) as bucket
+             ${TOLERATED} as tol, r.condition_outcome = 'cleared' as clr, width_bucket(r.concentration, ${edgeArray}) as bucket,
+             r.species_id as sid, case when r.species_id is null then coalesce(r.species_other, '?') end as sother
         from reports r
        where ${accepted(groupSlug, agentSlug)}
     ), trials as (
       select cond, dose, count(*) filter (where not tol)::int as na, count(*) filter (where tol)::int as nt from base group by cond, dose
     ), packed as (
       select array_agg(cond) as tc, array_agg(dose) as td, array_agg(na) as tna, array_agg(nt) as tnt from trials
-    )
+    ), figs as (
     select grouping(cond) = 1 as whole, cond as c,
            count(*)::int as reports,
            count(distinct author_id)::int as members,
@@ -118,13 +119,45 @@ export function pairFiguresSql(groupSlug: string, agentSlug: string, edges: numb
            count(*) filter (where tol)::int as tolerated,
            percentile_cont(array[0, 0.1, 0.25, 0.5, 0.75, 0.9, 1]::float8[]) within group (order by dose) filter (where tol) as q,
            min(dose) filter (where not tol) as lowest_adverse,
+           min(dose) as lo, max(dose) as hi,
            ${counts("")} as bn, ${counts(" and tol")} as bt, ${counts(" and clr")} as bc,
            case when grouping(cond) = 1 then (select tc from packed) end as tc,
            case when grouping(cond) = 1 then (select td from packed) end as td,
            case when grouping(cond) = 1 then (select tna from packed) end as tna,
            case when grouping(cond) = 1 then (select tnt from packed) end as tnt
       from base
-     group by grouping sets ((), (cond))`;
+     group by grouping sets ((), (cond))
+    ), sets as (
+      select whole, c, reports as n, lo, hi from figs
+    ), fine as (
+      -- The reports by condition, dose and outcome, and by condition and species: the chart's input, a few thousand
+      -- rows however many reports; each row then counts once in the all-conditions set and once in its condition's.
+      select cond, dose, tol, coalesce(clr, false) as clr, count(*)::int as cnt from base group by 1, 2, 3, 4
+    ), b as (
+      select s.whole, s.c, s.n, s.lo, s.hi, f.dose, f.tol, f.clr, f.cnt from fine f join sets s on s.whole or s.c = f.cond
+    ), pts as (
+      select whole, c, ${POINTS_AGG} as pts
+        from (select b.* from b cross join generate_series(1, b.cnt) where b.n <= ${POINTS_LIMIT}) x
+       group by whole, c
+    ), bins as (
+      select whole, c, json_agg(json_build_array(k, bn, bt, bc) order by k) as bins
+        from (select whole, c, ${BIN_OF} as k, sum(cnt)::int as bn, coalesce(sum(cnt) filter (where tol), 0)::int as bt,
+                     coalesce(sum(cnt) filter (where clr), 0)::int as bc
+                from b where n > ${POINTS_LIMIT} group by whole, c, k) x
+       group by whole, c
+    ), spf as (
+      select cond, sid, sother, count(*)::int as cnt from base group by 1, 2, 3
+    ), sp as (
+      select whole, c, json_agg(json_build_array(sid, sother, sn)) as sp
+        from (select s.whole, s.c, f.sid, f.sother, sum(f.cnt)::int as sn
+                from spf f join sets s on s.whole or s.c = f.cond group by s.whole, s.c, f.sid, f.sother) x
+       group by whole, c
+    )
+    select figs.*, pts.pts, bins.bins, sp.sp
+      from figs
+      left join pts on pts.whole = figs.whole and pts.c is not distinct from figs.c
+      left join bins on bins.whole = figs.whole and bins.c is not distinct from figs.c
+      left join sp on sp.whole = figs.whole and sp.c is not distinct from figs.c`;
 }
 
 /** x₍r₎ and x₍n−r+1₎ of a set's tolerated doses (n = its tolerated count), or null without a median interval. */
@@ -215,19 +248,87 @@ export interface PointBin {
 }
 
 /**
- * The chart's anonymous points and the contributing species of one group × agent, read when its page is shown.
- * At or below POINTS_LIMIT reports, one point per report and no bins; above it, no points and the reports
- * counted per dose bin in SQL, so a page at any size ships a few dozen rows.
+ * Bin k (1..POINT_BINS) of a dose over its set's [lo, hi]: on log dose when lo > 0 (doses span decades), else linear.
+ * The top edge belongs to the last bin; a single distinct dose is one bin. CASE keeps ln() and width_bucket away
+ * from the cases they refuse. One text for the live read and the recompute, so both cut the same bins.
+ */
+const binOf = (lo: string, hi: string, dose: string) =>
+  sql.raw(`case when ${hi} = ${lo} then 1
+    when ${lo} > 0 then least(width_bucket(ln(${dose}), ln(${lo}), ln(${hi}), ${POINT_BINS}), ${POINT_BINS})
+    else least(width_bucket(${dose}, ${lo}, ${hi}, ${POINT_BINS}), ${POINT_BINS}) end`);
+const BIN_OF = binOf("lo", "hi", "dose");
+
+/** One report as "dose:code" (code = tolerated·2 + cleared), in dose order; ties by code, so the order is fixed. */
+const pointsAgg = (q: string) =>
+  sql.raw(
+    `string_agg(${q}dose::text || ':' || (${q}tol::int * 2 + coalesce(${q}clr, false)::int)::text, ',' order by ${q}dose, ${q}tol, coalesce(${q}clr, false))`,
+  );
+const POINTS_AGG = pointsAgg("");
+
+export interface ChartFigures {
+  points: { dose: number; tolerated: boolean; cleared: boolean }[];
+  pointBins: PointBin[];
+}
+
+/** The chart's figures from the SQL's packed points ("dose:code,…") or bins ([k, n, tolerated, cleared], …). */
+function chartFrom(pts: string | null, rawBins: unknown, lo: number | null, hi: number | null): ChartFigures {
+  const points = (pts ? pts.split(",") : []).map((p) => {
+    const [dose, code] = p.split(":");
+    const c = Number(code);
+    return { dose: Number(dose), tolerated: c >= 2, cleared: c % 2 === 1 };
+  });
+  const bins = json<[number, number, number, number][]>(rawBins) ?? [];
+  // The bins' edges, worked out the way the SQL cut them (only bins holding reports are sent).
+  const edge = (k: number) => {
+    if (lo === null || hi === null || hi === lo) return k === 0 ? (lo ?? 0) : (hi ?? 0);
+    return lo > 0
+      ? Math.exp(Math.log(lo) + (k / POINT_BINS) * (Math.log(hi) - Math.log(lo)))
+      : lo + (k / POINT_BINS) * (hi - lo);
+  };
+  const pointBins: PointBin[] = bins.map(([k, n, t, c]) => ({
+    from: Number(k) === 1 ? lo! : edge(Number(k) - 1),
+    to: Number(k) === POINT_BINS || hi === lo ? hi! : edge(Number(k)),
+    reports: Number(n),
+    tolerated: Number(t),
+    cleared: Number(c),
+  }));
+  return { points, pointBins };
+}
+
+const json = <T>(v: unknown) => (typeof v === "string" ? JSON.parse(v) : v) as T | null;
+
+/** A contributing species as the recompute stores it: its id, or (no id) the name the reporter typed; its reports. */
+export type SpeciesCount = [id: string | null, other: string | null, reports: number];
+
+/**
+ * The contributing species, names read now (a renamed species shows its new name), most reports first. The same
+ * grouping and order as the live read: by species, or by the typed name where a report names none.
+ */
+const speciesListSql = (counts: ReturnType<typeof sql>) => sql`
+  select coalesce(json_agg(json_build_array(x.id, x.common_name, x.scientific_name, x.n) order by x.n desc, x.common_name, x.id), '[]')
+    from (select e->>0 as id, coalesce(s.common_name, e->>1, '?') as common_name, s.scientific_name, (e->>2)::int as n
+            from jsonb_array_elements(${counts}) e left join species s on s.id = e->>0) x`;
+
+function speciesFrom(raw: unknown) {
+  const sp = json<[string | null, string, string | null, number][]>(raw);
+  return (sp ?? []).map(([id, commonName, scientificName, n]) => ({
+    id,
+    commonName,
+    scientificName,
+    reports: Number(n),
+  }));
+}
+
+/**
+ * The chart's anonymous points and the contributing species of one group × agent, read live from its reports: the
+ * fallback where no figures are stored yet (the recompute stores the same, see pairFiguresSql). At or below
+ * POINTS_LIMIT reports, one point per report and no bins; above it, no points and the reports counted per dose bin
+ * in SQL, so a page at any size ships a few dozen rows.
  */
 export async function getPointsAndSpecies(groupSlug: string, agentSlug: string, conditionSlug: string) {
   const db = await getDb();
   const cond = conditionSlug ? sql`and r.condition_slug = ${conditionSlug}` : sql``;
-  // Bin b of POINT_BINS over [lo, hi]; on log dose when lo > 0 (doses span decades), else linear. The top
-  // edge belongs to the last bin; a single distinct dose is one bin. CASE keeps ln() and width_bucket away
-  // from the cases they refuse.
-  const bucket = sql.raw(`case when st.hi = st.lo then 1
-    when st.lo > 0 then least(width_bucket(ln(b.dose), ln(st.lo), ln(st.hi), ${POINT_BINS}), ${POINT_BINS})
-    else least(width_bucket(b.dose, st.lo, st.hi, ${POINT_BINS}), ${POINT_BINS}) end`);
+  const bucket = binOf("st.lo", "st.hi", "b.dose");
   const [row] = rowsOf<{
     n: number;
     lo: number | null;
@@ -243,15 +344,13 @@ export async function getPointsAndSpecies(groupSlug: string, agentSlug: string, 
          where ${accepted(groupSlug, agentSlug)} ${cond}
       ), st as (select count(*)::int as n, min(dose) as lo, max(dose) as hi from b)
       select st.n, st.lo, st.hi,
-             case when st.n <= ${POINTS_LIMIT} then
-               (select string_agg(b.dose::text || ':' || (b.tol::int * 2 + coalesce(b.clr, false)::int)::text, ',' order by b.dose) from b)
-             end as pts,
+             case when st.n <= ${POINTS_LIMIT} then (select ${pointsAgg("b.")} from b) end as pts,
              case when st.n > ${POINTS_LIMIT} then
                (select json_agg(json_build_array(x.k, x.n, x.t, x.c) order by x.k)
                   from (select ${bucket} as k, count(*)::int as n, count(*) filter (where b.tol)::int as t, count(*) filter (where b.clr)::int as c
                           from b group by 1) x)
              end as bins,
-             (select json_agg(json_build_array(x.species_id, x.common_name, x.scientific_name, x.n) order by x.n desc, x.common_name)
+             (select json_agg(json_build_array(x.species_id, x.common_name, x.scientific_name, x.n) order by x.n desc, x.common_name, x.species_id)
                 from (select r2.species_id, coalesce(s.common_name, r2.species_other, '?') as common_name, s.scientific_name, count(*)::int as n
                         from reports r2 left join species s on s.id = r2.species_id
                        where r2.status = 'accepted' and r2.group_slug = ${groupSlug} and r2.agent_slug = ${agentSlug} and r2.concentration is not null
@@ -259,39 +358,9 @@ export async function getPointsAndSpecies(groupSlug: string, agentSlug: string, 
                        group by 1, 2, 3) x) as species
         from st`),
   );
-  const points = (row?.pts ? row.pts.split(",") : []).map((p) => {
-    const [dose, code] = p.split(":");
-    const c = Number(code);
-    return { dose: Number(dose), tolerated: c >= 2, cleared: c % 2 === 1 };
-  });
-  const json = <T>(v: unknown) => (typeof v === "string" ? JSON.parse(v) : v) as T | null;
-  const lo = toNum(row?.lo),
-    hi = toNum(row?.hi);
-  const bins = json<[number, number, number, number][]>(row?.bins) ?? [];
-  // The bins' edges, worked out the way the SQL cut them (only bins holding reports are sent).
-  const edge = (k: number) => {
-    if (lo === null || hi === null || hi === lo) return k === 0 ? (lo ?? 0) : (hi ?? 0);
-    return lo > 0
-      ? Math.exp(Math.log(lo) + (k / POINT_BINS) * (Math.log(hi) - Math.log(lo)))
-      : lo + (k / POINT_BINS) * (hi - lo);
-  };
-  const pointBins: PointBin[] = bins.map(([k, n, t, c]) => ({
-    from: Number(k) === 1 ? lo! : edge(Number(k) - 1),
-    to: Number(k) === POINT_BINS || hi === lo ? hi! : edge(Number(k)),
-    reports: Number(n),
-    tolerated: Number(t),
-    cleared: Number(c),
-  }));
-  const sp = json<[string | null, string, string | null, number][]>(row?.species);
   return {
-    points,
-    pointBins,
-    species: (sp ?? []).map(([id, commonName, scientificName, n]) => ({
-      id,
-      commonName,
-      scientificName,
-      reports: Number(n),
-    })),
+    ...chartFrom(row?.pts ?? null, row?.bins, toNum(row?.lo), toNum(row?.hi)),
+    species: speciesFrom(row?.species),
   };
 }
 
@@ -346,7 +415,17 @@ export async function replacePairFigures(
   // One statement: every figure, and the reports by condition and distinct dose (the fit's trials, whose tolerated
   // doses also give the median interval's order statistics).
   const rows = rowsOf<
-    Row & { tc: unknown[] | null; td: unknown[] | null; tna: unknown[] | null; tnt: unknown[] | null }
+    Row & {
+      tc: unknown[] | null;
+      td: unknown[] | null;
+      tna: unknown[] | null;
+      tnt: unknown[] | null;
+      lo: unknown;
+      hi: unknown;
+      pts: string | null;
+      bins: unknown;
+      sp: unknown;
+    }
   >(await tx.execute(pairFiguresSql(groupSlug, agentSlug, edges)));
   const whole = rows.find((r) => r.whole);
   const sets = trialSetsFrom(whole?.tc ?? [], whole?.td ?? [], whole?.tna ?? [], whole?.tnt ?? []);
@@ -364,7 +443,12 @@ export async function replacePairFigures(
         ...summary,
         doseResponse: doseResponseOf(sets, row.whole ? "*all*" : (row.c ?? ""), s.confidenceLevel),
       },
-      detail: { bands },
+      // The group page's chart and species, stored with the figures so the page reads no reports.
+      detail: {
+        bands,
+        ...chartFrom(row.pts, row.bins, toNum(row.lo), toNum(row.hi)),
+        speciesCounts: json<SpeciesCount[]>(row.sp) ?? [],
+      },
       computedAt: new Date(),
     };
   });
@@ -401,18 +485,50 @@ export async function getStoredSummaries(agentSlug: string, conditionSlug: strin
     .where(and(eq(evidenceSummaries.agentSlug, agentSlug), eq(evidenceSummaries.conditionSlug, conditionSlug)));
 }
 
-/** One group's stored summary with its detail. */
-export async function getStoredSummary(groupSlug: string, agentSlug: string, conditionSlug: string) {
+/**
+ * One group's stored summary with its bands, and its chart and species when the recompute stored them (rows
+ * stored before it did carry bands only: `chart` is then null). `pairStored` says whether the pair has been
+ * recomputed at all (its all-conditions row exists), so a missing condition row means no reports in it.
+ */
+export async function getStoredSummary(
+  groupSlug: string,
+  agentSlug: string,
+  conditionSlug: string,
+): Promise<{
+  summary: Summary & { bands: Band[] };
+  chart: (ChartFigures & { species: SummaryDetail["species"] }) | null;
+} | null> {
+  const db = await getDb();
+  const [row] = rowsOf<{ summary: unknown; detail: unknown; species: unknown }>(
+    await db.execute(sql`
+      select es.summary, es.detail - 'speciesCounts' as detail,
+             case when jsonb_typeof(es.detail->'speciesCounts') = 'array'
+                  then (${speciesListSql(sql`es.detail->'speciesCounts'`)}) end as species
+        from evidence_summaries es
+       where es.group_slug = ${groupSlug} and es.agent_slug = ${agentSlug} and es.condition_slug = ${conditionSlug}`),
+  );
+  if (!row) return null;
+  const detail = json<{ bands: Band[] } & Partial<ChartFigures>>(row.detail)!;
+  const summary = { ...json<Summary>(row.summary)!, bands: detail.bands };
+  const chart =
+    Array.isArray(detail.points) && Array.isArray(detail.pointBins) && row.species !== null
+      ? { points: detail.points, pointBins: detail.pointBins, species: speciesFrom(row.species) }
+      : null;
+  return { summary, chart };
+}
+
+/** Whether the pair's figures have been stored (its all-conditions row exists once any recompute ran). */
+export async function isPairStored(groupSlug: string, agentSlug: string): Promise<boolean> {
   const db = await getDb();
   const [row] = await db
-    .select({ summary: evidenceSummaries.summary, detail: evidenceSummaries.detail })
+    .select({ one: sql<number>`1` })
     .from(evidenceSummaries)
     .where(
       and(
         eq(evidenceSummaries.groupSlug, groupSlug),
         eq(evidenceSummaries.agentSlug, agentSlug),
-        eq(evidenceSummaries.conditionSlug, conditionSlug),
+        eq(evidenceSummaries.conditionSlug, ""),
       ),
     );
-  return row ? ({ ...(row.summary as object), ...(row.detail as object) } as SummaryDetail) : null;
+  return Boolean(row);
 }

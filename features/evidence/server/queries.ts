@@ -7,7 +7,7 @@ import { AppError, notFound, type ErrorCode, type FieldIssue } from "@/features/
 import { wilson } from "../stats";
 import { fitDoseResponse } from "../dose-response";
 import { ANECDOTAL_TEXT, METHOD_VERSION, type Summary, type SummaryDetail } from "../summary";
-import { getPointsAndSpecies, getStoredSummaries, getStoredSummary } from "./compute";
+import { getPointsAndSpecies, getStoredSummaries, getStoredSummary, isPairStored } from "./compute";
 
 const { agents, speciesGroups, conditions } = schema;
 
@@ -186,12 +186,17 @@ async function loadSummaryDetail(groupSlug: string, agentSlug: string, condition
     .from(speciesGroups)
     .where(eq(speciesGroups.slug, groupSlug));
   if (!group) throw notFound("That species group");
-  const [stored, extra] = await Promise.all([
-    getStoredSummary(groupSlug, agent.slug, cond),
-    getPointsAndSpecies(groupSlug, agent.slug, cond),
-  ]);
+  const stored = await getStoredSummary(groupSlug, agent.slug, cond);
+  // The chart and species are stored with the figures: no report is read here. Live from the reports only where the
+  // pair was never recomputed (a fresh database) or its rows predate the stored chart; a condition missing from a
+  // recomputed pair had no reports, and shows empty like its summary.
+  const extra =
+    stored?.chart ??
+    (!stored && (await isPairStored(groupSlug, agent.slug))
+      ? { points: [], pointBins: [], species: [] }
+      : await getPointsAndSpecies(groupSlug, agent.slug, cond));
   const edges = [...agent.bandEdges].sort((a, b) => a - b);
-  const data = { ...(stored ?? emptySummary(group, edges, settings.confidenceLevel)), ...extra };
+  const data = { ...(stored?.summary ?? emptySummary(group, edges, settings.confidenceLevel)), ...extra };
   return {
     agent: agent.slug,
     agentName: agent.name,
