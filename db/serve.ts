@@ -119,12 +119,20 @@ export async function prepareDatabase(): Promise<PreparedDatabase> {
     appEnv = { TANKLORE_EMBEDDED_DB_URL: ready.url, TANKLORE_EMBEDDED_DB_CONTROL: ready.control };
     Object.assign(process.env, appEnv);
   }
-  try {
-    const { getDb } = await import("./client");
-    await getDb(); // migrates, under the advisory lock
-  } catch (err) {
+  // Migrations run in a short-lived child (db/migrate.ts: opening the database applies them, under the advisory
+  // lock), so this launcher, which stays alive to supervise, never loads the ORM and its memory stays small.
+  const migrated = await new Promise<number | null>((resolve) => {
+    const child = spawn(
+      process.execPath,
+      ["--conditions=react-server", "--import", "tsx", path.join(root, "db", "migrate.ts")],
+      { stdio: ["ignore", "inherit", "inherit"], env: { ...process.env, ...appEnv } },
+    );
+    child.on("exit", (code) => resolve(code));
+    child.on("error", () => resolve(null));
+  });
+  if (migrated !== 0) {
     await stop();
-    throw err;
+    throw new Error("The database could not be migrated; see the messages above.");
   }
   return { appEnv: { ...appEnv, TANKLORE_MIGRATIONS: "applied" }, stop };
 }
