@@ -1,7 +1,7 @@
 "use client";
 
 import { useRouter } from "next/navigation";
-import { useId, useState, type FormEvent } from "react";
+import { useId, useState, type FormEvent, type InputHTMLAttributes } from "react";
 import { ApiError, fetchJson } from "@/features/shared/fetch-json";
 import { Field } from "@/features/shared/components/ui";
 import { useNow } from "@/features/shared/components/use-now";
@@ -101,6 +101,53 @@ function AmountUnitChoice({ unit, onChange }: { unit: AmountUnit; onChange: (u: 
 const amountLabel = (unit: AmountUnit) => (unit === "grams" ? "Grams of dry salt added" : "mL of stock added");
 const inputClass = "w-full min-w-0 rounded-md border border-peat-300 px-3 py-2";
 
+/** A setter that also drops a confirmation asked for earlier: the value it was asked about has changed. */
+const resetting =
+  (reset: () => void) =>
+  <T,>(set: (v: T) => void) =>
+  (v: T) => {
+    set(v);
+    reset();
+  };
+
+/** A labelled several-line text of the log's forms. */
+function TextAreaField({
+  id,
+  label,
+  rows,
+  value,
+  onValue,
+}: {
+  id: string;
+  label: string;
+  rows: number;
+  value: string;
+  onValue: (v: string) => void;
+}) {
+  return (
+    <Field id={id} label={label}>
+      <textarea id={id} rows={rows} value={value} onChange={(e) => onValue(e.target.value)} className={inputClass} />
+    </Field>
+  );
+}
+
+/** A labelled one-line input of the log's forms. */
+function InputField({
+  id,
+  label,
+  onValue,
+  ...rest
+}: { id: string; label: string; value: string; onValue: (v: string) => void } & Omit<
+  InputHTMLAttributes<HTMLInputElement>,
+  "id" | "onChange"
+>) {
+  return (
+    <Field id={id} label={label}>
+      <input id={id} onChange={(e) => onValue(e.target.value)} className={inputClass} {...rest} />
+    </Field>
+  );
+}
+
 /** "in 5 hours", "2 days ago": the words for a time relative to now. */
 function inWords(iso: string, now: number): string {
   const diff = Date.parse(iso) - now;
@@ -194,6 +241,10 @@ export function CourseLog({
   const [rails, setRails] = useState<RailWarning[]>([]);
   const [busy, setBusy] = useState(false);
   const [editing, setEditing] = useState<number | null>(null);
+  const edited = resetting(() => {
+    setConfirming(false);
+    setRails([]);
+  });
 
   async function save(confirm: boolean) {
     setBusy(true);
@@ -347,56 +398,21 @@ export function CourseLog({
               An observation
             </label>
           </fieldset>
-          <Field id={`${id}-at`} label="When">
-            <input
-              id={`${id}-at`}
-              type="datetime-local"
-              value={at}
-              onChange={(e) => {
-                setAt(e.target.value);
-                setConfirming(false);
-                setRails([]);
-              }}
-              className={inputClass}
-            />
-          </Field>
+          <InputField id={`${id}-at`} label="When" type="datetime-local" value={at} onValue={edited(setAt)} />
           {kind === "dose" ? (
             <>
-              {figures?.gramsAllowed ? (
-                <AmountUnitChoice
-                  unit={unit}
-                  onChange={(u) => {
-                    setUnit(u);
-                    setConfirming(false);
-                    setRails([]);
-                  }}
-                />
-              ) : null}
-              <Field id={`${id}-ml`} label={amountLabel(figures?.gramsAllowed ? unit : "ml")}>
-                <input
-                  id={`${id}-ml`}
-                  inputMode="decimal"
-                  value={amount}
-                  onChange={(e) => {
-                    setAmount(e.target.value);
-                    setConfirming(false);
-                    setRails([]);
-                  }}
-                  className={inputClass}
-                />
-              </Field>
+              {figures?.gramsAllowed ? <AmountUnitChoice unit={unit} onChange={edited(setUnit)} /> : null}
+              <InputField
+                id={`${id}-ml`}
+                label={amountLabel(figures?.gramsAllowed ? unit : "ml")}
+                inputMode="decimal"
+                value={amount}
+                onValue={edited(setAmount)}
+              />
             </>
           ) : (
             <>
-              <Field id={`${id}-text`} label="What you saw">
-                <textarea
-                  id={`${id}-text`}
-                  rows={3}
-                  value={text}
-                  onChange={(e) => setText(e.target.value)}
-                  className={inputClass}
-                />
-              </Field>
+              <TextAreaField id={`${id}-text`} label="What you saw" rows={3} value={text} onValue={setText} />
               <Field id={`${id}-photo`} label="Photo (optional)">
                 <input
                   id={`${id}-photo`}
@@ -524,6 +540,10 @@ function EntryEditor({
   const [confirming, setConfirming] = useState(false);
   const [rails, setRails] = useState<RailWarning[]>([]);
   const [busy, setBusy] = useState(false);
+  const edited = resetting(() => {
+    setConfirming(false);
+    setRails([]);
+  });
 
   async function send(body: Record<string, unknown>) {
     setBusy(true);
@@ -567,55 +587,27 @@ function EntryEditor({
       className="grid w-full max-w-xl min-w-0 gap-2 rounded-lg border border-peat-100 bg-white p-3"
       aria-label="Correct this entry"
     >
-      <Field id={`${id}-at`} label="When">
-        <input
-          id={`${id}-at`}
-          type="datetime-local"
-          value={at}
-          onChange={(e) => {
-            setAt(e.target.value);
-            setConfirming(false);
-          }}
-          className={inputClass}
-        />
-      </Field>
+      <InputField id={`${id}-at`} label="When" type="datetime-local" value={at} onValue={edited(setAt)} />
       {entry.kind === "dose" ? (
         <>
-          {gramsAllowed ? (
-            <AmountUnitChoice
-              unit={unit}
-              onChange={(u) => {
-                setUnit(u);
-                setConfirming(false);
-              }}
-            />
-          ) : null}
-          <Field id={`${id}-ml`} label={amountLabel(unit)}>
-            <input
-              id={`${id}-ml`}
-              inputMode="decimal"
-              value={amount}
-              onChange={(e) => {
-                setAmount(e.target.value);
-                setConfirming(false);
-              }}
-              className={inputClass}
-            />
-          </Field>
+          {gramsAllowed ? <AmountUnitChoice unit={unit} onChange={edited(setUnit)} /> : null}
+          <InputField
+            id={`${id}-ml`}
+            label={amountLabel(unit)}
+            inputMode="decimal"
+            value={amount}
+            onValue={edited(setAmount)}
+          />
         </>
       ) : null}
-      <Field id={`${id}-text`} label={entry.kind === "dose" ? "Note on the dose" : "What you saw"}>
-        <textarea
-          id={`${id}-text`}
-          rows={2}
-          value={text}
-          onChange={(e) => setText(e.target.value)}
-          className={inputClass}
-        />
-      </Field>
-      <Field id={`${id}-note`} label="Why (kept in the history)">
-        <input id={`${id}-note`} value={note} onChange={(e) => setNote(e.target.value)} className={inputClass} />
-      </Field>
+      <TextAreaField
+        id={`${id}-text`}
+        label={entry.kind === "dose" ? "Note on the dose" : "What you saw"}
+        rows={2}
+        value={text}
+        onValue={setText}
+      />
+      <InputField id={`${id}-note`} label="Why (kept in the history)" value={note} onValue={setNote} />
       {error ? (
         <p role="alert" className="font-bold text-alarm-700">
           {error}
