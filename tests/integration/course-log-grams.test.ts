@@ -79,6 +79,7 @@ describe("a course of salt weighed dry, logged in grams", () => {
     expect(after.nextDose!.doseGrams).toBe(60);
     const report = await call(reportRoute.GET, `/api/reports/${id}`, { params: { id }, cookie: owner.cookie });
     expect(report.body.treatment).toMatchObject({ doses: 1 });
+    expect(report.body.courseEntries[0]).toMatchObject({ kind: "dose", amountGrams: 60, amountMl: null });
     expect((await history(id)).find((e) => e.action === "dose_logged")!.note).toMatch(/^60 g of dry salt/);
   });
 
