@@ -1,6 +1,7 @@
 import Link from "next/link";
 import type { MemberHome as Home } from "@/features/reports/server";
-import { DueTime, doseAmountText } from "@/features/reports/components/course-log";
+import { DueTime } from "@/features/reports/components/course-log";
+import { doseAmountText } from "@/features/reports/components/dose-amount";
 import type { ReactNode } from "react";
 import { CalendarClock, FilePenLine, Gavel, Undo2 } from "lucide-react";
 import { EmptyState, emptyQuietActionClass } from "@/features/shared/components/empty-state";

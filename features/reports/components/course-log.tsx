@@ -5,6 +5,7 @@ import { useId, useState, type FormEvent, type InputHTMLAttributes } from "react
 import { ApiError, fetchJson } from "@/features/shared/fetch-json";
 import { Field } from "@/features/shared/components/ui";
 import { useNow } from "@/features/shared/components/use-now";
+import { doseAmountText } from "./dose-amount";
 
 export interface CourseEntryView {
   id: number;
@@ -67,11 +68,6 @@ const fmtTime = (iso: string) =>
     minute: "2-digit",
   });
 const round = (n: number, digits = 1) => n.toLocaleString("en-GB", { maximumFractionDigits: digits });
-
-/** A dose as the keeper measures it: mL on the syringe, or grams of dry salt on the scale. */
-export function doseAmountText(d: { doseMl: number | null; doseGrams?: number | null }): string {
-  return d.doseGrams != null ? `${round(d.doseGrams, 1)} g of dry salt` : `${round(d.doseMl ?? 0, 1)} mL`;
-}
 
 type AmountUnit = "ml" | "grams";
 /** The amount field's value as the API's field: amountMl or amountGrams. */
