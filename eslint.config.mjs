@@ -44,11 +44,6 @@ export default tseslint.config(
     },
   },
   {
-    // Owned by other branches at the time the React Compiler rules came in; their owners fix these and drop this block.
-    files: ["features/dosing/components/planner.tsx", "features/reports/components/course-log.tsx"],
-    rules: { "react-hooks/set-state-in-effect": "warn", "react-hooks/purity": "warn" },
-  },
-  {
     files: ["**/*.{ts,tsx}"],
     rules: {
       "@typescript-eslint/no-unused-vars": ["error", { argsIgnorePattern: "^_", varsIgnorePattern: "^_" }],

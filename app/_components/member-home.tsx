@@ -1,6 +1,7 @@
 import Link from "next/link";
 import type { MemberHome as Home } from "@/features/reports/server";
 import { DueTime } from "@/features/reports/components/course-log";
+import { doseAmountText } from "@/features/reports/components/dose-amount";
 import type { ReactNode } from "react";
 import { CalendarClock, FilePenLine, Gavel, Undo2 } from "lucide-react";
 import { EmptyState, emptyQuietActionClass } from "@/features/shared/components/empty-state";
@@ -115,7 +116,7 @@ export function MemberHome({ name, home, queue }: { name: string; home: Home; qu
                     next dose <DueTime at={c.nextDose.at} />
                   </>
                 )}
-                : {round(c.nextDose.doseMl, 1)} mL
+                : {doseAmountText(c.nextDose)}
                 {c.nextDose.concentration != null
                   ? `, making ${round(c.nextDose.concentration, 2)} ${c.nextDose.unit}`
                   : ""}

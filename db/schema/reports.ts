@@ -128,6 +128,8 @@ export const courseEntries = pgTable(
     kind: text().$type<"dose" | "observation">().notNull(),
     at: timestamp({ withTimezone: true }).notNull(),
     amountMl: doublePrecision(),
+    /** A dose of dry salt weighed in grams instead of mL of a solution; a dose holds exactly one of the two. */
+    amountGrams: doublePrecision(),
     text: text(),
     photoId: text(),
     createdAt: timestamp({ withTimezone: true }).notNull().defaultNow(),

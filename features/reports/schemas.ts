@@ -292,6 +292,8 @@ export const courseEntrySchema = z
     kind: z.enum(["dose", "observation"], { error: "kind must be dose or observation." }),
     at: z.iso.datetime({ offset: true, error: "at must be a date and time (ISO 8601)." }),
     amountMl: positive("Amount", 100_000).optional(),
+    /** A dose of dry salt weighed in grams (treatments dosed in g/L), instead of amountMl of a solution. */
+    amountGrams: positive("Grams", 100_000).optional(),
     text: text("Observation", 2000).optional(),
     /** A photo already added to this report (POST /api/reports/:id/photos), shown with the observation. */
     photoId: z.string().uuid("photoId must be the id of a photo of this report.").optional(),
@@ -300,12 +302,27 @@ export const courseEntrySchema = z
   })
   .strict()
   .superRefine((e, ctx) => {
-    if (e.kind === "dose" && e.amountMl === undefined)
-      ctx.addIssue({ code: "custom", path: ["amountMl"], message: "Give the mL added for a dose." });
+    if (e.kind === "dose") doseAmountRule(e, ctx);
     if (e.kind === "observation" && !e.text)
       ctx.addIssue({ code: "custom", path: ["text"], message: "Describe what you saw." });
     if (!e.confirm && isFuture(e.at)) ctx.addIssue({ code: "custom", path: ["at"], message: FUTURE_MESSAGE });
   });
+
+/** A dose is either mL of a solution or grams of dry salt: exactly one of the two. */
+function doseAmountRule(e: { amountMl?: number; amountGrams?: number }, ctx: Ctx, required = true) {
+  if (e.amountMl !== undefined && e.amountGrams !== undefined)
+    ctx.addIssue({
+      code: "custom",
+      path: ["amountGrams"],
+      message: "Give either amountMl (mL of a solution) or amountGrams (grams of dry salt), not both.",
+    });
+  else if (required && e.amountMl === undefined && e.amountGrams === undefined)
+    ctx.addIssue({
+      code: "custom",
+      path: ["amountMl"],
+      message: "Give the mL added for a dose (amountMl), or the grams of dry salt weighed (amountGrams).",
+    });
+}
 
 /** A little slack for clocks that disagree; beyond it a time is "in the future" and must be confirmed. */
 const isFuture = (at: string) => Date.parse(at) > Date.now() + 5 * 60_000;
@@ -316,6 +333,8 @@ export const courseEntryPatchSchema = z
   .object({
     at: z.iso.datetime({ offset: true, error: "at must be a date and time (ISO 8601)." }).optional(),
     amountMl: positive("Amount", 100_000).optional(),
+    /** A corrected dose in grams of dry salt; the entry then holds grams instead of mL. */
+    amountGrams: positive("Grams", 100_000).optional(),
     text: text("Text", 2000).optional(),
     struck: z
       .literal(true, { error: "struck can only be true: a struck entry stays in the log, crossed out." })
@@ -326,7 +345,9 @@ export const courseEntryPatchSchema = z
   })
   .strict()
   .superRefine((e, ctx) => {
-    const changes = e.at !== undefined || e.amountMl !== undefined || e.text !== undefined;
+    const changes =
+      e.at !== undefined || e.amountMl !== undefined || e.amountGrams !== undefined || e.text !== undefined;
+    doseAmountRule(e, ctx, false);
     if (e.struck && changes)
       ctx.addIssue({
         code: "custom",
@@ -334,7 +355,11 @@ export const courseEntryPatchSchema = z
         message: "Strike an entry out, or correct it, not both at once.",
       });
     if (!e.struck && !changes)
-      ctx.addIssue({ code: "custom", path: [], message: "Give the corrected amountMl, at or text, or struck: true." });
+      ctx.addIssue({
+        code: "custom",
+        path: [],
+        message: "Give the corrected amountMl, amountGrams, at or text, or struck: true.",
+      });
     if (e.at !== undefined && !e.confirm && isFuture(e.at))
       ctx.addIssue({ code: "custom", path: ["at"], message: FUTURE_MESSAGE });
   });

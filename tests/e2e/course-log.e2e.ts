@@ -97,4 +97,34 @@ describe("the course log on a phone", () => {
     expect(await page.evaluate(() => document.documentElement.scrollWidth <= window.innerWidth)).toBe(true);
     await page.close();
   });
+
+  it("logs a dose of dry salt in grams from the page at 390 px, with its g/L, and plans the next one in grams", async () => {
+    const page = await browser().newPage({ viewport: { width: 390, height: 844 } });
+    await signInAs(page, "member@example.org");
+    // A salt course weighed dry (no stock named), planned at 1.5 g/L in 40 L, a dose every 24 h.
+    const id = await page.evaluate(async () => {
+      const r = await fetch("/api/reports/drafts", {
+        method: "POST",
+        headers: { "content-type": "application/json" },
+        body: JSON.stringify({
+          courseOpen: true,
+          fishCount: 6,
+          water: { volume: 40, volumeUnit: "L" },
+          treatment: { agentSlug: "salt", statedConcentration: 1.5, intervalHours: 24 },
+        }),
+      });
+      return ((await r.json()) as { id: string }).id;
+    });
+    await page.goto(`${baseUrl()}/reports/${id}`);
+    // 1.5 g/L × 40 L = 60 g (mass concentration = mass ÷ volume, SI Brochure).
+    await page.getByTestId("next-dose-ml").filter({ hasText: "60 g of dry salt" }).waitFor();
+    const form = page.getByRole("form", { name: "Add to the course log" });
+    expect(await form.getByLabel("grams of dry salt", { exact: true }).isChecked()).toBe(true);
+    await form.getByLabel("Grams of dry salt added", { exact: true }).fill("60");
+    await form.getByRole("button", { name: "Add to the log" }).click();
+    await page.getByTestId("course-entries").getByText("dose of 60 g of dry salt").waitFor();
+    expect(await page.getByTestId("entry-concentration").first().textContent()).toContain("1.5 g/L");
+    expect(await page.evaluate(() => document.scrollingElement!.scrollWidth <= window.innerWidth)).toBe(true);
+    await page.close();
+  });
 });

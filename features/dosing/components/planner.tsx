@@ -4,6 +4,8 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useQuery } from "@tanstack/react-query";
 import { useSearchParams } from "next/navigation";
 import { useEffect, useId, useMemo, useState } from "react";
+import { Field } from "@/features/shared/components/ui";
+import { useNow } from "@/features/shared/components/use-now";
 import { useForm, useWatch, type Resolver } from "react-hook-form";
 import { courseSchedule, planDose, type CourseItem, type Plan, type VolumeInput } from "../plan";
 import { planDrySalt, type DryPlan } from "../dry-salt";
@@ -185,7 +187,10 @@ export function Planner({
   });
   const values = useWatch({ control }) as PlannerValues;
   const [doses, setDoses] = useState("3");
-  const [start, setStart] = useState("");
+  // The first dose defaults to this hour (read from the clock once mounted), until the keeper picks a time.
+  const [pickedStart, setStart] = useState<string | null>(null);
+  const now = useNow();
+  const start = pickedStart ?? (now == null ? "" : thisHourLocal(now));
   const [acknowledged, setAcknowledged] = useState<string | null>(null);
   const groupName = params.get("groupName");
   const agent = agents.find((a) => a.slug === values.agent) ?? agents[0]!;
@@ -200,9 +205,6 @@ export function Planner({
     } catch {
       // Nothing saved, or storage is off: keep the defaults.
     }
-    const now = new Date();
-    now.setMinutes(0, 0, 0);
-    setStart(new Date(now.getTime() - now.getTimezoneOffset() * 60000).toISOString().slice(0, 16));
   }, [setValue]);
   useEffect(() => {
     try {
@@ -494,30 +496,21 @@ export function Planner({
               ) : null}
               {!stock ? (
                 <div className="grid gap-3 sm:grid-cols-3">
-                  <div className="grid min-w-0 gap-1">
-                    <label htmlFor={`${id}-stockPercent`} className="font-bold">
-                      Strength (%)
-                    </label>
+                  <Field id={`${id}-stockPercent`} label="Strength (%)">
                     <input
                       {...register("stockPercent")}
                       {...field("stockPercent")}
                       inputMode="decimal"
                       className={input}
                     />
-                  </div>
-                  <div className="grid min-w-0 gap-1">
-                    <label htmlFor={`${id}-basis`} className="font-bold">
-                      Basis
-                    </label>
+                  </Field>
+                  <Field id={`${id}-basis`} label="Basis">
                     <select {...register("basis")} id={`${id}-basis`} className={input}>
                       <option value="w/v">w/v (g per 100 mL)</option>
                       <option value="w/w">w/w (g per 100 g)</option>
                     </select>
-                  </div>
-                  <div className="grid min-w-0 gap-1">
-                    <label htmlFor={`${id}-densityGPerMl`} className="font-bold">
-                      Density (g/mL)
-                    </label>
+                  </Field>
+                  <Field id={`${id}-densityGPerMl`} label="Density (g/mL)">
                     <input
                       {...register("densityGPerMl")}
                       {...field("densityGPerMl")}
@@ -525,7 +518,7 @@ export function Planner({
                       className={input}
                       disabled={values.basis === "w/v"}
                     />
-                  </div>
+                  </Field>
                   <p className="text-sm text-peat-700 sm:col-span-3">
                     A strength typed here counts {agent.name.toLowerCase()} itself
                     {agent.unit === "mg/L" && values.basis === "w/v" ? " (1 % w/v = 10 mg per mL)" : ""}. If your bottle
@@ -569,16 +562,10 @@ export function Planner({
           </div>
           {values.volumeMode !== "dimensions" ? (
             <div className="grid grid-cols-2 gap-3">
-              <div className="grid min-w-0 gap-1">
-                <label htmlFor={`${id}-volume`} className="font-bold">
-                  Water volume
-                </label>
+              <Field id={`${id}-volume`} label="Water volume">
                 <input {...register("volume")} {...field("volume")} inputMode="decimal" className={input} />
-              </div>
-              <div className="grid min-w-0 gap-1">
-                <label htmlFor={`${id}-volumeUnit`} className="font-bold">
-                  Unit
-                </label>
+              </Field>
+              <Field id={`${id}-volumeUnit`} label="Unit">
                 <select {...register("volumeUnit")} id={`${id}-volumeUnit`} className={input}>
                   {volumeUnits.map((u) => (
                     <option key={u} value={u}>
@@ -586,28 +573,26 @@ export function Planner({
                     </option>
                   ))}
                 </select>
-              </div>
+              </Field>
               <div className="col-span-2">{err("volume")}</div>
             </div>
           ) : (
             <div className="grid grid-cols-2 gap-3 sm:grid-cols-4">
               {(["length", "width", "depth"] as const).map((d) => (
-                <div key={d} className="grid min-w-0 gap-1">
-                  <label htmlFor={`${id}-${d}`} className="font-bold">
-                    {d === "depth" ? "Water depth" : d === "length" ? "Length" : "Width"}
-                  </label>
+                <Field
+                  key={d}
+                  id={`${id}-${d}`}
+                  label={d === "depth" ? "Water depth" : d === "length" ? "Length" : "Width"}
+                >
                   <input {...register(d)} {...field(d)} inputMode="decimal" className={input} />
-                </div>
+                </Field>
               ))}
-              <div className="grid min-w-0 gap-1">
-                <label htmlFor={`${id}-lengthUnit`} className="font-bold">
-                  Unit
-                </label>
+              <Field id={`${id}-lengthUnit`} label="Unit">
                 <select {...register("lengthUnit")} id={`${id}-lengthUnit`} className={input}>
                   <option value="cm">cm</option>
                   <option value="in">inches</option>
                 </select>
-              </div>
+              </Field>
               <div className="col-span-2 grid min-w-0 gap-1">
                 <label htmlFor={`${id}-displacementPercent`} className="font-bold">
                   Less for gravel and decor (%)
@@ -644,29 +629,17 @@ export function Planner({
             </label>
           </div>
           {values.mode !== "added" ? (
-            <div className="grid gap-1">
-              <label htmlFor={`${id}-target`} className="font-bold">
-                Target concentration ({agent.unit})
-              </label>
+            <Field id={`${id}-target`} label={`Target concentration (${agent.unit})`} error={errorOf("target")}>
               <input {...register("target")} {...field("target")} inputMode="decimal" className={input} />
-              {err("target")}
-            </div>
+            </Field>
           ) : values.saltForm === "dry" ? (
-            <div className="grid gap-1">
-              <label htmlFor={`${id}-addedGrams`} className="font-bold">
-                Grams of dry salt added
-              </label>
+            <Field id={`${id}-addedGrams`} label="Grams of dry salt added" error={errorOf("addedGrams")}>
               <input {...register("addedGrams")} {...field("addedGrams")} inputMode="decimal" className={input} />
-              {err("addedGrams")}
-            </div>
+            </Field>
           ) : (
-            <div className="grid gap-1">
-              <label htmlFor={`${id}-addedMl`} className="font-bold">
-                Millilitres of stock added
-              </label>
+            <Field id={`${id}-addedMl`} label="Millilitres of stock added" error={errorOf("addedMl")}>
               <input {...register("addedMl")} {...field("addedMl")} inputMode="decimal" className={input} />
-              {err("addedMl")}
-            </div>
+            </Field>
           )}
           <label htmlFor={`${id}-fractionChoice`} className="font-bold">
             First dose
@@ -679,13 +652,9 @@ export function Planner({
             ))}
           </select>
           {values.fractionChoice === "custom" ? (
-            <div className="grid gap-1">
-              <label htmlFor={`${id}-fraction`} className="font-bold">
-                Fraction of the full dose (0 to 1)
-              </label>
+            <Field id={`${id}-fraction`} label="Fraction of the full dose (0 to 1)" error={errorOf("fraction")}>
               <input {...register("fraction")} {...field("fraction")} inputMode="decimal" className={input} />
-              {err("fraction")}
-            </div>
+            </Field>
           ) : null}
           <button type="submit" className="justify-self-start rounded-md border border-peat-500 px-4 py-2 font-bold">
             Check my figures
@@ -764,6 +733,13 @@ export function Planner({
   );
 }
 
+/** The start of the current hour as a datetime-local value in the browser's time zone. */
+function thisHourLocal(now: number): string {
+  const d = new Date(now);
+  d.setMinutes(0, 0, 0);
+  return new Date(d.getTime() - d.getTimezoneOffset() * 60000).toISOString().slice(0, 16);
+}
+
 /**
  * The new course form's address: the treatment and water the wizard fills in, plus the plan itself (fish, target,
  * first-dose share, form) so the course page can show the plan and the warnings acknowledged here.
@@ -781,8 +757,11 @@ function courseParams(
     volume: values.volume,
     volumeUnit: values.volumeUnit,
   });
-  if ("form" in plan) p.set("form", "dry");
-  else {
+  if ("form" in plan) {
+    p.set("form", "dry");
+    // Dry salt has no mL: the course carries the first dose's g/L, from which the log plans its grams.
+    p.set("statedConcentration", String(Number((plan.firstDose ?? plan).concentration.toPrecision(4))));
+  } else {
     if (stock) p.set("stockFormId", stock.id);
     p.set("stockPercent", String(stock ? stock.percent : values.stockPercent));
     p.set("stockBasis", stock ? stock.basis : values.basis);

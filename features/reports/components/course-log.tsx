@@ -1,17 +1,24 @@
 "use client";
 
 import { useRouter } from "next/navigation";
-import { useId, useState, type FormEvent } from "react";
+import { useId, useState, type FormEvent, type InputHTMLAttributes } from "react";
 import { ApiError, fetchJson } from "@/features/shared/fetch-json";
+import { Field } from "@/features/shared/components/ui";
+import { useNow } from "@/features/shared/components/use-now";
+import { doseAmountText } from "./dose-amount";
 
 export interface CourseEntryView {
   id: number;
   kind: "dose" | "observation";
   at: string;
   amountMl: number | null;
+  /** A dose of dry salt weighed in grams (then amountMl is null). */
+  amountGrams?: number | null;
   text: string | null;
   photoId: string | null;
   struckAt?: string | null;
+  /** For salt (g/L): the grams of salt the dose holds, weighed dry or poured as brine. */
+  activeGrams?: number | null;
   /** The concentration a dose made, in the agent's unit; null where the stock or volume is unknown. */
   concentration?: number | null;
   /** The shared guard rails this dose trips (lowest adverse dose, highest tolerated, plausible ceiling). */
@@ -26,7 +33,18 @@ export interface RailWarning {
 export interface CourseFiguresView {
   open: boolean;
   unit: string;
-  nextDose: { at: string; doseMl: number; concentration: number | null; unit: string; first: boolean } | null;
+  nextDose: {
+    at: string;
+    doseMl: number | null;
+    doseGrams?: number | null;
+    concentration: number | null;
+    unit: string;
+    first: boolean;
+  } | null;
+  /** Grams of dry salt can be logged (a treatment dosed in g/L). */
+  gramsAllowed?: boolean;
+  /** Salt with no stock named: the log asks for grams first. */
+  weighedDry?: boolean;
   watchFor: string[];
   watchUntil: string | null;
   intervalHours: number | null;
@@ -51,8 +69,83 @@ const fmtTime = (iso: string) =>
   });
 const round = (n: number, digits = 1) => n.toLocaleString("en-GB", { maximumFractionDigits: digits });
 
+type AmountUnit = "ml" | "grams";
+/** The amount field's value as the API's field: amountMl or amountGrams. */
+const amountField = (unit: AmountUnit, value: string) => {
+  const n = Number(value.replace(",", "."));
+  return {
+    [unit === "grams" ? "amountGrams" : "amountMl"]: value.trim() === "" ? undefined : Number.isFinite(n) ? n : value,
+  };
+};
+
+/** Where grams are allowed, the keeper says whether the dose was poured as a solution or weighed as dry salt. */
+function AmountUnitChoice({ unit, onChange }: { unit: AmountUnit; onChange: (u: AmountUnit) => void }) {
+  const name = useId();
+  return (
+    <fieldset className="flex flex-wrap gap-4">
+      <legend className="font-bold">Measured as</legend>
+      <label className="flex items-center gap-2">
+        <input type="radio" name={name} checked={unit === "grams"} onChange={() => onChange("grams")} /> grams of dry
+        salt
+      </label>
+      <label className="flex items-center gap-2">
+        <input type="radio" name={name} checked={unit === "ml"} onChange={() => onChange("ml")} /> mL of a solution
+      </label>
+    </fieldset>
+  );
+}
+const amountLabel = (unit: AmountUnit) => (unit === "grams" ? "Grams of dry salt added" : "mL of stock added");
+const inputClass = "w-full min-w-0 rounded-md border border-peat-300 px-3 py-2";
+
+/** A setter that also drops a confirmation asked for earlier: the value it was asked about has changed. */
+const resetting =
+  (reset: () => void) =>
+  <T,>(set: (v: T) => void) =>
+  (v: T) => {
+    set(v);
+    reset();
+  };
+
+/** A labelled several-line text of the log's forms. */
+function TextAreaField({
+  id,
+  label,
+  rows,
+  value,
+  onValue,
+}: {
+  id: string;
+  label: string;
+  rows: number;
+  value: string;
+  onValue: (v: string) => void;
+}) {
+  return (
+    <Field id={id} label={label}>
+      <textarea id={id} rows={rows} value={value} onChange={(e) => onValue(e.target.value)} className={inputClass} />
+    </Field>
+  );
+}
+
+/** A labelled one-line input of the log's forms. */
+function InputField({
+  id,
+  label,
+  onValue,
+  ...rest
+}: { id: string; label: string; value: string; onValue: (v: string) => void } & Omit<
+  InputHTMLAttributes<HTMLInputElement>,
+  "id" | "onChange"
+>) {
+  return (
+    <Field id={id} label={label}>
+      <input id={id} onChange={(e) => onValue(e.target.value)} className={inputClass} {...rest} />
+    </Field>
+  );
+}
+
 /** "in 5 hours", "2 days ago": the words for a time relative to now. */
-function inWords(iso: string, now = Date.now()): string {
+function inWords(iso: string, now: number): string {
   const diff = Date.parse(iso) - now;
   const rtf = new Intl.RelativeTimeFormat("en-GB", { numeric: "auto" });
   const abs = Math.abs(diff);
@@ -136,6 +229,7 @@ export function CourseLog({
   const [kind, setKind] = useState<"dose" | "observation">("dose");
   const [at, setAt] = useState(localNow);
   const [amount, setAmount] = useState("");
+  const [unit, setUnit] = useState<AmountUnit>(figures?.gramsAllowed && figures.weighedDry ? "grams" : "ml");
   const [text, setText] = useState("");
   const [photo, setPhoto] = useState<File | null>(null);
   const [error, setError] = useState<string | null>(null);
@@ -143,6 +237,10 @@ export function CourseLog({
   const [rails, setRails] = useState<RailWarning[]>([]);
   const [busy, setBusy] = useState(false);
   const [editing, setEditing] = useState<number | null>(null);
+  const edited = resetting(() => {
+    setConfirming(false);
+    setRails([]);
+  });
 
   async function save(confirm: boolean) {
     setBusy(true);
@@ -166,7 +264,7 @@ export function CourseLog({
           at: new Date(at).toISOString(),
           ...(confirm ? { confirm: true } : {}),
           ...(kind === "dose"
-            ? { amountMl: Number(amount.replace(",", ".")) || undefined }
+            ? amountField(figures?.gramsAllowed ? unit : "ml", amount)
             : { text: text.trim() || undefined, photoId }),
         }),
       });
@@ -210,15 +308,18 @@ export function CourseLog({
                 <time dateTime={e.at} className="font-bold">
                   {new Date(e.at).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}
                 </time>{" "}
-                — {e.kind === "dose" ? `dose of ${e.amountMl} mL` : e.text}
+                —{" "}
+                {e.kind === "dose"
+                  ? `dose of ${doseAmountText({ doseMl: e.amountMl, doseGrams: e.amountGrams })}`
+                  : e.text}
                 {e.kind === "dose" && e.concentration != null ? (
                   <span data-testid="entry-concentration">
                     {" "}
                     → {round(e.concentration, 2)} {figures?.unit ?? "mg/L"}
                   </span>
                 ) : null}
-                {e.kind === "dose" && e.concentration != null && figures?.unit === "g/L" && figures.volumeL ? (
-                  <span> ({round(e.concentration * figures.volumeL, 1)} g of salt)</span>
+                {e.kind === "dose" && e.amountGrams == null && e.activeGrams != null ? (
+                  <span> ({round(e.activeGrams, 1)} g of salt)</span>
                 ) : null}
                 {e.kind === "dose" && e.text ? <span> ({e.text})</span> : null}
                 {e.photoId ? (
@@ -251,6 +352,7 @@ export function CourseLog({
                   <EntryEditor
                     reportId={reportId}
                     entry={e}
+                    gramsAllowed={Boolean(figures?.gramsAllowed)}
                     onDone={() => {
                       setEditing(null);
                       router.refresh();
@@ -292,59 +394,30 @@ export function CourseLog({
               An observation
             </label>
           </fieldset>
-          <label htmlFor={`${id}-at`} className="font-bold">
-            When
-          </label>
-          <input
-            id={`${id}-at`}
-            type="datetime-local"
-            value={at}
-            onChange={(e) => {
-              setAt(e.target.value);
-              setConfirming(false);
-              setRails([]);
-            }}
-            className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
-          />
+          <InputField id={`${id}-at`} label="When" type="datetime-local" value={at} onValue={edited(setAt)} />
           {kind === "dose" ? (
             <>
-              <label htmlFor={`${id}-ml`} className="font-bold">
-                mL of stock added
-              </label>
-              <input
+              {figures?.gramsAllowed ? <AmountUnitChoice unit={unit} onChange={edited(setUnit)} /> : null}
+              <InputField
                 id={`${id}-ml`}
+                label={amountLabel(figures?.gramsAllowed ? unit : "ml")}
                 inputMode="decimal"
                 value={amount}
-                onChange={(e) => {
-                  setAmount(e.target.value);
-                  setConfirming(false);
-                  setRails([]);
-                }}
-                className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
+                onValue={edited(setAmount)}
               />
             </>
           ) : (
             <>
-              <label htmlFor={`${id}-text`} className="font-bold">
-                What you saw
-              </label>
-              <textarea
-                id={`${id}-text`}
-                rows={3}
-                value={text}
-                onChange={(e) => setText(e.target.value)}
-                className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
-              />
-              <label htmlFor={`${id}-photo`} className="font-bold">
-                Photo (optional)
-              </label>
-              <input
-                id={`${id}-photo`}
-                type="file"
-                accept="image/jpeg,image/png,image/webp,image/avif"
-                onChange={(e) => setPhoto(e.target.files?.[0] ?? null)}
-                className="w-full min-w-0"
-              />
+              <TextAreaField id={`${id}-text`} label="What you saw" rows={3} value={text} onValue={setText} />
+              <Field id={`${id}-photo`} label="Photo (optional)">
+                <input
+                  id={`${id}-photo`}
+                  type="file"
+                  accept="image/jpeg,image/png,image/webp,image/avif"
+                  onChange={(e) => setPhoto(e.target.files?.[0] ?? null)}
+                  className="w-full min-w-0"
+                />
+              </Field>
             </>
           )}
           {error ? (
@@ -373,6 +446,7 @@ export function CourseLog({
 
 function NextDose({ figures }: { figures: CourseFiguresView }) {
   const next = figures.nextDose;
+  const now = useNow();
   return (
     <div className="grid min-w-0 gap-2 rounded-lg border-2 border-peat-500 bg-white p-4" data-testid="next-dose">
       {next ? (
@@ -380,9 +454,11 @@ function NextDose({ figures }: { figures: CourseFiguresView }) {
           <span className="font-bold">
             {next.first
               ? "First dose: due now"
-              : Date.parse(next.at) <= Date.now()
-                ? `Next dose: due since ${inWords(next.at)}`
-                : `Next dose: ${inWords(next.at)}`}
+              : now == null
+                ? "Next dose"
+                : Date.parse(next.at) <= now
+                  ? `Next dose: due since ${inWords(next.at, now)}`
+                  : `Next dose: ${inWords(next.at, now)}`}
           </span>
           {next.first ? null : (
             <>
@@ -390,7 +466,7 @@ function NextDose({ figures }: { figures: CourseFiguresView }) {
               (<time dateTime={next.at}>{fmtTime(next.at)}</time>)
             </>
           )}{" "}
-          — <span data-testid="next-dose-ml">{round(next.doseMl, 1)} mL</span>
+          — <span data-testid="next-dose-ml">{doseAmountText(next)}</span>
           {next.concentration != null ? (
             <>
               , making{" "}
@@ -438,23 +514,32 @@ function NextDose({ figures }: { figures: CourseFiguresView }) {
 function EntryEditor({
   reportId,
   entry,
+  gramsAllowed,
   onDone,
   onCancel,
 }: {
   reportId: string;
   entry: CourseEntryView;
+  gramsAllowed: boolean;
   onDone: () => void;
   onCancel: () => void;
 }) {
   const id = useId();
   const [at, setAt] = useState(() => toLocalInput(entry.at));
-  const [amount, setAmount] = useState(entry.amountMl != null ? String(entry.amountMl) : "");
+  const was: AmountUnit = entry.amountGrams != null ? "grams" : "ml";
+  const wasAmount = was === "grams" ? entry.amountGrams : entry.amountMl;
+  const [unit, setUnit] = useState<AmountUnit>(was);
+  const [amount, setAmount] = useState(wasAmount != null ? String(wasAmount) : "");
   const [text, setText] = useState(entry.text ?? "");
   const [note, setNote] = useState("");
   const [error, setError] = useState<string | null>(null);
   const [confirming, setConfirming] = useState(false);
   const [rails, setRails] = useState<RailWarning[]>([]);
   const [busy, setBusy] = useState(false);
+  const edited = resetting(() => {
+    setConfirming(false);
+    setRails([]);
+  });
 
   async function send(body: Record<string, unknown>) {
     setBusy(true);
@@ -479,8 +564,10 @@ function EntryEditor({
     const out: Record<string, unknown> = {};
     if (at !== toLocalInput(entry.at)) out.at = new Date(at).toISOString();
     if (entry.kind === "dose") {
-      const ml = Number(amount.replace(",", "."));
-      if (amount.trim() !== "" && ml !== entry.amountMl) out.amountMl = Number.isFinite(ml) ? ml : amount;
+      // Sent when the amount or its unit changed; a dose switched to grams drops its mL, and the other way round.
+      const given = amountField(unit, amount);
+      const value = Object.values(given)[0];
+      if (value !== undefined && (unit !== was || value !== wasAmount)) Object.assign(out, given);
     }
     if (text !== (entry.text ?? "")) out.text = text;
     if (confirm) out.confirm = true;
@@ -496,55 +583,27 @@ function EntryEditor({
       className="grid w-full max-w-xl min-w-0 gap-2 rounded-lg border border-peat-100 bg-white p-3"
       aria-label="Correct this entry"
     >
-      <label htmlFor={`${id}-at`} className="font-bold">
-        When
-      </label>
-      <input
-        id={`${id}-at`}
-        type="datetime-local"
-        value={at}
-        onChange={(e) => {
-          setAt(e.target.value);
-          setConfirming(false);
-        }}
-        className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
-      />
+      <InputField id={`${id}-at`} label="When" type="datetime-local" value={at} onValue={edited(setAt)} />
       {entry.kind === "dose" ? (
         <>
-          <label htmlFor={`${id}-ml`} className="font-bold">
-            mL of stock added
-          </label>
-          <input
+          {gramsAllowed ? <AmountUnitChoice unit={unit} onChange={edited(setUnit)} /> : null}
+          <InputField
             id={`${id}-ml`}
+            label={amountLabel(unit)}
             inputMode="decimal"
             value={amount}
-            onChange={(e) => {
-              setAmount(e.target.value);
-              setConfirming(false);
-            }}
-            className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
+            onValue={edited(setAmount)}
           />
         </>
       ) : null}
-      <label htmlFor={`${id}-text`} className="font-bold">
-        {entry.kind === "dose" ? "Note on the dose" : "What you saw"}
-      </label>
-      <textarea
+      <TextAreaField
         id={`${id}-text`}
+        label={entry.kind === "dose" ? "Note on the dose" : "What you saw"}
         rows={2}
         value={text}
-        onChange={(e) => setText(e.target.value)}
-        className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
+        onValue={setText}
       />
-      <label htmlFor={`${id}-note`} className="font-bold">
-        Why (kept in the history)
-      </label>
-      <input
-        id={`${id}-note`}
-        value={note}
-        onChange={(e) => setNote(e.target.value)}
-        className="w-full min-w-0 rounded-md border border-peat-300 px-3 py-2"
-      />
+      <InputField id={`${id}-note`} label="Why (kept in the history)" value={note} onValue={setNote} />
       {error ? (
         <p role="alert" className="font-bold text-alarm-700">
           {error}
@@ -580,10 +639,11 @@ function EntryEditor({
 
 /** A due time in words and in the reader's local time (formatted in the browser, hence no hydration warning). */
 export function DueTime({ at }: { at: string }) {
-  const past = Date.parse(at) <= Date.now();
+  const now = useNow();
   return (
     <time dateTime={at} suppressHydrationWarning>
-      {past ? `due since ${inWords(at)}` : inWords(at)} ({fmtTime(at)})
+      {now == null ? "" : Date.parse(at) <= now ? `due since ${inWords(at, now)} ` : `${inWords(at, now)} `}(
+      {fmtTime(at)})
     </time>
   );
 }

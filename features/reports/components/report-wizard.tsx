@@ -113,6 +113,7 @@ export type WizardPrefill = Partial<
     | "volume"
     | "volumeUnit"
     | "amountMl"
+    | "statedConcentration"
     | "intervalHours",
     string
   >
@@ -149,7 +150,7 @@ function initialValues(r: WizardReport | null, defaults: WizardPrefill): WizardV
       stockBasis: pre.stockBasis ?? r?.treatment.stockBasis ?? "w/v",
       stockDensityGPerMl: s(r?.treatment.stockDensityGPerMl),
       amountMl: pre.amountMl ?? s(r?.treatment.amountMl),
-      statedConcentration: s(r?.treatment.statedConcentration),
+      statedConcentration: pre.statedConcentration ?? s(r?.treatment.statedConcentration),
       doses: s(r?.treatment.doses ?? 1),
       intervalHours: pre.intervalHours ?? s(r?.treatment.intervalHours),
       otherTreatments: s(r?.treatment.otherTreatments),

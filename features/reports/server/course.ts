@@ -8,8 +8,10 @@ import { queueMail } from "@/features/mail/server";
 import { kickJobs, registerJob } from "@/features/shared/server/jobs";
 import type { z } from "zod";
 import {
+  concentrationFromGrams,
   concentrationFromMl,
   doseMlForTarget,
+  gramsForTarget,
   doseWarnings,
   DosingInputError,
   readStrength,
@@ -63,27 +65,55 @@ async function courseStock(db: Awaited<ReturnType<typeof getDb>>, row: ReportRow
   return { agent: agent ?? null, mgPerMl, unit: (agent?.unit ?? "mg/L") as ConcentrationUnit };
 }
 
+/** One dose as given: mL of the course's stock, or grams of dry salt (treatments dosed in g/L). */
+type DoseAmount = { ml: number; grams?: undefined } | { grams: number; ml?: undefined };
+const amountOf = (e: { amountMl: number | null; amountGrams: number | null }): DoseAmount | null =>
+  e.amountGrams != null ? { grams: e.amountGrams } : e.amountMl != null ? { ml: e.amountMl } : null;
+const amountText = (a: DoseAmount | null) => (a?.grams != null ? `${a.grams} g of dry salt` : `${a?.ml} mL`);
+
+/** What turns an amount into a concentration: the course's water, the stock's strength and the agent's unit. */
+interface CourseWater {
+  volumeL: number | null;
+  mgPerMl: number | null;
+  unit: ConcentrationUnit;
+}
+
+/** The concentration (agent's unit) a dose makes in the course's water, by the shared dosing functions; null if unknown. */
+function concentrationOfAmount(a: DoseAmount, w: CourseWater): number | null {
+  if (!w.volumeL) return null;
+  if (a.grams != null) return concentrationFromGrams(a.grams, w.volumeL, w.unit);
+  return w.mgPerMl ? concentrationFromMl(a.ml, w.volumeL, w.mgPerMl, w.unit) : null;
+}
+
 const liveDoses = (entries: EntryRow[]) =>
   entries
-    .filter((e) => e.kind === "dose" && !e.struckAt && e.amountMl != null)
+    .filter((e) => e.kind === "dose" && !e.struckAt && (e.amountMl != null || e.amountGrams != null))
     .sort((a, b) => a.at.getTime() - b.at.getTime() || a.id - b.id);
 
 /**
- * The planned single dose in mL: the report's stated concentration turned into mL, else the first dose logged
- * (other than `except`), else the amount the course was opened with. Null when there is nothing to go by.
+ * The planned single dose, in mL of the stock and in grams of dry salt (each null where it cannot be known): the
+ * report's stated concentration turned into an amount, else the first dose logged (other than `except`), else the
+ * amount the course was opened with; the other unit follows through the concentration that amount makes.
  */
-function plannedDoseMl(
+function plannedDose(
   row: ReportRow,
-  mgPerMl: number | null,
-  unit: ConcentrationUnit,
+  w: CourseWater,
   entries: EntryRow[],
   except?: number,
-): number | null {
-  if (row.statedConcentration != null && row.volumeL && mgPerMl)
-    return doseMlForTarget(row.statedConcentration, row.volumeL, mgPerMl, unit);
-  const first = liveDoses(entries).find((e) => e.id !== except);
-  if (first) return first.amountMl;
-  return liveDoses(entries).length === 0 ? row.amountMl : null;
+): { ml: number | null; grams: number | null } {
+  const doses = liveDoses(entries);
+  const first = doses.find((e) => e.id !== except);
+  const given = first ? amountOf(first) : doses.length === 0 && row.amountMl != null ? { ml: row.amountMl } : null;
+  const stated = row.statedConcentration != null && w.volumeL ? row.statedConcentration : null;
+  const target = stated ?? (given ? concentrationOfAmount(given, w) : null);
+  const mlFor = (c: number | null) =>
+    c != null && w.volumeL && w.mgPerMl ? doseMlForTarget(c, w.volumeL, w.mgPerMl, w.unit) : null;
+  const gramsFor = (c: number | null) =>
+    c != null && w.volumeL && w.unit === "g/L" ? gramsForTarget(c, w.volumeL, w.unit) : null;
+  return {
+    ml: mlFor(stated) ?? given?.ml ?? mlFor(target),
+    grams: gramsFor(stated) ?? given?.grams ?? gramsFor(target),
+  };
 }
 
 const CONFIRM_HINT = "send confirm: true if it is right.";
@@ -110,9 +140,9 @@ async function courseRails(db: Awaited<ReturnType<typeof getDb>>, row: ReportRow
   const { agent, mgPerMl, unit } = await courseStock(db, row);
   const evidence =
     agent && row.groupSlug && options.loadEvidence ? await options.loadEvidence(row.groupSlug, agent.slug) : undefined;
-  return (amountMl: number, label = "this dose"): DoseWarning[] => {
-    if (!agent || !row.volumeL || !mgPerMl) return [];
-    const concentration = concentrationFromMl(amountMl, row.volumeL, mgPerMl, unit);
+  return (amount: DoseAmount, label = "this dose"): DoseWarning[] => {
+    const concentration = agent ? concentrationOfAmount(amount, { volumeL: row.volumeL, mgPerMl, unit }) : null;
+    if (!agent || concentration == null) return [];
     return doseWarnings({ unit, ceiling: agent.plausibleCeiling, doses: [{ label, concentration }], evidence }).filter(
       (w) => doseRailCodes.includes(w.code),
     );
@@ -120,17 +150,31 @@ async function courseRails(db: Awaited<ReturnType<typeof getDb>>, row: ReportRow
 }
 
 /** The 422 issues that ask the keeper to acknowledge each warning before the dose is logged. */
-const railIssues = (warnings: DoseWarning[]) =>
+const railIssues = (warnings: DoseWarning[], path: string) =>
   warnings.map((w) => ({
-    path: "amountMl",
+    path,
     code: w.code,
     message: `${w.message} If you have read this and it is right, ${CONFIRM_HINT}`,
   }));
 const acknowledgedNote = (warnings: DoseWarning[]) =>
   warnings.length ? `; warnings acknowledged: ${warnings.map((w) => w.code.replaceAll("_", " ")).join(", ")}` : "";
-function amountNeedsConfirm(amountMl: number, planned: number | null): string | null {
-  if (planned == null || !(amountMl > 3 * planned)) return null;
-  return `${fmt(amountMl)} mL is more than 3× the planned dose of ${fmt(planned)} mL: check for a typo, or ${CONFIRM_HINT}`;
+function amountNeedsConfirm(a: DoseAmount, planned: { ml: number | null; grams: number | null }): string | null {
+  const [given, plan, u] = a.grams != null ? [a.grams, planned.grams, "g"] : [a.ml, planned.ml, "mL"];
+  if (plan == null || !(given > 3 * plan)) return null;
+  return `${fmt(given)} ${u} is more than 3× the planned dose of ${fmt(plan)} ${u}: check for a typo, or ${CONFIRM_HINT}`;
+}
+const amountPath = (a: DoseAmount) => (a.grams != null ? "amountGrams" : "amountMl");
+
+/** Grams of dry salt only make sense for a treatment dosed in g/L; anything else is measured as a solution in mL. */
+function refuseGramsUnlessSalt(unit: ConcentrationUnit, grams: number | undefined): void {
+  if (grams !== undefined && unit !== "g/L")
+    throw new AppError("invalid", "Some fields need fixing; see issues.", [
+      {
+        path: "amountGrams",
+        message:
+          "Grams of dry salt are for a treatment dosed in g/L (salt); give the mL of the solution (amountMl) for this one.",
+      },
+    ]);
 }
 const fmt = (n: number) => (Math.round(n * 100) / 100).toString();
 
@@ -138,7 +182,11 @@ const fmt = (n: number) => (Math.round(n * 100) / 100).toString();
 async function syncFromLog(tx: Tx, row: ReportRow, userId: string): Promise<void> {
   const all = await tx.select().from(courseEntries).where(eq(courseEntries.reportId, row.id));
   const doses = liveDoses(all);
-  const peak = doses.reduce<number | null>((m, e) => (m == null || e.amountMl! > m ? e.amountMl! : m), null);
+  // The report's amount is in mL of the stock; doses weighed dry count as doses but have no mL.
+  const peak = doses.reduce<number | null>(
+    (m, e) => (e.amountMl != null && (m == null || e.amountMl > m) ? e.amountMl : m),
+    null,
+  );
   await tx
     .update(reports)
     .set({ doses: doses.length || null, amountMl: peak, courseOpen: true, updatedAt: new Date() })
@@ -166,13 +214,14 @@ const entryOut = (e: EntryRow) => ({
   kind: e.kind,
   at: e.at.toISOString(),
   amountMl: e.amountMl,
+  amountGrams: e.amountGrams,
   text: e.text,
   photoId: e.photoId,
   struckAt: e.struckAt?.toISOString() ?? null,
 });
 const when = (d: Date) => d.toISOString().slice(0, 16).replace("T", " ") + " UTC";
-const describe = (e: { kind: string; amountMl: number | null; text: string | null }) =>
-  e.kind === "dose" ? `dose of ${e.amountMl} mL` : `"${e.text ?? ""}"`;
+const describe = (e: { kind: string; amountMl: number | null; amountGrams: number | null; text: string | null }) =>
+  e.kind === "dose" ? `dose of ${amountText(amountOf(e))}` : `"${e.text ?? ""}"`;
 
 /** The member logs a dose or an observation on an open course; due reminders are (re)scheduled. */
 export async function addCourseEntry(
@@ -194,13 +243,18 @@ export async function addCourseEntry(
         { path: "photoId", message: "That photo does not belong to this report; upload it to the report first." },
       ]);
   }
-  const warnings =
-    entry.kind === "dose" && entry.amountMl !== undefined ? (await courseRails(db, row, options))(entry.amountMl) : [];
-  if (entry.kind === "dose" && entry.amountMl !== undefined && !entry.confirm) {
-    const { mgPerMl, unit } = await courseStock(db, row);
+  const { mgPerMl, unit } = await courseStock(db, row);
+  const amount =
+    entry.kind === "dose"
+      ? amountOf({ amountMl: entry.amountMl ?? null, amountGrams: entry.amountGrams ?? null })
+      : null;
+  if (amount) refuseGramsUnlessSalt(unit, amount.grams);
+  const warnings = amount ? (await courseRails(db, row, options))(amount) : [];
+  if (amount && !entry.confirm) {
     const existing = await db.select().from(courseEntries).where(eq(courseEntries.reportId, reportId));
-    const problem = amountNeedsConfirm(entry.amountMl, plannedDoseMl(row, mgPerMl, unit, existing));
-    const issues = [...(problem ? [{ path: "amountMl", message: problem }] : []), ...railIssues(warnings)];
+    const problem = amountNeedsConfirm(amount, plannedDose(row, { volumeL: row.volumeL, mgPerMl, unit }, existing));
+    const path = amountPath(amount);
+    const issues = [...(problem ? [{ path, message: problem }] : []), ...railIssues(warnings, path)];
     if (issues.length) throw new AppError("invalid", "Please confirm this entry; see issues.", issues);
   }
   return db.transaction(async (tx) => {
@@ -210,7 +264,8 @@ export async function addCourseEntry(
         reportId,
         kind: entry.kind,
         at,
-        amountMl: entry.amountMl ?? null,
+        amountMl: amount?.ml ?? null,
+        amountGrams: amount?.grams ?? null,
         text: entry.text ?? null,
         photoId: entry.photoId ?? null,
       })
@@ -223,7 +278,7 @@ export async function addCourseEntry(
         action: "dose_logged",
         from: "draft",
         to: "draft",
-        note: `${entry.amountMl} mL${acknowledgedNote(warnings)}`,
+        note: `${amountText(amount)}${acknowledgedNote(warnings)}`,
       });
     }
     return entryOut(saved!);
@@ -248,24 +303,27 @@ export async function correctCourseEntry(
   const entry = all.find((e) => e.id === id);
   if (!entry) throw notFound("That course entry");
   if (entry.struckAt) throw new AppError("conflict", "This entry is struck out; log a new entry instead.");
-  if (patch.amountMl !== undefined && entry.kind !== "dose") {
+  const amount = amountOf({ amountMl: patch.amountMl ?? null, amountGrams: patch.amountGrams ?? null });
+  if (amount && entry.kind !== "dose") {
     throw new AppError("invalid", "Some fields need fixing; see issues.", [
-      { path: "amountMl", message: "An observation has no amount; correct its text or time." },
+      { path: amountPath(amount), message: "An observation has no amount; correct its text or time." },
     ]);
   }
+  const { mgPerMl, unit } = await courseStock(db, row);
+  if (amount) refuseGramsUnlessSalt(unit, amount.grams);
   if (entry.kind === "observation" && patch.text !== undefined && !patch.text) {
     throw new AppError("invalid", "Some fields need fixing; see issues.", [
       { path: "text", message: "Describe what you saw, or strike the observation out." },
     ]);
   }
-  const warnings =
-    patch.amountMl !== undefined && !patch.struck
-      ? (await courseRails(db, row, options))(patch.amountMl, "the corrected dose")
-      : [];
-  if (patch.amountMl !== undefined && !patch.confirm) {
-    const { mgPerMl, unit } = await courseStock(db, row);
-    const problem = amountNeedsConfirm(patch.amountMl, plannedDoseMl(row, mgPerMl, unit, all, entry.id));
-    const issues = [...(problem ? [{ path: "amountMl", message: problem }] : []), ...railIssues(warnings)];
+  const warnings = amount && !patch.struck ? (await courseRails(db, row, options))(amount, "the corrected dose") : [];
+  if (amount && !patch.confirm) {
+    const problem = amountNeedsConfirm(
+      amount,
+      plannedDose(row, { volumeL: row.volumeL, mgPerMl, unit }, all, entry.id),
+    );
+    const path = amountPath(amount);
+    const issues = [...(problem ? [{ path, message: problem }] : []), ...railIssues(warnings, path)];
     if (issues.length) throw new AppError("invalid", "Please confirm this correction; see issues.", issues);
   }
   return db.transaction(async (tx) => {
@@ -281,7 +339,9 @@ export async function correctCourseEntry(
     } else {
       const next = {
         at: patch.at ? new Date(patch.at) : entry.at,
-        amountMl: patch.amountMl ?? entry.amountMl,
+        // A corrected amount replaces the old one in whichever unit it is given (mL of stock or grams of dry salt).
+        amountMl: amount ? (amount.ml ?? null) : entry.amountMl,
+        amountGrams: amount ? (amount.grams ?? null) : entry.amountGrams,
         text: patch.text !== undefined ? patch.text || null : entry.text,
       };
       [saved] = await tx
@@ -290,7 +350,9 @@ export async function correctCourseEntry(
         .where(and(eq(courseEntries.id, entry.id), isNull(courseEntries.struckAt)))
         .returning();
       const changes = [
-        next.amountMl !== entry.amountMl ? `amount ${entry.amountMl} mL → ${next.amountMl} mL` : null,
+        next.amountMl !== entry.amountMl || next.amountGrams !== entry.amountGrams
+          ? `amount ${amountText(amountOf(entry))} → ${amountText(amountOf(next))}`
+          : null,
         next.at.getTime() !== entry.at.getTime() ? `time ${when(entry.at)} → ${when(next.at)}` : null,
         next.text !== entry.text ? `text "${entry.text ?? ""}" → "${next.text ?? ""}"` : null,
       ].filter(Boolean);
@@ -326,15 +388,29 @@ export async function getCourse(actor: Actor | null, reportId: string, options: 
     .where(eq(courseEntries.reportId, reportId))
     .orderBy(asc(courseEntries.at), asc(courseEntries.id));
   const figures = courseFigures(row, agent, mgPerMl, unit, all);
+  const water = { volumeL: row.volumeL, mgPerMl, unit };
+  const next = figures.nextDose;
+  const nextAmount: DoseAmount | null =
+    next?.doseGrams != null ? { grams: next.doseGrams } : next?.doseMl != null ? { ml: next.doseMl } : null;
   return {
     ...figures,
     // The next dose is judged like any planned dose, so the keeper sees the warning before giving it.
-    nextDoseWarnings: figures.nextDose ? rails(figures.nextDose.doseMl, "the next dose") : [],
-    entries: all.map((e) => ({
-      ...entryOut(e),
-      concentration: concentrationOf(e, row.volumeL, mgPerMl, unit),
-      warnings: e.kind === "dose" && e.amountMl != null && !e.struckAt ? rails(e.amountMl) : [],
-    })),
+    nextDoseWarnings: nextAmount ? rails(nextAmount, "the next dose") : [],
+    entries: all.map((e) => {
+      const amount = e.kind === "dose" ? amountOf(e) : null;
+      const concentration = amount ? concentrationOfAmount(amount, water) : null;
+      return {
+        ...entryOut(e),
+        concentration,
+        // For salt (g/L): the grams of salt the dose holds, whether weighed dry or poured as brine.
+        activeGrams:
+          amount?.grams ??
+          (concentration != null && unit === "g/L" && row.volumeL
+            ? gramsForTarget(concentration, row.volumeL, unit)
+            : null),
+        warnings: amount && !e.struckAt ? rails(amount) : [],
+      };
+    }),
   };
 }
 
@@ -350,17 +426,6 @@ export async function nextDosesOf(rows: ReportRow[]) {
   );
 }
 
-function concentrationOf(
-  e: EntryRow,
-  volumeL: number | null,
-  mgPerMl: number | null,
-  unit: ConcentrationUnit,
-): number | null {
-  return e.kind === "dose" && e.amountMl != null && volumeL && mgPerMl
-    ? concentrationFromMl(e.amountMl, volumeL, mgPerMl, unit)
-    : null;
-}
-
 function courseFigures(
   row: ReportRow,
   agent: typeof agents.$inferSelect | null,
@@ -371,17 +436,30 @@ function courseFigures(
   const doses = liveDoses(all);
   const last = doses.at(-1);
   const interval = row.intervalHours ?? agent?.redoseHours ?? null;
-  const planned = plannedDoseMl(row, mgPerMl, unit, all);
+  const water = { volumeL: row.volumeL, mgPerMl, unit };
+  const planned = plannedDose(row, water, all);
+  // Salt with no stock named is weighed dry: the log then asks for grams, and the next dose is given in grams.
+  const weighedDry = unit === "g/L" && !mgPerMl;
   const open = row.status === "draft" && row.courseOpen;
   // Later doses repeat the last one given; before the first, the planned dose is due now.
-  const nextMl = last?.amountMl ?? planned;
+  const plannedAmount: DoseAmount | null =
+    weighedDry && planned.grams != null
+      ? { grams: planned.grams }
+      : planned.ml != null
+        ? { ml: planned.ml }
+        : planned.grams != null
+          ? { grams: planned.grams }
+          : null;
+  const nextAmount = (last ? amountOf(last) : null) ?? plannedAmount;
   const nextAt = last ? (interval ? new Date(last.at.getTime() + interval * HOUR) : null) : new Date();
   const nextDose =
-    open && nextAt && nextMl != null
+    open && nextAt && nextAmount
       ? {
           at: nextAt.toISOString(),
-          doseMl: nextMl,
-          concentration: row.volumeL && mgPerMl ? concentrationFromMl(nextMl, row.volumeL, mgPerMl, unit) : null,
+          /** mL of the stock; null when the dose is weighed as dry salt (then doseGrams). */
+          doseMl: nextAmount.ml ?? null,
+          doseGrams: nextAmount.grams ?? null,
+          concentration: concentrationOfAmount(nextAmount, water),
           unit,
           first: !last,
         }
@@ -398,7 +476,11 @@ function courseFigures(
     volumeL: row.volumeL,
     stockMgPerMl: mgPerMl,
     intervalHours: interval,
-    plannedDoseMl: planned,
+    plannedDoseMl: planned.ml,
+    plannedDoseGrams: planned.grams,
+    /** Grams of dry salt can be logged (the treatment is dosed in g/L). */
+    gramsAllowed: unit === "g/L",
+    weighedDry,
     nextDose,
     watchFor,
     watchUntil: last ? new Date(last.at.getTime() + watchDays * 24 * HOUR).toISOString() : null,

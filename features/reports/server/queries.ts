@@ -104,6 +104,7 @@ export async function getReportById(actor: Actor | null, id: string) {
       kind: e.kind,
       at: e.at.toISOString(),
       amountMl: e.amountMl,
+      amountGrams: e.amountGrams,
       text: e.text,
       photoId: e.photoId,
       struckAt: e.struckAt?.toISOString() ?? null,

@@ -15,6 +15,8 @@ const prefillKeys = [
   "volume",
   "volumeUnit",
   "amountMl",
+  // Dry salt from the planner: the first dose's g/L, from which the course log plans its grams.
+  "statedConcentration",
   "intervalHours",
   "speciesId",
 ] as const;

@@ -1,0 +1,1 @@
+ALTER TABLE "course_entries" ADD COLUMN "amount_grams" double precision;
