@@ -48,15 +48,20 @@ describe("the embedded database in its own process", () => {
     expect(await health.json()).toEqual({ status: "ok", database: "pglite" });
   });
 
-  // A load measurement, run with TANKLORE_LOAD_TESTS=1 (and by `npm run bench`, which measures the same import): in
-  // CI on 2 cores one run saw a 1.1 s liveness wait, another a failed /api/summaries during the import — an open
-  // defect of issue 15, kept visible here rather than asserted away.
-  it.runIf(process.env.TANKLORE_LOAD_TESTS === "1")(
-    "keeps every request answered, liveness within 2 s, during a 10,000-row import",
-    { timeout: 600_000 },
+  // Issue 15's measure: liveness never waits more than 0.5 s during a 10,000-row import, and the summaries keep
+  // answering. The import parses its file in slices and writes in short statements, handing the event loop back
+  // between them; the database works in its own process. One retry: a machine's hiccup is not the app's stall.
+  it(
+    "keeps every request answered, liveness within 0.5 s, during a 10,000-row import",
+    { timeout: 600_000, retry: 1 },
     async () => {
       const admin = await signIn("admin@example.org");
-      const csv = [header, ...Array.from({ length: 10_000 }, (_, k) => line(k))].join("\n");
+      // Rows new to the club on every attempt (a retry would otherwise find them all imported already).
+      const attempt = Date.now().toString(36);
+      const csv = [
+        header,
+        ...Array.from({ length: 10_000 }, (_, k) => line(k).replace(" row ", ` row ${attempt}-`)),
+      ].join("\n");
       // Warm-up: the first request to a route loads its compiled module (seconds on a loaded machine), which is not
       // what this measures. A dry run of one row writes nothing.
       const warm = await fetch(`${base()}/api/import/reports?dryRun=1`, {
@@ -65,7 +70,8 @@ describe("the embedded database in its own process", () => {
         body: [header, line(99_999)].join("\n"),
       });
       expect(warm.status).toBe(200);
-      for (const url of ["/api/health/live", "/api/summaries"]) await (await fetch(`${base()}${url}`)).arrayBuffer();
+      const summariesUrl = "/api/summaries?agent=hydrogen-peroxide";
+      for (const url of ["/api/health/live", summariesUrl]) await (await fetch(`${base()}${url}`)).arrayBuffer();
       let finished = false;
       const importing = fetch(`${base()}/api/import/reports`, {
         method: "POST",
@@ -74,7 +80,7 @@ describe("the embedded database in its own process", () => {
       }).finally(() => (finished = true));
       const [live, summaries, res] = await Promise.all([
         probe(`${base()}/api/health/live`, () => finished),
-        probe(`${base()}/api/summaries`, () => finished),
+        probe(`${base()}${summariesUrl}`, () => finished),
         importing,
       ]);
       const body = (await res.json()) as { imported: number };
@@ -91,9 +97,7 @@ describe("the embedded database in its own process", () => {
         `import: ${live.length} liveness probes, longest ${top(live)} ms; ${summaries.length} summaries answers, longest ${top(summaries)} ms`,
       );
       expect(live.every((p) => p.status === 200)).toBe(true);
-      // Issue 15 asks for 0.5 s; measured 1.1 s on a quiet CI machine (the app's own JS during the import), so the
-      // target is not met yet. This guards what holds today: no request dropped, no stall beyond 2 s.
-      expect(longest).toBeLessThan(2_000);
+      expect(longest).toBeLessThan(500);
       expect(summaries.length).toBeGreaterThan(1);
       expect(summaries.every((p) => p.status === 200)).toBe(true);
     },
