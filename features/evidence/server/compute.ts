@@ -430,9 +430,13 @@ export async function replacePairFigures(
   const whole = rows.find((r) => r.whole);
   const sets = trialSetsFrom(whole?.tc ?? [], whole?.td ?? [], whole?.tna ?? [], whole?.tnt ?? []);
   for (const row of rows) row.mi = medianIntervalOf(sets.get(row.whole ? "*all*" : (row.c ?? "")), s.confidenceLevel);
-  const values = rows.map((row) => {
+  const values = [];
+  for (const row of rows) {
+    // Each condition set's fit is tens of milliseconds of JS: the event loop gets a turn between them, so a
+    // recompute (after every import batch, every accept) never holds the server for all of a pair's fits at once.
+    if (values.length) await new Promise<void>((resolve) => setImmediate(resolve));
     const { bands, ...summary } = summaryFromRow(row, group, edges, s.confidenceLevel, s.minReports);
-    return {
+    values.push({
       groupSlug,
       agentSlug,
       conditionSlug: row.whole ? "" : (row.c ?? ""),
@@ -450,8 +454,8 @@ export async function replacePairFigures(
         speciesCounts: json<SpeciesCount[]>(row.sp) ?? [],
       },
       computedAt: new Date(),
-    };
-  });
+    });
+  }
   await tx
     .delete(evidenceSummaries)
     .where(and(eq(evidenceSummaries.groupSlug, groupSlug), eq(evidenceSummaries.agentSlug, agentSlug)));
