@@ -142,8 +142,9 @@ export async function prepareDatabase(): Promise<PreparedDatabase> {
  * Ctrl+C or SIGTERM stops the app first, then the database.
  */
 export async function serve(database: PreparedDatabase, onReady: (url: string) => void): Promise<void> {
-  const { closeDb } = await import("./client");
-  await closeDb(); // this process is done with it; the app opens its own connections
+  // This process is done with the database (`npm run demo` seeded through it); the app opens its own connections.
+  // Only where it was opened: loading the client (ORM, drivers) would cost the supervising launcher ~100 MB.
+  if ((globalThis as { __tankloreDb?: unknown }).__tankloreDb) await (await import("./client")).closeDb();
   const env = getEnv();
   const port = env.PORT;
   // TANKLORE_APP_NODE_ARGS: extra Node options for the app's process only (e.g. --cpu-prof to profile it;

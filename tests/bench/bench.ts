@@ -17,7 +17,7 @@ import path from "node:path";
 import autocannon from "autocannon";
 import { sql } from "drizzle-orm";
 import { freePort } from "../support/free-port";
-import { dirBytes, machine, rssSampler, treeCpuMs, treeOf, treePeaks } from "./proc";
+import { dirBytes, machine, roleOf, rssMbOf, rssSampler, rssSamplerByRole, treeCpuMs, treeOf, treePeaks } from "./proc";
 import { BENCH_PASSWORD, benchPeople, seedBench } from "./seed";
 
 // ---------------------------------------------------------------- options
@@ -495,15 +495,27 @@ async function measureImport(s: Server, admin: string) {
   };
 }
 
+/** "app 281 → 452, database 379 → 395, …" from an export's per-process figures. */
+function roles(e: { rssAtStartMb?: Record<string, number>; peakRssMb?: Record<string, number> }): string {
+  const peak = e.peakRssMb ?? {};
+  return Object.keys(peak)
+    .sort((a, b) => peak[b]! - peak[a]!)
+    .map((k) => `${k} ${e.rssAtStartMb?.[k] ?? "?"} → ${peak[k]}`)
+    .join(", ");
+}
+
 async function measureExport(s: Server, moderator: string) {
   const before = treePeaks(s.pid);
   const baseline = before.reduce((sum, p) => sum + p.peakMb, 0);
   const sampler = rssSampler(s.pid, 100);
+  const byRole = rssSamplerByRole(s.pid, 100);
+  const startRss = Object.fromEntries(treeOf(s.pid).map((p) => [roleOf(p.pid), Math.round(rssMbOf(p.pid))]));
   const live = prober(`${s.base}/api/health/live`, 200);
   const cpu0 = treeCpuMs(s.pid);
   const r = await get(`${s.base}/api/export/reports.csv`, { cookie: moderator });
   const cpuMs = treeCpuMs(s.pid) - cpu0;
   const peakTreeRssMb = sampler.stop();
+  const peakByRole = byRole.stop();
   const l = await live.stop();
   if (r.status !== 200) throw new Error(`export answered ${r.status}`);
   const peaks = treePeaks(s.pid);
@@ -513,6 +525,9 @@ async function measureExport(s: Server, moderator: string) {
     mb: r1(r.bytes / 1024 / 1024),
     serverCpuMs: Math.round(cpuMs),
     peakTreeRssMb: Math.round(peakTreeRssMb),
+    // Each process's RSS when the export began and its highest during the export: "flat" means these stay close.
+    rssAtStartMb: startRss,
+    peakRssMb: peakByRole,
     vmHwmBeforeMb: Math.round(baseline),
     vmHwmMb: peaks.map((p) => `${p.name}:${Math.round(p.peakMb)}`).join(" "),
     longestLiveMs: l.longestMs,
@@ -576,6 +591,8 @@ async function runOne(reports: number) {
         ratio: r3(disk.total / Number(size)),
       };
     };
+    // The app's database process checkpoints every minute and after imports; measure the directory as it leaves it.
+    await db.execute(sql`checkpoint`);
     res.diskAfterSeed = await diskOf();
     log(
       `  after seeding: data directory ${res.diskAfterSeed.dataDirMb} MB (write-ahead log ${res.diskAfterSeed.walMb} MB) for ${res.diskAfterSeed.databaseMb} MB of database`,
@@ -636,7 +653,7 @@ async function runOne(reports: number) {
         "export",
         () => measureExport(server, moderator!),
         (e) =>
-          `  export of ${e.rows} reports (${e.mb} MB): ${(e.ms / 1000).toFixed(1)} s; server tree RSS peak ${e.peakTreeRssMb} MB; longest liveness wait ${e.longestLiveMs} ms`,
+          `  export of ${e.rows} reports (${e.mb} MB): ${(e.ms / 1000).toFixed(1)} s; server tree RSS peak ${e.peakTreeRssMb} MB; per process at the start → peak during it: ${roles(e)}; longest liveness wait ${e.longestLiveMs} ms`,
       );
     } catch (err) {
       console.error(`  the server's last output:\n${server.log()}`);
@@ -738,8 +755,8 @@ const table = [
     (r) => `${r1(r.import.ms / 1000)}; ${r.import.longestLiveMs} (${r.import.liveFailures} failed)`,
   ),
   row(
-    "export: s; peak server RSS MB; longest live wait ms",
-    (r) => `${r1(r.export.ms / 1000)}; ${r.export.peakTreeRssMb}; ${r.export.longestLiveMs}`,
+    "export: s; peak tree RSS MB; per process MB (start → peak); longest live wait ms",
+    (r) => `${r1(r.export.ms / 1000)}; ${r.export.peakTreeRssMb}; ${roles(r.export)}; ${r.export.longestLiveMs}`,
   ),
   row(
     "data dir / database MB (ratio), after seeding",

@@ -119,3 +119,47 @@ export function machine() {
     loadAverage: os.loadavg().map((x) => Number(x.toFixed(2))),
   };
 }
+
+/** What a process of the server's tree is, from its command line: the app, the database process, the launcher. */
+export function roleOf(pid: number): string {
+  let cmd: string;
+  try {
+    cmd = fs.readFileSync(`/proc/${pid}/cmdline`, "utf8").replaceAll("\0", " ");
+  } catch {
+    return "gone";
+  }
+  if (cmd.includes("database-process")) return "database";
+  if (cmd.includes("http-server")) return "app";
+  if (cmd.includes("db/start.ts") || cmd.includes("db/demo.ts")) return "launcher";
+  if (cmd.includes("db/migrate.ts")) return "migrations";
+  return cmd.split(" ")[0]!.split("/").pop() || "other";
+}
+
+/**
+ * Samples each process's RSS every `everyMs` until stopped; returns each role's highest sample in this window (not
+ * its lifetime peak, VmHWM, which an earlier phase may have set).
+ */
+export function rssSamplerByRole(root: number, everyMs = 100): { stop: () => Record<string, number> } {
+  const peaks: Record<string, number> = {};
+  const sample = () => {
+    for (const s of treeOf(root)) {
+      const role = roleOf(s.pid);
+      const mb = statusKb(s.pid, "VmRSS") / 1024;
+      if (mb > (peaks[role] ?? 0)) peaks[role] = Math.round(mb);
+    }
+  };
+  sample();
+  const t = setInterval(sample, everyMs);
+  return {
+    stop() {
+      clearInterval(t);
+      sample();
+      return peaks;
+    },
+  };
+}
+
+/** One process's resident memory now, in MB. */
+export function rssMbOf(pid: number): number {
+  return statusKb(pid, "VmRSS") / 1024;
+}
