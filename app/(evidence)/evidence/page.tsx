@@ -143,21 +143,21 @@ export default async function EvidencePage({
             </thead>
             <tbody className={cards.tbody}>
               {s.groups.map((g) => (
-                <tr key={g.group.slug} className={cards.tr}>
-                  <th scope="row" className={cards.head}>
+                <tr key={g.group.slug}>
+                  <th scope="row">
                     <Link href={`/evidence/${g.group.slug}?${q}`}>{g.group.name}</Link>
                     {g.reports > 0 && g.sparse ? (
                       <span className="ml-2 rounded bg-reed-100 px-1.5 text-xs font-normal">too few to lean on</span>
                     ) : null}
                   </th>
-                  <td data-label="Evidence" className={cards.cell}>
+                  <td data-label="Evidence">
                     {g.reports ? (
                       counts(g.reports, g.members, g.fish)
                     ) : (
                       <span className="text-peat-700">No accepted reports yet</span>
                     )}
                   </td>
-                  <td data-label="Tolerated" className={cards.cell}>
+                  <td data-label="Tolerated">
                     {g.reports ? (
                       <>
                         {g.tolerated} of {g.reports} ({pct(g.toleratedShare.value)}; {pct(g.toleratedShare.low)}–
@@ -167,12 +167,12 @@ export default async function EvidencePage({
                       "—"
                     )}
                   </td>
-                  <td data-label={`Tolerated range (p25–p75, ${s.unit})`} className={cards.cell}>
+                  <td data-label={`Tolerated range (p25–p75, ${s.unit})`}>
                     {g.toleratedDose.p25 == null
                       ? "—"
                       : `${fmtDose(g.toleratedDose.p25)}–${fmtDose(g.toleratedDose.p75)}`}
                   </td>
-                  <td data-label="Median tolerated (interval)" className={cards.cell}>
+                  <td data-label="Median tolerated (interval)">
                     {fmtDose(g.toleratedDose.median)}
                     {g.toleratedDose.medianInterval
                       ? ` (${fmtDose(g.toleratedDose.medianInterval.low)}–${fmtDose(g.toleratedDose.medianInterval.high)})`
@@ -180,15 +180,15 @@ export default async function EvidencePage({
                         ? " (too few for an interval)"
                         : ""}
                   </td>
-                  <td data-label="Lowest dose that went badly" className={cards.cell}>
+                  <td data-label="Lowest dose that went badly">
                     {g.lowestAdverseDose == null ? "none reported" : `${fmtDose(g.lowestAdverseDose)} ${s.unit}`}
                   </td>
-                  <td data-label={`p10–p90 (${s.unit})`} className={cards.cell}>
+                  <td data-label={`p10–p90 (${s.unit})`}>
                     {g.toleratedDose.p10 == null
                       ? "—"
                       : `${fmtDose(g.toleratedDose.p10)}–${fmtDose(g.toleratedDose.p90)}`}
                   </td>
-                  <td data-label={`BMDL₁₀ (${s.unit})`} className={cards.cell}>
+                  <td data-label={`BMDL₁₀ (${s.unit})`}>
                     {g.doseResponse?.bmdl == null ? "no fitted curve" : fmtDose(g.doseResponse.bmdl)}
                   </td>
                 </tr>

@@ -47,7 +47,8 @@ export function compactSvg(svg: string): string {
         let d = "";
         for (const [line] of run.matchAll(/<line[^>]*>/g)) {
           const a = Object.fromEntries([...line.matchAll(/(x1|x2|y1|y2)="([^"]*)"/g)].map((m) => [m[1], m[2]]));
-          d += `M${a.x1 ?? 0} ${a.y1 ?? 0}L${a.x2 ?? 0} ${a.y2 ?? 0}`;
+          const [x1, y1, x2, y2] = [a.x1 ?? "0", a.y1 ?? "0", a.x2 ?? "0", a.y2 ?? "0"];
+          d += `M${x1} ${y1}${x1 === x2 ? `V${y2}` : y1 === y2 ? `H${x2}` : `L${x2} ${y2}`}`;
         }
         return `<path d="${d}"/>`;
       })
@@ -59,7 +60,7 @@ export function compactSvg(svg: string): string {
           for (const m of run.matchAll(
             /d="M0,0L(-?[\d.]+),(-?[\d.]+)" transform="translate\((-?[\d.]+),(-?[\d.]+)\)"/g,
           )) {
-            d += `M${m[3]} ${m[4]}l${m[1]} ${m[2]}`;
+            d += `M${m[3]} ${m[4]}${m[1] === "0" ? `v${m[2]}` : m[2] === "0" ? `h${m[1]}` : `l${m[1]} ${m[2]}`}`;
           }
           return `<path d="${d}"/>`;
         },

@@ -203,19 +203,17 @@ export default async function GroupEvidencePage({
                 </thead>
                 <tbody className={cards.tbody}>
                   {s.bands.map((b) => (
-                    <tr key={b.from} className={cards.tr}>
-                      <th scope="row" className={cards.head}>
+                    <tr key={b.from}>
+                      <th scope="row">
                         {b.from} to {b.to == null ? "and above" : `under ${b.to}`}
                       </th>
-                      <td data-label="Reports" className={cards.cell}>
-                        {b.reports}
-                      </td>
-                      <td data-label="Tolerated (interval)" className={cards.cell}>
+                      <td data-label="Reports">{b.reports}</td>
+                      <td data-label="Tolerated (interval)">
                         {b.reports
                           ? `${b.tolerated} (${pct(b.toleratedShare.value)}; ${pct(b.toleratedShare.low)}–${pct(b.toleratedShare.high)})`
                           : "—"}
                       </td>
-                      <td data-label="Cleared (interval)" className={cards.cell}>
+                      <td data-label="Cleared (interval)">
                         {b.reports
                           ? `${b.cleared} (${pct(b.clearedShare.value)}; ${pct(b.clearedShare.low)}–${pct(b.clearedShare.high)})`
                           : "—"}

@@ -1,0 +1,111 @@
+import { beforeAll, describe, expect, it } from "vitest";
+import { sql } from "drizzle-orm";
+import * as chartRoute from "@/app/(evidence)/evidence/[group]/chart/[kind]/route";
+import { getDb, schema } from "@/db/client";
+import { seedCatalogue } from "@/features/catalogue/server";
+import { getSummaryDetail, recomputeGroupAgent } from "@/features/evidence/server";
+import { chartSrc } from "@/features/evidence/components/chart-figures";
+import { call } from "../support/http";
+
+const AGENT = "hydrogen-peroxide";
+let group = "";
+let empty = "";
+
+const chart = (
+  g: string,
+  kind: string,
+  query: string,
+  opts: { headers?: Record<string, string>; method?: string } = {},
+) => call(chartRoute.GET, `/evidence/${g}/chart/${kind}?${query}`, { ...opts, params: { group: g, kind } });
+
+beforeAll(async () => {
+  const db = await getDb();
+  await seedCatalogue(db);
+  await db.insert(schema.users).values({
+    id: "image-author",
+    name: "Image Author",
+    email: "image-author@example.org",
+    emailVerified: true,
+    role: "member",
+  });
+  const groups = (await db.execute(sql`
+    select slug from species_groups where hidden = false order by sort_order, slug limit 2`)) as unknown as {
+    rows: { slug: string }[];
+  };
+  [group, empty] = groups.rows.map((r) => r.slug) as [string, string];
+  const conditions = (await db.select({ slug: schema.conditions.slug }).from(schema.conditions)).map((c) => c.slug);
+  // Above the points limit (so the charts draw bins), doses 2.5 to 90 mg/L; more go badly as the dose rises.
+  const rows = Array.from({ length: 420 }, (_, k) => {
+    const dose = 2.5 + ((k * 37) % 351) / 4;
+    const bad = (k * 7919) % 100 < dose;
+    return {
+      id: `image-${k}`,
+      authorId: "image-author",
+      status: "accepted" as const,
+      groupSlug: group,
+      agentSlug: AGENT,
+      conditionSlug: conditions[k % 2]!,
+      conditionOutcome: "improved" as const,
+      concentration: dose,
+      fishCount: 3,
+      fishLost: bad ? 1 : 0,
+      lossCause: bad ? ("treatment" as const) : null,
+      distress: "mild" as const,
+    };
+  });
+  for (let k = 0; k < rows.length; k += 200)
+    await db.insert(schema.reports).values(rows.slice(k, k + 200) as (typeof schema.reports.$inferInsert)[]);
+  await recomputeGroupAgent(db, group, AGENT);
+}, 120_000);
+
+describe("a group's chart images", () => {
+  it("serves each chart at each drawing width as a compact SVG document in a system font", async () => {
+    expect((await getSummaryDetail(group, AGENT)).doseResponse?.bmd).toBeGreaterThan(0);
+    for (const kind of ["dose", "band", "risk"])
+      for (const w of [330, 580, 960]) {
+        const { status, body, res } = await chart(group, kind, `agent=${AGENT}&w=${w}`);
+        expect(status, `${kind} ${w}`).toBe(200);
+        expect(res.headers.get("content-type")).toMatch(/^image\/svg\+xml/);
+        expect(body).toMatch(new RegExp(`^<svg xmlns="http://www.w3.org/2000/svg" [^>]*viewBox="0 0 ${w} `));
+        expect(body).toContain('font-family="system-ui, sans-serif"');
+        // Tooltips and Plot's stylesheet left out; coordinates to a tenth of a pixel.
+        expect(body).not.toMatch(/<title>|<style>/);
+        for (const [, d] of (body as string).matchAll(/ d="([^"]*)"/g)) expect(d).not.toMatch(/\d\.\d\d/);
+      }
+  });
+
+  it("is cached for good under the page's address and revalidated by its ETag", async () => {
+    const summary = await getSummaryDetail(group, AGENT);
+    const src = chartSrc(summary, "risk")(580);
+    expect(src).toMatch(new RegExp(`^/evidence/${group}/chart/risk\\?agent=${AGENT}&w=580&v=\\w+$`));
+    const current = await chart(group, "risk", src.split("?")[1]!);
+    expect(current.status).toBe(200);
+    expect(current.res.headers.get("cache-control")).toBe("public, max-age=31536000, immutable");
+    const etag = current.res.headers.get("etag")!;
+    expect(etag).toMatch(/^".+"$/);
+    // Another fingerprint (figures changed since the page was drawn): the current chart, rechecked soon.
+    const older = await chart(group, "risk", `agent=${AGENT}&w=580&v=older`);
+    expect(older.body).toBe(current.body);
+    expect(older.res.headers.get("cache-control")).toBe("public, max-age=60");
+    const again = await chart(group, "risk", `agent=${AGENT}&w=580`, { headers: { "if-none-match": etag } });
+    expect(again.status).toBe(304);
+    expect(again.body).toBeNull();
+  });
+
+  it("answers bad addresses with the error envelope", async () => {
+    const width = await chart(group, "dose", `agent=${AGENT}&w=500`);
+    expect(width.status).toBe(422);
+    expect(JSON.stringify(width.body.error.issues)).toMatch(/330, 580, 960/);
+    expect((await chart(group, "dose", `agent=${AGENT}`)).status).toBe(422);
+    const kind = await chart(group, "pie", `agent=${AGENT}&w=330`);
+    expect(kind.status).toBe(404);
+    expect(kind.body.error.code).toBe("not_found");
+    expect((await chart("no-such-group", "dose", `agent=${AGENT}&w=330`)).body.error.code).toBe("not_found");
+    expect((await chart(group, "dose", `agent=no-such-agent&w=330`)).body.error).toBeDefined();
+    // A group without reports has no fitted curve to draw.
+    expect((await chart(empty, "risk", `agent=${AGENT}&w=330`)).body.error.code).toBe("not_found");
+    const post = await call(chartRoute.POST, `/evidence/${group}/chart/dose?w=330`, { method: "POST" });
+    expect(post.status).toBe(405);
+    expect(post.res.headers.get("allow")).toMatch(/GET/);
+  });
+});
