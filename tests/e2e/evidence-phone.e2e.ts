@@ -13,7 +13,7 @@ const pages = [
     name: "the evidence index",
     path: "/evidence?agent=hydrogen-peroxide",
     table: "evidence-table",
-    charts: [["groups-chart"]],
+    charts: [["groups-chart", "groups-chart-image"]],
   },
   {
     name: "a group page",

@@ -1,15 +1,18 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { sql } from "drizzle-orm";
 import * as chartRoute from "@/app/(evidence)/evidence/[group]/chart/[kind]/route";
+import * as groupsChartRoute from "@/app/(evidence)/evidence/groups-chart.svg/route";
 import { getDb, schema } from "@/db/client";
 import { seedCatalogue } from "@/features/catalogue/server";
-import { getSummaryDetail, recomputeGroupAgent } from "@/features/evidence/server";
-import { chartSrc } from "@/features/evidence/components/chart-figures";
+import { getSummaries, getSummaryDetail, recomputeGroupAgent } from "@/features/evidence/server";
+import { chartSrc, groupsChartSrc } from "@/features/evidence/components/chart-figures";
 import { call } from "../support/http";
 
 const AGENT = "hydrogen-peroxide";
 let group = "";
+let second = "";
 let empty = "";
+let otherAgent = "";
 
 const chart = (
   g: string,
@@ -29,20 +32,22 @@ beforeAll(async () => {
     role: "member",
   });
   const groups = (await db.execute(sql`
-    select slug from species_groups where hidden = false order by sort_order, slug limit 2`)) as unknown as {
+    select slug from species_groups where hidden = false order by sort_order, slug limit 3`)) as unknown as {
     rows: { slug: string }[];
   };
-  [group, empty] = groups.rows.map((r) => r.slug) as [string, string];
+  [group, second, empty] = groups.rows.map((r) => r.slug) as [string, string, string];
+  otherAgent = (await db.select({ slug: schema.agents.slug }).from(schema.agents)).find((a) => a.slug !== AGENT)!.slug;
   const conditions = (await db.select({ slug: schema.conditions.slug }).from(schema.conditions)).map((c) => c.slug);
   // Above the points limit (so the charts draw bins), doses 2.5 to 90 mg/L; more go badly as the dose rises.
-  const rows = Array.from({ length: 420 }, (_, k) => {
-    const dose = 2.5 + ((k * 37) % 351) / 4;
+  // A second group below it (one dot per report), for the index's comparison of groups.
+  const rows = Array.from({ length: 480 }, (_, k) => {
+    const dose = k < 420 ? 2.5 + ((k * 37) % 351) / 4 : 5 + (k % 12) * 2;
     const bad = (k * 7919) % 100 < dose;
     return {
       id: `image-${k}`,
       authorId: "image-author",
       status: "accepted" as const,
-      groupSlug: group,
+      groupSlug: k < 420 ? group : second,
       agentSlug: AGENT,
       conditionSlug: conditions[k % 2]!,
       conditionOutcome: "improved" as const,
@@ -56,6 +61,7 @@ beforeAll(async () => {
   for (let k = 0; k < rows.length; k += 200)
     await db.insert(schema.reports).values(rows.slice(k, k + 200) as (typeof schema.reports.$inferInsert)[]);
   await recomputeGroupAgent(db, group, AGENT);
+  await recomputeGroupAgent(db, second, AGENT);
 }, 120_000);
 
 describe("a group's chart images", () => {
@@ -107,5 +113,31 @@ describe("a group's chart images", () => {
     const post = await call(chartRoute.POST, `/evidence/${group}/chart/dose?w=330`, { method: "POST" });
     expect(post.status).toBe(405);
     expect(post.res.headers.get("allow")).toMatch(/GET/);
+  });
+});
+
+describe("the evidence index's groups comparison image", () => {
+  const groupsChart = (query: string) =>
+    call(groupsChartRoute.GET, `/evidence/groups-chart.svg?${query}`, { params: {} });
+
+  it("draws the groups with tolerated doses at a drawing width, under the index's address", async () => {
+    const summaries = await getSummaries(AGENT);
+    const src = groupsChartSrc(summaries, undefined)(960);
+    const { status, body, res } = await groupsChart(src.split("?")[1]!);
+    expect(status).toBe(200);
+    expect(res.headers.get("content-type")).toMatch(/^image\/svg\+xml/);
+    expect(res.headers.get("cache-control")).toBe("public, max-age=31536000, immutable");
+    expect(body).toMatch(/^<svg xmlns="http:\/\/www.w3.org\/2000\/svg" [^>]*viewBox="0 0 960 /);
+    const names = summaries.groups.filter((g) => g.reports > 0).map((g) => g.group.name);
+    expect(names).toHaveLength(2);
+    for (const name of names) expect(body).toContain(`>${name}<`);
+  });
+
+  it("answers a choice without two groups to compare, or a bad width, with the error envelope", async () => {
+    const none = await groupsChart(`agent=${otherAgent}&w=580`);
+    expect(none.status).toBe(404);
+    expect(none.body.error.code).toBe("not_found");
+    expect((await groupsChart(`agent=${AGENT}&w=12`)).status).toBe(422);
+    expect((await call(groupsChartRoute.PUT, `/evidence/groups-chart.svg`, { method: "PUT" })).status).toBe(405);
   });
 });
