@@ -32,6 +32,7 @@ async function smallestChartText(page: Page, testIds: string[]): Promise<number>
   const sizes: number[] = [];
   for (const testId of testIds) {
     const root = page.getByTestId(testId);
+    if (!(await root.count())) continue;
     const img = root.locator("img").filter({ visible: true });
     if (await img.count()) {
       // Lazy: scrolled to, it loads its drawing.
