@@ -179,7 +179,7 @@ export function PlotImage({
   const shown = DRAWINGS.filter((d) => widths.includes(d.width));
   const [fallback, ...wider] = shown;
   return (
-    <picture data-testid={testId} className={`block min-w-0 ${className ?? ""}`}>
+    <picture data-testid={testId} className={className ? `block min-w-0 ${className}` : "block min-w-0"}>
       {wider.reverse().map((d) => (
         <source key={d.width} media={d.media!} srcSet={src(d.width)} width={d.width} height={height(d.width)} />
       ))}
