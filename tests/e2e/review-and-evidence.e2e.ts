@@ -82,9 +82,21 @@ describe("evidence", () => {
     await page.getByTestId("evidence-table").waitFor();
     expect(await page.getByText("Anecdotal evidence").first().isVisible()).toBe(true);
     await page.getByRole("link", { name: "Livebearers" }).click();
-    await page.getByTestId("dose-chart").locator("svg").filter({ visible: true }).waitFor();
-    expect(await page.getByTestId("dose-chart").locator("circle").count()).toBeGreaterThan(3);
-    await page.getByTestId("band-chart").locator("svg").filter({ visible: true }).waitFor();
+    // The dose charts are SVG images (loaded lazily, when scrolled to): each report a dot in the dose chart.
+    for (const chart of ["dose-chart", "band-chart"]) {
+      const img = page.getByTestId(chart).locator("img");
+      await img.scrollIntoViewIfNeeded();
+      await page.waitForFunction(
+        (id) => (document.querySelector(`[data-testid="${id}"] img`) as HTMLImageElement | null)?.naturalWidth,
+        chart,
+      );
+    }
+    const doseSrc = await page
+      .getByTestId("dose-chart")
+      .locator("img")
+      .evaluate((i: HTMLImageElement) => i.currentSrc);
+    const doseSvg = await (await fetch(doseSrc)).text();
+    expect(doseSvg.match(/<circle/g)?.length).toBeGreaterThan(3);
     expect(await page.getByTestId("chart-text").textContent()).toMatch(/tolerated doses from/);
     const median = (await page.getByTestId("median").textContent())!;
     await page.screenshot({ path: "tests/e2e/.artifacts/evidence-group.png", fullPage: true });

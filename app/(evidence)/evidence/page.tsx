@@ -2,6 +2,7 @@ import Link from "next/link";
 import { getEvidenceCatalogue, getSummaries } from "@/features/evidence/server";
 import { cards, counts, fmtDose, pct } from "@/features/evidence/components/format";
 import { GroupsChart } from "@/features/evidence/components/groups-chart";
+import { groupsChartRows, groupsChartSrc } from "@/features/evidence/components/chart-figures";
 import { Cautions } from "@/features/shared/components/cautions";
 import { Notice, PageTitle } from "@/features/shared/components/ui";
 import { ChartColumn } from "lucide-react";
@@ -20,12 +21,8 @@ export default async function EvidencePage({
   const condition = catalogue.conditions.some((c) => c.slug === sp.condition) ? sp.condition : undefined;
   const s = await getSummaries(agentSlug, condition);
   const q = new URLSearchParams({ agent: agentSlug, ...(condition ? { condition } : {}) });
-  // The comparison picture: groups with a tolerated range to draw (doses above zero, for the log axis).
-  const compared = s.groups.flatMap((g) => {
-    const d = g.toleratedDose;
-    if (d.p10 == null || d.p90 == null || d.median == null || d.p10 <= 0) return [];
-    return [{ name: g.group.name, p10: d.p10, p90: d.p90, median: d.median, bmdl: g.doseResponse?.bmdl ?? null }];
-  });
+  // The comparison picture: groups with a tolerated range to draw.
+  const compared = groupsChartRows(s);
   return (
     <div className="grid gap-6">
       <PageTitle
@@ -84,7 +81,12 @@ export default async function EvidencePage({
       </form>
       {compared.length > 1 ? (
         <figure className="grid min-w-0 gap-1 rounded-lg border border-peat-100 bg-white p-3">
-          <GroupsChart unit={s.unit} rows={compared} />
+          <GroupsChart
+            unit={s.unit}
+            rows={compared}
+            src={groupsChartSrc(s, condition)}
+            alt={`Chart comparing ${compared.length} groups on one dose axis: each group's middle 80 % of tolerated doses, its median and, where fitted, its BMDL₁₀. The table below gives the figures.`}
+          />
           <figcaption className="text-sm text-peat-700">
             Groups compared on one dose axis (log scale). Green bar: the middle 80 % of tolerated doses (10th to 90th
             percentile); dark dot: the median tolerated dose; red tick: the BMDL₁₀, the lower limit of the dose at which
@@ -143,21 +145,21 @@ export default async function EvidencePage({
             </thead>
             <tbody className={cards.tbody}>
               {s.groups.map((g) => (
-                <tr key={g.group.slug} className={cards.tr}>
-                  <th scope="row" className={cards.head}>
+                <tr key={g.group.slug}>
+                  <th scope="row">
                     <Link href={`/evidence/${g.group.slug}?${q}`}>{g.group.name}</Link>
                     {g.reports > 0 && g.sparse ? (
                       <span className="ml-2 rounded bg-reed-100 px-1.5 text-xs font-normal">too few to lean on</span>
                     ) : null}
                   </th>
-                  <td data-label="Evidence" className={cards.cell}>
+                  <td data-label="Evidence">
                     {g.reports ? (
                       counts(g.reports, g.members, g.fish)
                     ) : (
                       <span className="text-peat-700">No accepted reports yet</span>
                     )}
                   </td>
-                  <td data-label="Tolerated" className={cards.cell}>
+                  <td data-label="Tolerated">
                     {g.reports ? (
                       <>
                         {g.tolerated} of {g.reports} ({pct(g.toleratedShare.value)}; {pct(g.toleratedShare.low)}–
@@ -167,12 +169,12 @@ export default async function EvidencePage({
                       "—"
                     )}
                   </td>
-                  <td data-label={`Tolerated range (p25–p75, ${s.unit})`} className={cards.cell}>
+                  <td data-label={`Tolerated range (p25–p75, ${s.unit})`}>
                     {g.toleratedDose.p25 == null
                       ? "—"
                       : `${fmtDose(g.toleratedDose.p25)}–${fmtDose(g.toleratedDose.p75)}`}
                   </td>
-                  <td data-label="Median tolerated (interval)" className={cards.cell}>
+                  <td data-label="Median tolerated (interval)">
                     {fmtDose(g.toleratedDose.median)}
                     {g.toleratedDose.medianInterval
                       ? ` (${fmtDose(g.toleratedDose.medianInterval.low)}–${fmtDose(g.toleratedDose.medianInterval.high)})`
@@ -180,15 +182,15 @@ export default async function EvidencePage({
                         ? " (too few for an interval)"
                         : ""}
                   </td>
-                  <td data-label="Lowest dose that went badly" className={cards.cell}>
+                  <td data-label="Lowest dose that went badly">
                     {g.lowestAdverseDose == null ? "none reported" : `${fmtDose(g.lowestAdverseDose)} ${s.unit}`}
                   </td>
-                  <td data-label={`p10–p90 (${s.unit})`} className={cards.cell}>
+                  <td data-label={`p10–p90 (${s.unit})`}>
                     {g.toleratedDose.p10 == null
                       ? "—"
                       : `${fmtDose(g.toleratedDose.p10)}–${fmtDose(g.toleratedDose.p90)}`}
                   </td>
-                  <td data-label={`BMDL₁₀ (${s.unit})`} className={cards.cell}>
+                  <td data-label={`BMDL₁₀ (${s.unit})`}>
                     {g.doseResponse?.bmdl == null ? "no fitted curve" : fmtDose(g.doseResponse.bmdl)}
                   </td>
                 </tr>

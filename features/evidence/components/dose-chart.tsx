@@ -1,7 +1,7 @@
 import * as Plot from "@observablehq/plot";
-import { ServerPlot } from "./server-plot";
+import { PlotImage, type ChartWidth } from "./server-plot";
 
-interface Props {
+export interface DoseChartProps {
   unit: string;
   points: { dose: number; tolerated: boolean; cleared: boolean }[];
   /** Counts per narrow dose bin, sent instead of points for large groups. */
@@ -19,8 +19,13 @@ interface Props {
   }[];
 }
 
-/** Each report as a point at its dose; the interquartile range shaded, the median and its interval drawn. Drawn on the server. */
-export function DoseChart({
+type Props = DoseChartProps;
+
+/**
+ * The two dose charts' drawings: each report at its dose (the interquartile range shaded, the median and its interval
+ * drawn), and the share tolerated per dose band. `key` names everything they read.
+ */
+export function doseChartDrawings({
   unit,
   points,
   pointBins = [],
@@ -78,8 +83,6 @@ export function DoseChart({
             fy: "outcome",
             fill: "outcome",
             fillOpacity: 0.75,
-            title: (b: (typeof binned)[number]) =>
-              `${b.from.toFixed(1)}–${b.to.toFixed(1)} ${unit}: ${b.n} ${b.outcome.toLowerCase()}`,
           })
         : null,
       Plot.dot(
@@ -91,8 +94,6 @@ export function DoseChart({
           r: 3.5,
           fillOpacity: 0.75,
           anchor: "middle",
-          title: (d: Props["points"][number]) =>
-            `${d.dose.toFixed(1)} ${unit} — ${outcome(d).toLowerCase()}${d.cleared ? ", cleared" : ""}`,
         }),
       ),
     ],
@@ -122,14 +123,31 @@ export function DoseChart({
         y: (b) => b.toleratedShare.value,
         fill: "#1d5444",
         r: 4,
-        title: (b) => `${b.reports} reports`,
       }),
     ],
   });
+  return { key, dose: dots, band: shares };
+}
+
+/**
+ * Both dose charts, served as images (they sit below the first screen; inline they would weigh on every page load
+ * twice, in the HTML and in React's payload). `src` gives a chart's address at a drawing width.
+ */
+export function DoseChart({
+  points,
+  pointBins = [],
+  src,
+  doseAlt,
+  bandAlt,
+}: Pick<Props, "points" | "pointBins"> & {
+  src: (kind: "dose" | "band", width: ChartWidth) => string;
+  doseAlt: string;
+  bandAlt: string;
+}) {
   return (
     <div className="grid gap-4">
       <figure className="grid gap-1">
-        <ServerPlot testId="dose-chart" build={dots} cacheKey={key} />
+        <PlotImage testId="dose-chart" src={(w) => src("dose", w)} height={() => 220} alt={doseAlt} />
         <figcaption className="text-sm text-peat-700">
           {points.length || !pointBins.length
             ? "Each dot is one accepted report at its peak dose."
@@ -139,7 +157,7 @@ export function DoseChart({
         </figcaption>
       </figure>
       <figure className="grid gap-1">
-        <ServerPlot testId="band-chart" build={shares} cacheKey={key} />
+        <PlotImage testId="band-chart" src={(w) => src("band", w)} height={() => 220} alt={bandAlt} />
         <figcaption className="text-sm text-peat-700">
           Share of reports tolerated in each dose band, with its Wilson interval. The band table below gives the same
           figures as text.

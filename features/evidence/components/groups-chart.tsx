@@ -1,5 +1,5 @@
 import * as Plot from "@observablehq/plot";
-import { ServerPlot } from "./server-plot";
+import { PlotImage, ServerPlot, type ChartWidth } from "./server-plot";
 
 export interface GroupRow {
   name: string;
@@ -9,50 +9,73 @@ export interface GroupRow {
   bmdl: number | null;
 }
 
+export const groupsChartHeight = (rows: number) => 40 + 30 * rows;
+
 /**
  * One line per group on a shared log dose axis, to compare groups at a glance: the tolerated range (10th to 90th
- * percentile), the median tolerated dose as a dot and the BMDL₁₀ as a red tick. The table beside it says the same in text.
- * Drawn on the server (see server-plot.tsx).
+ * percentile), the median tolerated dose as a dot and the BMDL₁₀ as a red tick. `key` names everything it reads.
  */
-export function GroupsChart({ unit, rows }: { unit: string; rows: GroupRow[] }) {
+export function groupsChartDrawing(unit: string, rows: GroupRow[]) {
+  return {
+    key: JSON.stringify([unit, rows]),
+    build: (width: number): Plot.PlotOptions => {
+      // Group names take up to 40 % of a phone's width, cut with an ellipsis beyond it.
+      const marginLeft = Math.min(170, Math.round(width * 0.4));
+      return {
+        width,
+        height: groupsChartHeight(rows.length),
+        marginLeft,
+        style: { fontSize: "12px" },
+        x: { type: "log", label: `Dose (${unit}, log scale)`, grid: true },
+        y: { domain: rows.map((r) => r.name), label: null },
+        marks: [
+          Plot.axisY({ textOverflow: "ellipsis", lineWidth: marginLeft / 7, tickSize: 0 }),
+          Plot.ruleY(rows, {
+            y: "name",
+            x1: "p10",
+            x2: "p90",
+            stroke: "#2f7a63",
+            strokeWidth: 6,
+            strokeOpacity: 0.45,
+          }),
+          Plot.dot(rows, { y: "name", x: "median", fill: "#0f2e26", r: 4 }),
+          Plot.tickX(
+            rows.filter((r) => r.bmdl !== null && r.bmdl > 0),
+            { y: "name", x: "bmdl", stroke: "#b3261e", strokeWidth: 2 },
+          ),
+        ],
+      };
+    },
+  };
+}
+
+/**
+ * The groups compared: inline SVG at a phone's width (in the first paint), an image on wider screens (the page stays
+ * light: an inline drawing is sent twice, in the HTML and in React's payload). `src` gives the image's address.
+ */
+export function GroupsChart({
+  unit,
+  rows,
+  src,
+  alt,
+}: {
+  unit: string;
+  rows: GroupRow[];
+  src: (width: ChartWidth) => string;
+  alt: string;
+}) {
+  const { key, build } = groupsChartDrawing(unit, rows);
   return (
-    <ServerPlot
-      testId="groups-chart"
-      cacheKey={JSON.stringify([unit, rows])}
-      build={(width) => {
-        // Group names take up to 40 % of a phone's width, cut with an ellipsis beyond it.
-        const marginLeft = Math.min(170, Math.round(width * 0.4));
-        return {
-          width,
-          height: 40 + 30 * rows.length,
-          marginLeft,
-          style: { fontSize: "12px" },
-          x: { type: "log", label: `Dose (${unit}, log scale)`, grid: true },
-          y: { domain: rows.map((r) => r.name), label: null },
-          marks: [
-            Plot.axisY({ textOverflow: "ellipsis", lineWidth: marginLeft / 7, tickSize: 0 }),
-            Plot.ruleY(rows, {
-              y: "name",
-              x1: "p10",
-              x2: "p90",
-              stroke: "#2f7a63",
-              strokeWidth: 6,
-              strokeOpacity: 0.45,
-            }),
-            Plot.dot(rows, {
-              y: "name",
-              x: "median",
-              fill: "#0f2e26",
-              r: 4,
-              title: (r: GroupRow) => `${r.name}: median ${r.median} ${unit}`,
-            }),
-            Plot.tickX(
-              rows.filter((r) => r.bmdl !== null && r.bmdl > 0),
-              { y: "name", x: "bmdl", stroke: "#b3261e", strokeWidth: 2 },
-            ),
-          ],
-        };
-      }}
-    />
+    <>
+      <ServerPlot testId="groups-chart" cacheKey={key} build={build} widths={[330]} />
+      <PlotImage
+        testId="groups-chart-image"
+        src={src}
+        height={() => groupsChartHeight(rows.length)}
+        alt={alt}
+        widths={[580, 960]}
+        className="max-sm:hidden"
+      />
+    </>
   );
 }

@@ -4,6 +4,7 @@ import { notFound } from "next/navigation";
 import { getEvidenceCatalogue, getSummaryDetail } from "@/features/evidence/server";
 import { DoseChart } from "@/features/evidence/components/dose-chart";
 import { RiskChart } from "@/features/evidence/components/risk-chart";
+import { chartSrc, riskChartProps } from "@/features/evidence/components/chart-figures";
 import { isFitted, riskAt } from "@/features/evidence";
 import { cards, counts, fmtDose, pct } from "@/features/evidence/components/format";
 import { Cautions } from "@/features/shared/components/cautions";
@@ -126,15 +127,11 @@ export default async function GroupEvidencePage({
           <section className="grid gap-2">
             <h2 className="text-xl font-bold text-peat-900">Every accepted report</h2>
             <DoseChart
-              unit={s.unit}
               points={s.points}
               pointBins={s.pointBins}
-              p25={d.p25}
-              p75={d.p75}
-              median={d.median}
-              medianInterval={d.medianInterval}
-              lowestAdverse={s.lowestAdverseDose}
-              bands={s.bands}
+              src={(kind, w) => chartSrc(s, kind)(w)}
+              doseAlt={`Chart of the ${s.reports} accepted reports by peak dose, tolerated and adverse apart: the middle half of tolerated doses ${fmtDose(d.p25)}–${fmtDose(d.p75)} ${s.unit}, median ${fmtDose(d.median)} ${s.unit}${s.lowestAdverseDose != null ? `, lowest dose that went badly ${fmtDose(s.lowestAdverseDose)} ${s.unit}` : ""}. Described in words below.`}
+              bandAlt="Chart of the share of reports tolerated in each dose band, with intervals. The band table below gives the same figures."
             />
             <p className="text-sm" data-testid="chart-text">
               In words: {s.tolerated} tolerated doses from {fmtDose(d.min)} to {fmtDose(d.max)} {s.unit}, the middle
@@ -152,13 +149,9 @@ export default async function GroupEvidencePage({
               <>
                 <figure className="grid gap-1">
                   <RiskChart
-                    unit={s.unit}
-                    level={s.confidenceLevel}
-                    curve={dr.curve}
-                    bmd={dr.bmd}
-                    bmdl={dr.bmdl}
-                    points={s.points}
-                    pointBins={s.pointBins}
+                    {...riskChartProps(s)!}
+                    src={chartSrc(s, "risk")}
+                    alt={`Chart of the fitted chance that a course goes badly, rising with dose: BMD₁₀ ${fmtDose(dr.bmd)} ${s.unit}, BMDL₁₀ ${fmtDose(dr.bmdl)} ${s.unit}. Described in words below.`}
                   />
                   <figcaption className="text-sm text-peat-700">
                     A logistic curve fitted to these members&apos; reports, not a controlled study. Red line: the fitted
@@ -210,19 +203,17 @@ export default async function GroupEvidencePage({
                 </thead>
                 <tbody className={cards.tbody}>
                   {s.bands.map((b) => (
-                    <tr key={b.from} className={cards.tr}>
-                      <th scope="row" className={cards.head}>
+                    <tr key={b.from}>
+                      <th scope="row">
                         {b.from} to {b.to == null ? "and above" : `under ${b.to}`}
                       </th>
-                      <td data-label="Reports" className={cards.cell}>
-                        {b.reports}
-                      </td>
-                      <td data-label="Tolerated (interval)" className={cards.cell}>
+                      <td data-label="Reports">{b.reports}</td>
+                      <td data-label="Tolerated (interval)">
                         {b.reports
                           ? `${b.tolerated} (${pct(b.toleratedShare.value)}; ${pct(b.toleratedShare.low)}–${pct(b.toleratedShare.high)})`
                           : "—"}
                       </td>
-                      <td data-label="Cleared (interval)" className={cards.cell}>
+                      <td data-label="Cleared (interval)">
                         {b.reports
                           ? `${b.cleared} (${pct(b.clearedShare.value)}; ${pct(b.clearedShare.low)}–${pct(b.clearedShare.high)})`
                           : "—"}
