@@ -150,6 +150,10 @@ export async function serve(database: PreparedDatabase, onReady: (url: string) =
   // TANKLORE_APP_NODE_ARGS: extra Node options for the app's process only (e.g. --cpu-prof to profile it;
   // NODE_OPTIONS refuses those and would reach the database process too).
   const extra = (process.env.TANKLORE_APP_NODE_ARGS ?? "").split(/\s+/).filter(Boolean);
+  // A heap budget for the app: without one V8 lets the heap grow lazily under load (ten connections rendering pages
+  // left the app at 857 MB RSS, kept through the next hour's export). 512 MB is several times the live data of the
+  // largest request (a 20,000-row import); TANKLORE_APP_NODE_ARGS with its own --max-old-space-size replaces it.
+  if (!extra.some((a) => a.startsWith("--max-old-space-size"))) extra.unshift("--max-old-space-size=512");
   const child = spawn(process.execPath, [...extra, "--import", "tsx", path.join(root, "db", "http-server.ts")], {
     stdio: ["ignore", "inherit", "inherit"],
     env: {

@@ -452,6 +452,9 @@ async function measureWrites(s: Server, member: string, moderator: string) {
   };
 }
 
+/** Makes this run's import rows new to a reused directory (an earlier run's rows would all be skipped as present). */
+const RUN_ID = Date.now().toString(36);
+
 function importCsv(rows: number): string {
   const header =
     "status,reporter,species_id,fish_count,size_class,condition_slug,started_on,water_volume,water_volume_unit,temperature,temperature_unit,setting,agent_slug,stock_percent,amount_ml,doses,fish_lost,loss_cause,distress,condition_outcome,observed_days_after,notes";
@@ -461,7 +464,7 @@ function importCsv(rows: number): string {
     ...Array.from(
       { length: rows },
       (_, n) =>
-        `accepted,member-bench${n % 60},${species[n % 2]},${3 + (n % 9)},adult,white-spot,2017-0${1 + (n % 9)}-1${n % 10},60,L,25,C,bare,${AGENT},3,${20 + (n % 50)},1,0,,mild,cleared,7,bench import row ${n}`,
+        `accepted,member-bench${n % 60},${species[n % 2]},${3 + (n % 9)},adult,white-spot,2017-0${1 + (n % 9)}-1${n % 10},60,L,25,C,bare,${AGENT},3,${20 + (n % 50)},1,0,,mild,cleared,7,bench import ${RUN_ID} row ${n}`,
     ),
   ].join("\n");
 }
