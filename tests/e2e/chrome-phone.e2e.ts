@@ -147,6 +147,10 @@ describe("photo upload", () => {
     expect(draft.status()).toBe(201);
     const id = (await draft.json()).id as string;
     await page.goto(`${baseUrl()}/reports/${id}/edit?step=4`);
+    // The picker stays disabled until the page is live, so a file chosen earlier is never silently dropped.
+    const served = await (await page.request.get(`${baseUrl()}/reports/${id}/edit?step=4`)).text();
+    expect(served).toMatch(/<input[^>]*disabled=""[^>]*data-testid="photo-input"/);
+    await expect.poll(() => page.getByTestId("photo-input").isEnabled()).toBe(true);
     const posts: string[] = [];
     page.on(
       "request",

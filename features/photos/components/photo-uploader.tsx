@@ -3,6 +3,7 @@
 import { useRouter } from "next/navigation";
 import { useCallback, useState } from "react";
 import { useDropzone } from "react-dropzone";
+import { useHydrated } from "@/features/shared/components/use-hydrated";
 import { CircleCheck, CircleX, ImageUp, LoaderCircle, RotateCw, Trash2, X } from "lucide-react";
 
 interface Item {
@@ -169,7 +170,13 @@ export function PhotoUploader({ reportId, existing }: { reportId: string; existi
     update(item.key, again);
     void upload([again]);
   };
-  const { getRootProps, getInputProps, isDragActive, open } = useDropzone({ onDrop, noClick: true, multiple: true });
+  const live = useHydrated();
+  const { getRootProps, getInputProps, isDragActive, open } = useDropzone({
+    onDrop,
+    noClick: true,
+    multiple: true,
+    disabled: !live,
+  });
 
   return (
     <section className="grid gap-3" aria-label="Photos">
@@ -196,13 +203,14 @@ export function PhotoUploader({ reportId, existing }: { reportId: string; existi
         {...getRootProps()}
         className={`grid justify-items-center gap-2 rounded-lg border-2 border-dashed p-6 text-center ${isDragActive ? "border-peat-700 bg-peat-50" : "border-peat-300 bg-white"}`}
       >
-        <input {...getInputProps()} aria-label="Choose photos" data-testid="photo-input" />
+        <input {...getInputProps({ disabled: !live })} aria-label="Choose photos" data-testid="photo-input" />
         <ImageUp className="h-8 w-8 text-peat-700" aria-hidden="true" />
         <p>{isDragActive ? "Drop the photos here." : "Drag photos here, or"}</p>
         <button
           type="button"
           onClick={open}
-          className="inline-flex items-center gap-1.5 rounded-md border border-peat-500 bg-white px-4 py-2 font-bold"
+          disabled={!live}
+          className="inline-flex items-center gap-1.5 rounded-md border border-peat-500 bg-white px-4 py-2 font-bold disabled:opacity-60"
         >
           Choose photos…
         </button>
