@@ -17,6 +17,7 @@ import {
   UserPlus,
   UserRound,
   Users,
+  Activity,
 } from "lucide-react";
 import type { Actor } from "@/features/shared/roles";
 import { SignOutButton } from "@/features/members/components/sign-out-button";
@@ -81,6 +82,7 @@ export function SiteHeader({
             icon: <ArrowLeftRight className={icon} aria-hidden="true" />,
           },
           { href: "/admin/mail", label: "Mail outbox", icon: <Mail className={icon} aria-hidden="true" /> },
+          { href: "/admin/jobs", label: "Background work", icon: <Activity className={icon} aria-hidden="true" /> },
         ]
       : [];
   return (

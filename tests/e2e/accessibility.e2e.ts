@@ -204,6 +204,7 @@ const visits: Record<Role, Visit[]> = {
     { name: "exchange", url: () => "/admin/exchange" },
     { name: "mail", url: () => "/admin/mail" },
     { name: "a mail", url: () => firstLink(pages.admin!, "/admin/mail", /^\/admin\/mail\/[\w.-]+$/) },
+    { name: "background work", url: () => "/admin/jobs" },
     { name: "review queue", url: () => "/review" },
     { name: "a report in review", url: () => `/review/${submittedId}` },
   ],

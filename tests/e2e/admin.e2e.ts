@@ -79,4 +79,39 @@ describe("club officers", () => {
     await visitor.close();
     await admin.close();
   });
+
+  it("see the background work, with each round's schedule, and run a round from the page", async () => {
+    // A reset request queues a notice mail, which the job runner sends (into the outbox) within moments.
+    const ask = await fetch(`${baseUrl()}/api/auth/request-password-reset`, {
+      method: "POST",
+      headers: { "content-type": "application/json", origin: baseUrl() },
+      body: JSON.stringify({ email: "keeper4@example.org", redirectTo: "/reset-password" }),
+    });
+    expect(ask.status).toBe(200);
+    const admin = await browser().newPage();
+    await signInAs(admin, "admin@example.org");
+    await admin.goto(`${baseUrl()}/admin/jobs`);
+    await admin.getByRole("heading", { name: "Background work" }).waitFor();
+    const rounds = admin.getByTestId("job-rounds");
+    for (const name of ["Moderators' digest", "Nightly backup", "Reminders"])
+      expect(await rounds.getByText(name, { exact: true }).count(), name).toBe(1);
+    // The demo's mails were all kept by the outbox: nothing is failing, and the page says so.
+    await admin.getByText("Nothing is failing.").waitFor();
+    const mailsDone = async () => {
+      await admin.reload();
+      const row = admin.getByTestId("job-counts").getByRole("row", { name: /Notice mails/ });
+      return (await row.count()) ? Number(await row.getByRole("cell").nth(3).textContent()) : 0;
+    };
+    await expect.poll(mailsDone, { timeout: 10_000 }).toBeGreaterThan(0);
+
+    const posts: number[] = [];
+    admin.on(
+      "response",
+      (r) => r.url().endsWith("/api/admin/jobs") && r.request().method() === "POST" && posts.push(r.status()),
+    );
+    await admin.getByRole("button", { name: /^Run now\W+Reminders$/ }).click();
+    await rounds.getByText("Done.").waitFor();
+    expect(posts).toEqual([200]);
+    await admin.close();
+  });
 });

@@ -28,6 +28,7 @@ const adminLinks = [
   "Club settings",
   "Import/export",
   "Mail outbox",
+  "Background work",
 ];
 
 describe("the header", () => {

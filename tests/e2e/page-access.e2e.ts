@@ -235,6 +235,12 @@ const cases: PageCase[] = [
     secrets: () => ["Confidence level of intervals"],
   },
   {
+    route: "/admin/jobs",
+    url: () => "/admin/jobs",
+    allowed: ["admin"],
+    secrets: () => ["All work by kind", "claimed in the database by whichever server process is free"],
+  },
+  {
     route: "/admin/mail",
     url: () => "/admin/mail",
     allowed: ["admin"],
