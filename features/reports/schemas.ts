@@ -107,7 +107,7 @@ export const waterSchema = z.strictObject({
     .number({ error: "pH must be a number." })
     .min(0, "pH is between 0 and 14.")
     .max(14, "pH is between 0 and 14.")
-    .optional(),
+    .nullish(),
   setting: enumOf(settings, "the kind of tank"),
 });
 
@@ -115,18 +115,18 @@ export const treatmentSchema = z.strictObject({
   agentSlug: z.string({ error: "Choose the treatment agent." }).min(1, "Choose the treatment agent."),
   /** A catalogue stock form: only a named form's reading (e.g. a compound's active fraction) applies to the percentage. */
   stockFormId: z.string().min(1, "Choose one of the listed bottles, or type the strength.").nullable().optional(),
-  stockPercent: positive("Stock strength", 100).optional(),
-  stockBasis: z.enum(["w/v", "w/w"], { error: "Choose what the strength is of (w/v or w/w)." }).optional(),
+  stockPercent: positive("Stock strength", 100).nullish(),
+  stockBasis: z.enum(["w/v", "w/w"], { error: "Choose what the strength is of (w/v or w/w)." }).nullish(),
   stockDensityGPerMl: z
     .number({ error: "Density must be a number." })
     .min(0.5, "Density is between 0.5 and 3 g/mL.")
     .max(3, "Density is between 0.5 and 3 g/mL.")
-    .optional(),
-  amountMl: positive("Amount per dose", 100_000).optional(),
-  statedConcentration: positive("Stated concentration", 100_000).optional(),
+    .nullish(),
+  amountMl: positive("Amount per dose", 100_000).nullish(),
+  statedConcentration: positive("Stated concentration", 100_000).nullish(),
   doses: int("Number of doses", 1, 100, "Give the number of doses."),
-  intervalHours: positive("Hours between doses", 24 * 60).optional(),
-  otherTreatments: text("Other treatments", 500).optional(),
+  intervalHours: positive("Hours between doses", 24 * 60).nullish(),
+  otherTreatments: text("Other treatments", 500).nullish(),
 });
 
 export const outcomeSchema = z.strictObject({
@@ -135,7 +135,7 @@ export const outcomeSchema = z.strictObject({
   distress: enumOf(distressLevels, "the distress seen"),
   condition: enumOf(conditionOutcomes, "how the condition ended"),
   observedDaysAfter: int("Days watched", 0, 365, "Give the days watched after the last dose."),
-  notes: text("Notes", 4000).optional(),
+  notes: text("Notes", 4000).nullish(),
 });
 
 const base = {
@@ -143,7 +143,7 @@ const base = {
     .string({ error: "Choose the species, or “not listed”." })
     .min(1, "Choose the species, or “not listed”.")
     .nullable(),
-  speciesOther: text("Species (not listed)", 200).optional(),
+  speciesOther: text("Species (not listed)", 200).nullish(),
   fishCount: int("Fish treated", 1, 100_000, "Give the number of fish treated."),
   sizeClass: enumOf(sizeClasses, "the size of the fish"),
   conditionSlug: z.string({ error: "Choose the condition treated." }).min(1, "Choose the condition treated."),
@@ -152,13 +152,15 @@ const base = {
 };
 
 type Ctx = z.RefinementCtx;
+/** A field a draft may have cleared (null) as well as left out. */
+type Clearable<T> = { [K in keyof T]?: T[K] | null };
 interface Crossable {
   speciesId?: string | null;
-  speciesOther?: string;
+  speciesOther?: string | null;
   fishCount?: number;
-  water?: Partial<z.infer<typeof waterSchema>>;
-  treatment?: Partial<z.infer<typeof treatmentSchema>>;
-  outcome?: Partial<z.infer<typeof outcomeSchema>>;
+  water?: Clearable<z.infer<typeof waterSchema>>;
+  treatment?: Clearable<z.infer<typeof treatmentSchema>>;
+  outcome?: Clearable<z.infer<typeof outcomeSchema>>;
 }
 
 /** The cross-field rules; in a draft they apply once both sides of a rule are present. */
@@ -171,7 +173,7 @@ function crossRules(r: Crossable, ctx: Ctx, complete: boolean) {
     });
   }
   const w = r.water;
-  if (w?.temperature !== undefined && w.temperatureUnit !== undefined) {
+  if (w?.temperature != null && w.temperatureUnit != null) {
     const c = toCelsius(w.temperature, w.temperatureUnit);
     if (c < 0 || c > 45)
       ctx.addIssue({
@@ -182,22 +184,22 @@ function crossRules(r: Crossable, ctx: Ctx, complete: boolean) {
   }
   const t = r.treatment;
   if (t) {
-    const hasAmount = t.amountMl !== undefined;
-    if (complete && !hasAmount && t.statedConcentration === undefined) {
+    const hasAmount = t.amountMl != null;
+    if (complete && !hasAmount && t.statedConcentration == null) {
       ctx.addIssue({
         code: "custom",
         path: ["treatment", "amountMl"],
         message: "Give the mL added per dose, or failing that the concentration you aimed for.",
       });
     }
-    if (hasAmount && t.stockPercent === undefined && (complete || "stockPercent" in t)) {
+    if (hasAmount && t.stockPercent == null && (complete || "stockPercent" in t)) {
       ctx.addIssue({
         code: "custom",
         path: ["treatment", "stockPercent"],
         message: "Give the stock strength (%) of what you added.",
       });
     }
-    if (t.doses !== undefined && t.doses > 1 && t.intervalHours === undefined && (complete || "intervalHours" in t)) {
+    if (t.doses != null && t.doses > 1 && t.intervalHours == null && (complete || "intervalHours" in t)) {
       ctx.addIssue({
         code: "custom",
         path: ["treatment", "intervalHours"],
@@ -206,7 +208,7 @@ function crossRules(r: Crossable, ctx: Ctx, complete: boolean) {
     }
   }
   const o = r.outcome;
-  if (o?.fishLost !== undefined) {
+  if (o?.fishLost != null) {
     if (r.fishCount !== undefined && o.fishLost > r.fishCount) {
       ctx.addIssue({
         code: "custom",
@@ -243,7 +245,25 @@ export const reportInputSchema = z
   .strict()
   .superRefine((r, ctx) => crossRules(r, ctx, true));
 
-/** A draft or a PATCH: any subset, nested objects partial; the same field rules. */
+/**
+ * The optional fields, which take null as "not given": in a PATCH, null clears one (a member removing a stated
+ * concentration that a moderator questioned, or a pH they were unsure of) while absent leaves it as it is.
+ */
+export const clearableFields = {
+  water: ["ph"],
+  treatment: [
+    "stockPercent",
+    "stockBasis",
+    "stockDensityGPerMl",
+    "amountMl",
+    "statedConcentration",
+    "intervalHours",
+    "otherTreatments",
+  ],
+  outcome: ["notes"],
+} as const;
+
+/** A draft or a PATCH: any subset, nested objects partial, optional fields cleared with null; the same field rules. */
 export const reportDraftSchema = z
   .object({
     speciesId: base.speciesId.optional(),

@@ -147,6 +147,41 @@ describe("who may see and change a report", () => {
 });
 
 describe("drafts, edits and submission", () => {
+  it("clears an optional answer sent as null, keeps one left out, and refuses null for a required one", async () => {
+    const body = reportBody({ treatment: { statedConcentration: 10, otherTreatments: "salt earlier" } });
+    const { body: made } = await create(body);
+    const id = made.id as string;
+    const patch = (b: unknown) =>
+      call(reportRoute.PATCH, `/api/reports/${id}`, { params: { id }, cookie: owner.cookie, method: "PATCH", body: b });
+    const read = async () =>
+      (await call(reportRoute.GET, `/api/reports/${id}`, { params: { id }, cookie: owner.cookie })).body;
+
+    const cleared = await patch({
+      water: { ph: null },
+      treatment: { statedConcentration: null, otherTreatments: null },
+      outcome: { notes: null },
+    });
+    expect(cleared.status).toBe(200);
+    const after = await read();
+    expect(after.water.ph ?? null).toBeNull();
+    expect(after.treatment.statedConcentration ?? null).toBeNull();
+    expect(after.treatment.otherTreatments ?? null).toBeNull();
+    expect(after.outcome.notes ?? null).toBeNull();
+    // Left out: unchanged. 40 mL × 30 mg/mL (3 % w/v) / 40 L = 30 mg/L, still computed from the amount.
+    expect(after.treatment.amountMl).toBe(40);
+    expect(after.concentration).toBe(30);
+
+    // The strength of a given amount cannot be cleared, nor can a required answer; neither changes anything.
+    const noStrength = await patch({ treatment: { stockPercent: null } });
+    expect(noStrength.status).toBe(422);
+    expect(noStrength.body.error.issues.map((i: { path: string }) => i.path)).toContain("treatment.stockPercent");
+    const noVolume = await patch({ water: { volume: null } });
+    expect(noVolume.status).toBe(422);
+    expect(noVolume.body.error.issues.map((i: { path: string }) => i.path)).toContain("water.volume");
+    expect((await read()).water.volume).toBe(40);
+    expect((await read()).treatment.stockPercent).toBe(3);
+  });
+
   it("saves a partial draft, merges nested edits, and on submit names what is missing", async () => {
     const d = await call(draftsRoute.POST, "/api/reports/drafts", {
       cookie: owner.cookie,

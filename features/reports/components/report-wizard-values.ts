@@ -1,6 +1,6 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { FieldErrors, Resolver } from "react-hook-form";
-import { reportStepSchemas } from "../schemas";
+import { clearableFields, reportStepSchemas } from "../schemas";
 
 /**
  * What the report form holds: the API's nested body, every answer as the text typed or chosen (numbers are read
@@ -114,8 +114,16 @@ export function stepBody(step: number, v: WizardValues): Record<string, unknown>
 }
 
 /** The body a step saves (PATCH /api/reports/:id or POST /api/reports/drafts): JSON leaves out what was not given. */
-export const stepPatch = (step: number, v: WizardValues): Record<string, unknown> =>
-  JSON.parse(JSON.stringify(stepBody(step, v)));
+export function stepPatch(step: number, v: WizardValues): Record<string, unknown> {
+  const body = stepBody(step, v);
+  // An optional answer the member emptied is sent as null, which clears it (absent would keep the old value).
+  for (const section of ["water", "treatment", "outcome"] as const) {
+    const part = body[section] as Record<string, unknown> | undefined;
+    if (part) for (const name of clearableFields[section]) if (part[name] === undefined) part[name] = null;
+  }
+  if (step === 0 && body.speciesOther === undefined) body.speciesOther = null;
+  return JSON.parse(JSON.stringify(body));
+}
 
 /**
  * Checks the current step (the resolver's context) with the server's own schema for it, reportStepSchemas.
