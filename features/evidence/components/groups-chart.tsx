@@ -11,6 +11,12 @@ export interface GroupRow {
 
 export const groupsChartHeight = (rows: number) => 40 + 30 * rows;
 
+/** Every drawn dose (ranges, medians, BMDLs) with a little room on a log axis. */
+function xDomain(rows: GroupRow[]): [number, number] {
+  const xs = rows.flatMap((r) => [r.p10, r.p90, r.median, ...(r.bmdl !== null && r.bmdl > 0 ? [r.bmdl] : [])]);
+  return [Math.min(...xs) / 1.15, Math.max(...xs) * 1.15];
+}
+
 /**
  * One line per group on a shared log dose axis, to compare groups at a glance: the tolerated range (10th to 90th
  * percentile), the median tolerated dose as a dot and the BMDL₁₀ as a red tick. `key` names everything it reads.
@@ -19,17 +25,26 @@ export function groupsChartDrawing(unit: string, rows: GroupRow[]) {
   return {
     key: JSON.stringify([unit, rows]),
     build: (width: number): Plot.PlotOptions => {
-      // Group names take up to 40 % of a phone's width, cut with an ellipsis beyond it.
-      const marginLeft = Math.min(170, Math.round(width * 0.4));
+      // Group names take up to 40 % of the width (280 px at most: the longest name whole at 960 px), cut with an
+      // ellipsis beyond it. Plot measures the cut in ems of the 12 px text.
+      const marginLeft = Math.min(280, Math.round(width * 0.4));
       return {
         width,
         height: groupsChartHeight(rows.length),
         marginLeft,
         style: { fontSize: "12px" },
-        x: { type: "log", label: `Dose (${unit}, log scale)`, grid: true },
+        // Bounds with room on both sides, so a BMDL tick below the lowest range sits on the axis, not on the names.
+        x: {
+          type: "log",
+          label: `Dose (${unit}, log scale)`,
+          grid: true,
+          domain: xDomain(rows),
+          ticks: width < 500 ? 4 : 8,
+        },
         y: { domain: rows.map((r) => r.name), label: null },
         marks: [
-          Plot.axisY({ textOverflow: "ellipsis", lineWidth: marginLeft / 7, tickSize: 0 }),
+          // Plot estimates text widths; the shipped sans runs wider, hence the margin of safety.
+          Plot.axisY({ textOverflow: "ellipsis", lineWidth: (marginLeft - 16) / 13.5, tickSize: 0 }),
           Plot.ruleY(rows, {
             y: "name",
             x1: "p10",
