@@ -85,6 +85,16 @@ function concentrationOfAmount(a: DoseAmount, w: CourseWater): number | null {
   return w.mgPerMl ? concentrationFromMl(a.ml, w.volumeL, w.mgPerMl, w.unit) : null;
 }
 
+/** Whether dose a makes more than dose b: by concentration, or by the same unit where the water is not known. */
+function exceeds(a: DoseAmount, b: DoseAmount, w: CourseWater): boolean {
+  const ca = concentrationOfAmount(a, w);
+  const cb = concentrationOfAmount(b, w);
+  if (ca != null && cb != null) return ca > cb;
+  if (a.ml != null && b.ml != null) return a.ml > b.ml;
+  if (a.grams != null && b.grams != null) return a.grams > b.grams;
+  return false;
+}
+
 const liveDoses = (entries: EntryRow[]) =>
   entries
     .filter((e) => e.kind === "dose" && !e.struckAt && (e.amountMl != null || e.amountGrams != null))
@@ -441,7 +451,7 @@ function courseFigures(
   // Salt with no stock named is weighed dry: the log then asks for grams, and the next dose is given in grams.
   const weighedDry = unit === "g/L" && !mgPerMl;
   const open = row.status === "draft" && row.courseOpen;
-  // Later doses repeat the last one given; before the first, the planned dose is due now.
+  // Before the first dose, the planned dose is due now.
   const plannedAmount: DoseAmount | null =
     weighedDry && planned.grams != null
       ? { grams: planned.grams }
@@ -450,7 +460,13 @@ function courseFigures(
         : planned.grams != null
           ? { grams: planned.grams }
           : null;
-  const nextAmount = (last ? amountOf(last) : null) ?? plannedAmount;
+  // The next dose repeats the last one given, but never more than the plan: a dose confirmed above the plan
+  // (a slip of the measure, or a keeper pushing on) is logged as it was, not scheduled again.
+  const lastAmount = last ? amountOf(last) : null;
+  const nextAmount =
+    lastAmount && plannedAmount && exceeds(lastAmount, plannedAmount, water)
+      ? plannedAmount
+      : (lastAmount ?? plannedAmount);
   const nextAt = last ? (interval ? new Date(last.at.getTime() + interval * HOUR) : null) : new Date();
   const nextDose =
     open && nextAt && nextAmount
