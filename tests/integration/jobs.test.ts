@@ -6,7 +6,7 @@ import * as reportsRoute from "@/app/api/reports/route";
 import { getDb, schema } from "@/db/client";
 import { seedCatalogue } from "@/features/catalogue/server";
 import { sendModeratorDigests } from "@/features/review/server";
-import { enqueueJob, registerJob, runDueJobs } from "@/features/shared/server/jobs";
+import { enqueueJob, kickJobs, registerJob, runDueJobs, settleJobs } from "@/features/shared/server/jobs";
 import { call } from "../support/http";
 import { reportBody, signedInUser } from "../support/factories";
 
@@ -78,6 +78,30 @@ describe("jobs claimed in the database", () => {
     ]);
     expect(counts.reduce((a, b) => a + b, 0)).toBe(1);
     expect(runs).toBe(1);
+  });
+
+  it("finishes a job that queues more work and kicks the runner from inside it (a reminder round sending mails)", async () => {
+    const ran: string[] = [];
+    registerJob("test-follow-up", { run: async () => void ran.push("follow-up") });
+    registerJob("test-kicker", {
+      run: async () => {
+        await enqueueJob("test-follow-up", {}, { dedupeKey: "test-follow-up-1" });
+        // Awaited, as the reminder round did: before the fix this waited on the very run it was part of.
+        await kickJobs(["test-follow-up"]);
+        ran.push("kicker");
+      },
+    });
+    await enqueueJob("test-kicker", {}, { dedupeKey: "test-kicker-1" });
+    const stalled = Symbol("stalled");
+    const outcome = await Promise.race([
+      kickJobs(["test-kicker", "test-follow-up"]).then(() => settleJobs()),
+      new Promise((r) => setTimeout(() => r(stalled), 5_000)),
+    ]);
+    expect(outcome).not.toBe(stalled);
+    expect(ran).toEqual(["kicker", "follow-up"]);
+    const db = await getDb();
+    for (const key of ["test-kicker-1", "test-follow-up-1"])
+      expect((await db.select().from(jobs).where(eq(jobs.dedupeKey, key)))[0]!.status, key).toBe("done");
   });
 
   it("takes over a job whose runner died once its lease runs out", async () => {

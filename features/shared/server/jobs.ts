@@ -1,4 +1,5 @@
 import "server-only";
+import { AsyncLocalStorage } from "node:async_hooks";
 import crypto from "node:crypto";
 import os from "node:os";
 import { and, desc, eq, isNotNull, or, sql, type SQL } from "drizzle-orm";
@@ -203,7 +204,7 @@ export async function runDueJobs(opts: { kinds?: string[]; now?: Date; limit?: n
       const h = handlers.get(row.kind)!;
       let error: unknown | null = null;
       try {
-        await h.run(row.payload, { now, attempt: row.attempts });
+        await insideJob.run(true, () => h.run(row.payload, { now, attempt: row.attempts }));
       } catch (err) {
         error = err ?? new Error("failed");
         console.error(`Background job ${row.kind} (${row.id}) failed on attempt ${row.attempts}:`, err);
@@ -216,18 +217,28 @@ export async function runDueJobs(opts: { kinds?: string[]; now?: Date; limit?: n
   }
 }
 
-/** Runs due jobs soon in this process (after a request queued one), however many ask before it starts. */
+/** Set while a job's handler runs: a handler that kicks the runner must not wait for the run it is part of. */
+const insideJob = new AsyncLocalStorage<boolean>();
+
+/**
+ * Runs due jobs soon in this process (after a request queued one), however many ask before it starts. Called
+ * from inside a job (a reminder round queueing mails), it only asks the running loop to go round again and
+ * resolves at once: awaiting the loop from inside it would wait on itself and stall every job in the process.
+ */
 export function kickJobs(kinds?: string[]): Promise<number> {
   const r = registry();
   if (r.running) {
     r.again = true;
-    return r.running;
+    return insideJob.getStore() ? Promise.resolve(0) : r.running;
   }
   const go = async (): Promise<number> => {
     let n = 0;
+    let only = kinds;
     do {
       r.again = false;
-      n += await runDueJobs({ kinds });
+      n += await runDueJobs({ kinds: only });
+      // Another kick came during the run, perhaps for other kinds (a round queueing mails): all that is due.
+      only = undefined;
     } while (r.again);
     return n;
   };
