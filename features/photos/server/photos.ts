@@ -150,7 +150,17 @@ export async function removePhoto(actor: Actor | null, photoId: string) {
     throw new AppError("forbidden", "Only the member who filed a report may remove its photos.");
   if (!["draft", "returned"].includes(report.status))
     throw new AppError("conflict", "Photos can be removed while the report is a draft or returned.");
-  await db.delete(schema.photos).where(eq(schema.photos.id, photoId));
+  await db.transaction(async (tx) => {
+    // Checked again under the report's lock: a removal racing a submit must not change a submitted report.
+    const [locked] = await tx
+      .select({ status: schema.reports.status })
+      .from(schema.reports)
+      .where(eq(schema.reports.id, photo.reportId))
+      .for("update");
+    if (!locked || !["draft", "returned"].includes(locked.status))
+      throw new AppError("conflict", "Photos can be removed while the report is a draft or returned.");
+    await tx.delete(schema.photos).where(eq(schema.photos.id, photoId));
+  });
   await photoStorage().remove(photo.fullKey);
   await photoStorage().remove(photo.thumbKey);
   return { id: photoId, deleted: true };

@@ -24,7 +24,7 @@ import {
 import type { CourseEntryPatch, courseEntrySchema } from "../schemas";
 import { canSeeReport, getReportRowById } from "./queries";
 import type { ReportRow } from "./mapping";
-import { recordEvent, saveDerived } from "./mutations";
+import { lockEditable, recordEvent, saveDerived } from "./mutations";
 
 const { reports, courseEntries, reminders, agents, users } = schema;
 const HOUR = 3600_000;
@@ -268,6 +268,12 @@ export async function addCourseEntry(
     if (issues.length) throw new AppError("invalid", "Please confirm this entry; see issues.", issues);
   }
   return db.transaction(async (tx) => {
+    await lockEditable(
+      tx,
+      reportId,
+      ["draft"],
+      "This course was submitted while you were logging, so nothing was added; its log is closed.",
+    );
     const [saved] = await tx
       .insert(courseEntries)
       .values({
@@ -337,6 +343,12 @@ export async function correctCourseEntry(
     if (issues.length) throw new AppError("invalid", "Please confirm this correction; see issues.", issues);
   }
   return db.transaction(async (tx) => {
+    await lockEditable(
+      tx,
+      reportId,
+      ["draft"],
+      "This course was submitted while you were logging, so nothing was changed; its log is closed.",
+    );
     let note: string;
     let saved: EntryRow | undefined;
     if (patch.struck) {

@@ -58,6 +58,21 @@ async function ownEditable(actor: Actor, id: string, states: string[], what: str
   return row;
 }
 
+/**
+ * Takes the report's row lock inside a transaction and checks its status again there: the check before the
+ * transaction is a quick answer, this one is the one that holds. A PATCH, a logged dose or a photo racing a
+ * submit or a decision queues on the lock and then finds the report no longer editable (409), so nothing changes
+ * a report after its flags were computed. (PGlite runs one transaction at a time; a PostgreSQL server needs it.)
+ */
+export async function lockEditable(tx: Tx, id: string, states: readonly string[], message: string): Promise<ReportRow> {
+  const [row] = await tx.select().from(reports).where(eq(reports.id, id)).for("update");
+  if (!row || !states.includes(row.status)) throw new AppError("conflict", message);
+  return row;
+}
+
+const CHANGED_MEANWHILE =
+  "This report was submitted or decided while you were changing it, so nothing was changed; reload it to see where it stands.";
+
 export async function saveDerived(tx: Tx, id: string): Promise<ReportRow> {
   const [row] = await tx.select().from(reports).where(eq(reports.id, id));
   const derived = await derive(tx as unknown as Db, row!);
@@ -172,6 +187,7 @@ export async function updateReport(actor: Actor | null, id: string, patch: Repor
     columns.lossCause = null;
   await checkReferences(db, columns);
   const updated = await db.transaction(async (tx) => {
+    await lockEditable(tx, id, ["draft", "returned"], CHANGED_MEANWHILE);
     await tx
       .update(reports)
       .set({
@@ -189,7 +205,10 @@ export async function submitReport(actor: Actor | null, id: string) {
   requireMember(actor);
   const row = await ownEditable(actor, id, ["draft", "returned"], "submit");
   const db = await getDb();
-  const updated = await db.transaction(async (tx) => submitInTx(tx, await saveDerived(tx, row.id), actor));
+  const updated = await db.transaction(async (tx) => {
+    await lockEditable(tx, row.id, ["draft", "returned"], "This report was submitted or decided meanwhile; reload it.");
+    return submitInTx(tx, await saveDerived(tx, row.id), actor);
+  });
   return { id: updated.id, status: updated.status };
 }
 
