@@ -174,3 +174,39 @@ export function suggestFirstDose(
   }
   return { fraction: concentration / median, concentration, limitedBy };
 }
+
+/** Rounds down to three significant figures, so a rounded dose never lands above the limit it was held to. */
+export function floorSig3(x: number): number {
+  if (!(x > 0)) return x;
+  const step = 10 ** (Math.floor(Math.log10(x)) - 2);
+  return Number((Math.floor(x / step + 1e-9) * step).toPrecision(3));
+}
+
+export interface CautiousPlan {
+  /** The full dose the later doses go to (the agent's unit). */
+  target: number;
+  /** The first dose's share of it (1: every dose at the held dose). */
+  fraction: number;
+  first: SuggestedFirstDose;
+}
+
+/**
+ * The plan the evidence offers a newcomer: a first dose (suggestFirstDose) and the full dose after it. The full
+ * dose is the tolerated median only where the median is below the group's lowest adverse dose and not above the
+ * BMDL; otherwise every dose stays at the held first dose, so no later dose is planned where fish have already
+ * fared badly. Both figures are rounded down to three significant figures.
+ */
+export function cautiousPlan(
+  evidence: GuardEvidence | null | undefined,
+  fraction = DEFAULT_FIRST_DOSE_FRACTION,
+): CautiousPlan | null {
+  const first = suggestFirstDose(evidence, fraction);
+  const median = evidence?.toleratedDose.median;
+  if (!first || median == null) return null;
+  const adverse = evidence!.lowestAdverseDose;
+  const bmdl = bmdlOf(evidence);
+  const medianSafe = (adverse == null || median < adverse) && (bmdl == null || median <= bmdl);
+  if (!medianSafe) return { target: floorSig3(first.concentration), fraction: 1, first };
+  // Below the lowest adverse dose and the BMDL, the first dose is the chosen share of the median itself.
+  return { target: floorSig3(median), fraction, first };
+}

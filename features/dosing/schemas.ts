@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { doseWarningCodes } from "./guard-rails";
-import { lengthUnits, volumeUnits } from "./units";
+import { lengthUnits, litresFromDimensions, MIN_WATER_LITRES, MIN_WATER_MESSAGE, toLitres, volumeUnits } from "./units";
 
 const num = (field: string) =>
   z.coerce.number({ error: `${field} must be a number.` }).refine(Number.isFinite, `${field} must be a finite number.`);
@@ -76,6 +76,13 @@ function checkDoseQuery(q: DoseQueryFields, ctx: z.RefinementCtx) {
   if (byVolume && dims) {
     ctx.addIssue({ code: "custom", path: ["volume"], message: "Give the volume or the tank's dimensions, not both." });
   } else if (byVolume) {
+    if (
+      q.volume !== undefined &&
+      q.volume > 0 &&
+      q.volumeUnit !== undefined &&
+      toLitres(q.volume, q.volumeUnit) < MIN_WATER_LITRES
+    )
+      ctx.addIssue({ code: "custom", path: ["volume"], message: MIN_WATER_MESSAGE });
     if (q.volume === undefined)
       ctx.addIssue({ code: "custom", path: ["volume"], message: "volume is required with volumeUnit." });
     if (q.volumeUnit === undefined)
@@ -89,6 +96,17 @@ function checkDoseQuery(q: DoseQueryFields, ctx: z.RefinementCtx) {
       if (q[f] === undefined)
         ctx.addIssue({ code: "custom", path: [f], message: `${f} is required when giving the tank's dimensions.` });
     }
+    if (
+      q.length !== undefined &&
+      q.width !== undefined &&
+      q.depth !== undefined &&
+      q.lengthUnit !== undefined &&
+      q.length > 0 &&
+      q.width > 0 &&
+      q.depth > 0 &&
+      litresFromDimensions(q.length, q.width, q.depth, q.lengthUnit) < MIN_WATER_LITRES
+    )
+      ctx.addIssue({ code: "custom", path: ["depth"], message: MIN_WATER_MESSAGE });
   } else {
     ctx.addIssue({
       code: "custom",

@@ -52,3 +52,10 @@ export const fahrenheitFromCelsius = (c: number) => (c * 9) / 5 + 32;
 export function toCelsius(value: number, unit: TemperatureUnit): number {
   return unit === "F" ? celsiusFromFahrenheit(value) : value;
 }
+
+/**
+ * The least water a treatment is planned or reported for: 100 mL (a small hospital container). Below it a
+ * volume is a slip of the unit (mL typed for L), and its concentrations run to absurd figures.
+ */
+export const MIN_WATER_LITRES = 0.1;
+export const MIN_WATER_MESSAGE = "The water must be at least 100 mL (0.1 L); check the volume and its unit.";

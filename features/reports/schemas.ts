@@ -1,5 +1,12 @@
 import { z } from "zod";
-import { temperatureUnits, toCelsius, volumeUnits } from "@/features/dosing";
+import {
+  MIN_WATER_LITRES,
+  MIN_WATER_MESSAGE,
+  temperatureUnits,
+  toCelsius,
+  toLitres,
+  volumeUnits,
+} from "@/features/dosing";
 
 export const sizeClasses = ["juvenile", "subadult", "adult"] as const;
 export const settings = ["bare", "planted", "other"] as const;
@@ -173,6 +180,14 @@ function crossRules(r: Crossable, ctx: Ctx, complete: boolean) {
     });
   }
   const w = r.water;
+  if (
+    w?.volume != null &&
+    w.volume > 0 &&
+    w.volumeUnit != null &&
+    toLitres(w.volume, w.volumeUnit) < MIN_WATER_LITRES
+  ) {
+    ctx.addIssue({ code: "custom", path: ["water", "volume"], message: MIN_WATER_MESSAGE });
+  }
   if (w?.temperature != null && w.temperatureUnit != null) {
     const c = toCelsius(w.temperature, w.temperatureUnit);
     if (c < 0 || c > 45)

@@ -65,25 +65,41 @@ describe("a newcomer's journey from the fish to an open course", () => {
         await page.getByLabel("Water volume", { exact: true }).fill("40");
         await page.getByLabel("Unit").selectOption("L");
 
-        // First dose from the evidence: the API says it stays below the lowest adverse dose, and warns at the median.
+        // The plan from the evidence: the usual dose is where tetras have fared badly, so every dose is held at the
+        // first, below the lowest adverse dose; only the group's standing note is there to acknowledge.
         await page.getByRole("button", { name: "Plan from this" }).click();
-        const target = await page.getByLabel("Target concentration (mg/L)").inputValue();
-        const api = await page.evaluate(
-          async (t) =>
-            (
-              await fetch(
-                `/api/dose?agent=hydrogen-peroxide&stockFormId=h2o2-3&speciesId=paracheirodon-innesi&volume=40&volumeUnit=L&target=${t}`,
-              )
-            ).json(),
-          target,
-        );
+        const held = await page.getByLabel("Target concentration (mg/L)").inputValue();
+        expect(await page.getByLabel("First dose").inputValue()).toBe("1");
+        await page.getByTestId("dose-warnings").waitFor();
+        expect(await codesIn(page, "dose-warnings")).toEqual(["lowest_adverse_at_or_below_median"]);
+        await page.getByLabel("I have read these warnings").check();
+        await page.getByTestId("dose-ml").waitFor();
+        const dose = (t: string) =>
+          page.evaluate(
+            async (q) =>
+              (
+                await fetch(
+                  `/api/dose?agent=hydrogen-peroxide&stockFormId=h2o2-3&speciesId=paracheirodon-innesi&volume=40&volumeUnit=L&target=${q}`,
+                )
+              ).json(),
+            t,
+          );
+        const api = await dose(held);
         expect(api.evidence.lowestAdverseDose).toBeLessThanOrEqual(api.evidence.toleratedDose.median);
         expect(api.suggestedFirstDose.concentration).toBeLessThan(api.evidence.lowestAdverseDose);
-        expect(api.warnings.map((w: { code: string }) => w.code)).toContain("at_or_above_lowest_adverse");
+        expect(Number(held)).toBeLessThanOrEqual(api.suggestedFirstDose.concentration);
+        expect(api.warnings.map((w: { code: string }) => w.code)).not.toContain("at_or_above_lowest_adverse");
 
-        // The full dose and doses 2 and 3 lie past the dose that went badly: the plan waits for an acknowledgement.
-        await page.getByTestId("dose-warnings").waitFor();
-        expect(await codesIn(page, "dose-warnings")).toContain("at_or_above_lowest_adverse");
+        // Pushing the full dose to the usual dose, with half of it first: doses 2 and 3 lie past the dose that went
+        // badly, and the plan waits for an acknowledgement.
+        const target = String(Number(api.evidence.toleratedDose.median.toPrecision(3)));
+        expect((await dose(target)).warnings.map((w: { code: string }) => w.code)).toContain(
+          "at_or_above_lowest_adverse",
+        );
+        await page.getByLabel("Target concentration (mg/L)").fill(target);
+        await page.getByLabel("First dose").selectOption("0.5");
+        await expect.poll(() => codesIn(page, "dose-warnings")).toContain("at_or_above_lowest_adverse");
+        expect(await page.getByLabel("I have read these warnings").isChecked()).toBe(false);
         expect(await page.getByTestId("dose-ml").count()).toBe(0);
         // Pushing further (250 typed for 25) adds the ceiling warning and asks again.
         await page.getByLabel("I have read these warnings").check();

@@ -126,13 +126,16 @@ describe("the dose planner", () => {
       await page.getByLabel("Water volume", { exact: true }).fill("40");
       await page.getByLabel("Unit").selectOption("L");
       await page.getByRole("button", { name: "Plan from this" }).click();
-      // In the demo club a tetra report went badly below the group's usual dose: the plan must stop the keeper.
+      // In the demo club a tetra report went badly below the group's usual dose: the plan holds every dose at the
+      // first (none at or above the dose that went badly) and still stops the keeper with the group's note.
       await page.getByTestId("dose-warnings").waitFor();
       const codes = await page
         .getByTestId("dose-warnings")
         .locator("li")
         .evaluateAll((els) => els.map((e) => (e as HTMLElement).dataset.code));
-      expect(codes).toContain("at_or_above_lowest_adverse");
+      expect(codes).toEqual(["lowest_adverse_at_or_below_median"]);
+      expect(await page.getByLabel("First dose").inputValue()).toBe("1");
+      expect(await evidence.textContent()).toContain("Planned from this, every dose stays at it");
       expect(await page.getByTestId("dose-ml").count()).toBe(0);
       await page.getByLabel("I have read these warnings").check();
       await page.getByTestId("dose-ml").waitFor();

@@ -98,14 +98,24 @@ describe("evidence", () => {
     const doseSvg = await (await fetch(doseSrc)).text();
     expect(doseSvg.match(/<circle/g)?.length).toBeGreaterThan(3);
     expect(await page.getByTestId("chart-text").textContent()).toMatch(/tolerated doses from/);
-    const median = (await page.getByTestId("median").textContent())!;
+    const median = Number((await page.getByTestId("median").textContent())!.replace(/[^\d.]/g, ""));
+    // The page's first dose is the planner's (cautiousPlan): the bold figure, never at the lowest adverse dose.
+    const planText = (await page.getByTestId("cautious-plan").textContent())!;
+    const first = Number(
+      (await page.getByTestId("cautious-plan").locator("strong").textContent())!.replace(/[^\d.]/g, ""),
+    );
+    const api = await (await fetch(`${baseUrl()}/api/summaries/livebearers?agent=hydrogen-peroxide`)).json();
+    if (api.lowestAdverseDose != null) expect(first).toBeLessThan(api.lowestAdverseDose);
     await page.screenshot({ path: "tests/e2e/.artifacts/evidence-group.png", fullPage: true });
-    await page.getByRole("link", { name: "Open the planner with a half dose" }).click();
+    await page.getByRole("link", { name: "Open the planner with this first dose" }).click();
     await page.waitForURL(/\/planner\?/);
     await page.getByText("Prefilled from the club's evidence for").waitFor();
-    const target = await page.getByLabel("Target concentration (mg/L)").inputValue();
-    expect(Number(target)).toBeCloseTo(Number(median.replace(/[^\d.]/g, "")), 0);
-    expect(await page.getByLabel("First dose").inputValue()).toBe("0.5");
+    const target = Number(await page.getByLabel("Target concentration (mg/L)").inputValue());
+    const fraction = Number(await page.getByLabel("First dose").inputValue());
+    // The planner opens with that first dose: the full dose times its share.
+    expect(target * fraction).toBeCloseTo(first, 1);
+    if (fraction === 1) expect(planText).toContain("Later doses stay at it");
+    else expect(target).toBeCloseTo(median, 0);
     await page.close();
   });
 });

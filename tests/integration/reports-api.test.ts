@@ -53,6 +53,9 @@ describe("POST /api/reports", () => {
       [reportBody({ startedOn: "2099-01-01" }), "startedOn"],
       [reportBody({ speciesId: "no-such-fish" }), "speciesId"],
       [reportBody({ water: { volume: -10 } }), "water.volume"],
+      // Under 100 mL: 1e-300 L was stored and made a 3e303 mg/L report that an override could put in the evidence.
+      [reportBody({ water: { volume: 1e-300 } }), "water.volume"],
+      [reportBody({ water: { volume: 90, volumeUnit: "mL" } }), "water.volume"],
       [reportBody({ outcome: { fishLost: 2, lossCause: null } }), "outcome.lossCause"],
       [reportBody({ treatment: { doses: 2, intervalHours: undefined } }), "treatment.intervalHours"],
       [reportBody({ speciesId: null }), "speciesOther"],

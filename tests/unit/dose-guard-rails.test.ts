@@ -1,5 +1,13 @@
 import { describe, expect, it } from "vitest";
-import { doseWarnings, planDose, readStrength, suggestFirstDose, type GuardEvidence } from "@/features/dosing";
+import {
+  cautiousPlan,
+  doseWarnings,
+  floorSig3,
+  planDose,
+  readStrength,
+  suggestFirstDose,
+  type GuardEvidence,
+} from "@/features/dosing";
 
 /** A group whose lowest adverse dose (19.2) lies below its tolerated median (25.1): the case that must be loud. */
 const tetras: GuardEvidence = {
@@ -157,6 +165,39 @@ describe("a cautious first dose from the evidence", () => {
     });
     expect(suggestFirstDose({ ...tetras, toleratedDose: { median: null, max: null } })).toBeNull();
     expect(suggestFirstDose(null)).toBeNull();
+  });
+});
+
+describe("the cautious plan offered from the evidence", () => {
+  // Hand-worked cases; "never plan a later dose where fish have fared badly" is the club's rule (common practice,
+  // no published source).
+  it("goes on to the median only where the median is below the lowest adverse dose and the BMDL", () => {
+    // Median 25.1 below a lowest adverse dose of 30, no curve: ½ × 25.1 = 12.55 first, then 25.1.
+    expect(cautiousPlan({ ...tetras, lowestAdverseDose: 30 })).toMatchObject({ target: 25.1, fraction: 0.5 });
+    expect(cautiousPlan({ ...tetras, lowestAdverseDose: 30 }, 1 / 3)!.fraction).toBeCloseTo(1 / 3, 12);
+  });
+
+  it("holds every dose at the first where the median is at or above the lowest adverse dose", () => {
+    // Tetras: 19.2 went badly below the median 25.1; ½ × 25.1 = 12.55 is below 19.2, so 12.5 (rounded down) for all.
+    expect(cautiousPlan(tetras)).toMatchObject({ target: 12.5, fraction: 1 });
+    // The demo's curve limit: a BMDL of 3.7649 holds the dose at 3.76, never the 3.77 that rounding up would give.
+    const p = cautiousPlan({ ...tetras, doseResponse: { bmdl: 3.7649 } })!;
+    expect(p).toMatchObject({ target: 3.76, fraction: 1 });
+    expect(p.first.limitedBy).toBe("bmdl");
+    const w = doseWarnings({
+      unit: "mg/L",
+      ceiling: 150,
+      evidence: { ...tetras, doseResponse: { bmdl: 3.7649 } },
+      doses: [{ label: "every dose", concentration: p.target * p.fraction }],
+    });
+    expect(codes(w)).toEqual(["lowest_adverse_at_or_below_median"]);
+    expect(cautiousPlan({ ...tetras, toleratedDose: { median: null, max: null } })).toBeNull();
+  });
+
+  it("rounds down to three significant figures", () => {
+    expect([floorSig3(3.7649), floorSig3(12.55), floorSig3(25.1), floorSig3(0.012345), floorSig3(1234.5)]).toEqual([
+      3.76, 12.5, 25.1, 0.0123, 1230,
+    ]);
   });
 });
 

@@ -78,6 +78,18 @@ describe("the dose query schema", () => {
     expect(issues({ ...ok, volumeUnit: "bucket" })[0]).toMatch(/^volumeUnit:/);
     expect(issues({ ...ok, fraction: "2" })[0]).toMatch(/^fraction:/);
     expect(issues({ ...ok, volume: "abc" })[0]).toMatch(/^volume: volume must be/);
+    // Under 100 mL of water is a slip of the unit: 1e-300 L made concentrations of 1e303 mg/L.
+    expect(issues({ ...ok, volume: "1e-300" })).toEqual([
+      "volume: The water must be at least 100 mL (0.1 L); check the volume and its unit.",
+    ]);
+    expect(issues({ ...ok, volume: "50", volumeUnit: "mL" })[0]).toMatch(/^volume: The water must be at least 100 mL/);
+    expect(issues({ ...ok, volume: "100", volumeUnit: "mL" })).toEqual([]);
+    // 0.1 US gallon = 0.3785 L (NIST SP 811): enough.
+    expect(issues({ ...ok, volume: "0.1", volumeUnit: "gal_us" })).toEqual([]);
+    const dims = { agent: "hydrogen-peroxide", stockPercent: "3", target: "25", lengthUnit: "cm" };
+    // 4 × 5 × 4 cm = 80 cm³ = 0.08 L; 5 × 5 × 4 cm = 0.1 L.
+    expect(issues({ ...dims, length: "4", width: "5", depth: "4" })[0]).toMatch(/^depth: The water must be at least/);
+    expect(issues({ ...dims, length: "5", width: "5", depth: "4" })).toEqual([]);
     const { volume: _v, volumeUnit: _u, ...noVolume } = ok;
     expect(issues(noVolume)[0]).toMatch(/^volume: Give the water volume/);
   });

@@ -10,7 +10,14 @@ import { useForm, useWatch, type Resolver } from "react-hook-form";
 import { courseSchedule, planDose, type CourseItem, type Plan, type VolumeInput } from "../plan";
 import { planDrySalt, type DryPlan } from "../dry-salt";
 import { DosingInputError } from "../concentration";
-import { doseWarnings, suggestFirstDose, type DoseWarning, type GuardEvidence } from "../guard-rails";
+import {
+  cautiousPlan,
+  doseWarnings,
+  floorSig3,
+  suggestFirstDose,
+  type DoseWarning,
+  type GuardEvidence,
+} from "../guard-rails";
 import { doseQuerySchema, type DoseQuery } from "../schemas";
 import { readStrength } from "../stock-reading";
 import { volumeUnitLabels, volumeUnits, type LengthUnit, type VolumeUnit } from "../units";
@@ -377,15 +384,15 @@ export function Planner({
     setValue("group", sp ? "" : (g?.slug ?? ""));
   };
   const useSuggestion = () => {
-    if (!suggested || evidence?.toleratedDose.median == null) return;
-    const median = evidence.toleratedDose.median;
+    // The shared cautious plan: the median as the full dose only where fish have not fared badly at or below it;
+    // otherwise every dose at the held first dose.
+    const plan = cautiousPlan(evidence ?? null, firstDoseFraction);
+    if (!plan) return;
     setValue("mode", "target");
-    setValue("target", String(Number(median.toPrecision(3))), { shouldValidate: true });
-    const f =
-      suggested.limitedBy === "median" ? suggested.fraction : suggested.concentration / Number(median.toPrecision(3));
-    const preset = fractions.find((x) => x.value !== "custom" && Math.abs(Number(x.value) - f) < 1e-6);
+    setValue("target", String(plan.target), { shouldValidate: true });
+    const preset = fractions.find((x) => x.value !== "custom" && Math.abs(Number(x.value) - plan.fraction) < 1e-6);
     setValue("fractionChoice", preset?.value ?? "custom");
-    setValue("fraction", String(Number(f.toPrecision(3))), { shouldValidate: true });
+    setValue("fraction", preset?.value ?? String(Number(plan.fraction.toPrecision(3))), { shouldValidate: true });
   };
   const icsHref =
     query.success && startDate && !Number.isNaN(startDate.getTime())
@@ -546,6 +553,7 @@ export function Planner({
             unit={agent.unit}
             agentName={agent.name}
             suggested={suggested}
+            holdsEveryDose={cautiousPlan(evidence ?? null, firstDoseFraction)?.fraction === 1}
             onUse={useSuggestion}
           />
         ) : null}
@@ -817,6 +825,7 @@ function EvidencePanel({
   unit,
   agentName,
   suggested,
+  holdsEveryDose,
   onUse,
 }: {
   evidence: GroupEvidence | null;
@@ -824,6 +833,8 @@ function EvidencePanel({
   unit: string;
   agentName: string;
   suggested: ReturnType<typeof suggestFirstDose>;
+  /** The usual dose is at or above where fish fared badly (or the BMDL): the plan keeps every dose at the first. */
+  holdsEveryDose: boolean;
   onUse: () => void;
 }) {
   if (failed)
@@ -889,7 +900,7 @@ function EvidencePanel({
               <p className="text-sm">
                 Suggested first dose:{" "}
                 <strong>
-                  {fmtSig(suggested.concentration)} {unit}
+                  {fmtSig(floorSig3(suggested.concentration))} {unit}
                 </strong>
                 {suggested.limitedBy === "median"
                   ? ` (${fmt(suggested.fraction * 100, 0)} % of the usual dose)`
@@ -897,6 +908,9 @@ function EvidencePanel({
                     ? " (held below the lowest dose that went badly)"
                     : " (held at the fitted curve's lower limit)"}
                 .
+                {holdsEveryDose
+                  ? " Planned from this, every dose stays at it: the usual dose is where fish of this group have already fared badly."
+                  : null}
               </p>
               <button type="button" onClick={onUse} className="rounded-md border border-peat-500 px-3 py-1 font-bold">
                 Plan from this

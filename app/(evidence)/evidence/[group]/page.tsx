@@ -6,6 +6,8 @@ import { DoseChart } from "@/features/evidence/components/dose-chart";
 import { RiskChart } from "@/features/evidence/components/risk-chart";
 import { chartSrc, riskChartProps } from "@/features/evidence/components/chart-figures";
 import { isFitted, riskAt } from "@/features/evidence";
+import { getClubSettings } from "@/features/catalogue/server";
+import { cautiousPlan, floorSig3 } from "@/features/dosing";
 import { cards, counts, fmtDose, pct } from "@/features/evidence/components/format";
 import { Cautions } from "@/features/shared/components/cautions";
 import { Notice, PageTitle } from "@/features/shared/components/ui";
@@ -31,10 +33,13 @@ export default async function GroupEvidencePage({
   const d = s.toleratedDose;
   const usual = d.median;
   const warn = usual != null && s.lowestAdverseDose != null && s.lowestAdverseDose <= usual;
-  const plan =
-    usual != null
-      ? `/planner?${new URLSearchParams({ agent: s.agent, target: String(Number(usual.toPrecision(3))), fraction: "0.5", group: s.group.slug, groupName: s.group.name })}`
-      : null;
+  // The same cautious plan the planner offers (features/dosing cautiousPlan), at the club's first-dose share.
+  const firstShare = (await getClubSettings()).firstDoseFraction;
+  const cautious = cautiousPlan(s, firstShare);
+  const plan = cautious
+    ? `/planner?${new URLSearchParams({ agent: s.agent, target: String(cautious.target), fraction: String(cautious.fraction), group: s.group.slug, groupName: s.group.name })}`
+    : null;
+  const shareName = firstShare < 0.4 ? "a third" : "half";
   const dr = isFitted(s.doseResponse) ? s.doseResponse : null;
   // The curve read at the usual (median tolerated) dose, or at the benchmark dose where there is no median.
   const readAt = dr ? (usual ?? dr.bmd) : null;
@@ -109,17 +114,44 @@ export default async function GroupEvidencePage({
                 {s.unit}) has already gone badly for this group. Start well below it, on a few fish first.
               </p>
             ) : null}
-            <p>
-              Taking the median tolerated dose, {fmtDose(usual)} {s.unit}, as the usual dose, a first dose of half is{" "}
-              {fmtDose(usual == null ? null : usual / 2)} {s.unit} (a third: {fmtDose(usual == null ? null : usual / 3)}{" "}
-              {s.unit}).
-            </p>
+            {cautious ? (
+              <p data-testid="cautious-plan">
+                {cautious.first.limitedBy === "median" ? (
+                  <>
+                    Taking the median tolerated dose, {fmtDose(usual)} {s.unit}, as the usual dose, a first dose of{" "}
+                    {shareName} is{" "}
+                    <strong>
+                      {fmtDose(floorSig3(cautious.first.concentration))} {s.unit}
+                    </strong>
+                    .
+                  </>
+                ) : (
+                  <>
+                    A first dose of {shareName} the usual dose ({fmtDose(usual)} {s.unit}) would be too close to where
+                    fish have fared badly, so the first dose is held at{" "}
+                    <strong>
+                      {fmtDose(floorSig3(cautious.first.concentration))} {s.unit}
+                    </strong>{" "}
+                    (
+                    {cautious.first.limitedBy === "lowest_adverse"
+                      ? `${shareName} the lowest dose that went badly`
+                      : "the fitted curve's lower limit"}
+                    ).
+                  </>
+                )}{" "}
+                {cautious.fraction === 1
+                  ? "Later doses stay at it: the usual dose is at or above where this group has fared badly."
+                  : `Later doses go to the usual dose, ${fmtDose(cautious.target)} ${s.unit}, only if the fish show no distress.`}
+              </p>
+            ) : (
+              <p>No tolerated report yet, so there is no usual dose to start from: start very low and watch closely.</p>
+            )}
             {plan ? (
               <Link
                 href={plan}
                 className="justify-self-start rounded-md bg-peat-700 px-4 py-2 font-bold text-white no-underline"
               >
-                Open the planner with a half dose
+                Open the planner with this first dose
               </Link>
             ) : null}
           </section>
