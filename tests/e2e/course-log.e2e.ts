@@ -88,7 +88,7 @@ describe("the course log on a phone", () => {
     await page.getByTestId("next-dose-ml").filter({ hasText: "30 mL" }).waitFor();
     await page.getByTestId("history").getByText("corrected a course entry").waitFor();
     expect(await page.getByTestId("history").textContent()).toContain(
-      "warnings acknowledged: at or above lowest adverse",
+      "warnings acknowledged: at or above the lowest dose that went badly",
     );
 
     await page.goto(`${baseUrl()}/`);

@@ -270,7 +270,7 @@ describe("the course log's guard rails, shared with the planner", () => {
       cookie: owner.cookie,
     });
     expect(history.body.events.find((e: { action: string }) => e.action === "dose_logged").note).toBe(
-      "20 mL; warnings acknowledged: at or above lowest adverse",
+      "20 mL; warnings acknowledged: at or above the lowest dose that went badly",
     );
 
     // The log shows the warning on the entry; the next dose is not the confirmed 20 mL again but the plan's
@@ -311,7 +311,7 @@ describe("the course log's guard rails, shared with the planner", () => {
       cookie: owner.cookie,
     });
     expect(history.body.events.find((ev: { action: string }) => ev.action === "entry_corrected").note).toMatch(
-      /amount 8 mL → 45 mL; warnings acknowledged: at or above lowest adverse, above highest tolerated — Measured twice\./,
+      /amount 8 mL → 45 mL; warnings acknowledged: at or above the lowest dose that went badly, above the highest dose tolerated — Measured twice\./,
     );
   });
 });

@@ -199,6 +199,8 @@ describe("drafts, edits and submission", () => {
     });
     expect(early.status).toBe(422);
     const missing = early.body.error.issues.map((i: { path: string }) => i.path);
+    // No count of fish lost yet: the likely cause of losses is not asked before it.
+    expect(missing).not.toContain("outcome.lossCause");
     expect(missing).toEqual(
       expect.arrayContaining([
         "sizeClass",

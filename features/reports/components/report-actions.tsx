@@ -7,7 +7,7 @@ import { ApiError, fetchJson } from "@/features/shared/fetch-json";
 
 export function ReportActions({ id, status }: { id: string; status: string }) {
   const router = useRouter();
-  const [error, setError] = useState<string | null>(null);
+  const [error, setError] = useState<{ message: string; items: string[] } | null>(null);
   const [busy, setBusy] = useState(false);
   if (status !== "draft" && status !== "returned") return null;
   async function run(path: string, method: string, then: string) {
@@ -18,10 +18,14 @@ export function ReportActions({ id, status }: { id: string; status: string }) {
       router.push(then);
       router.refresh();
     } catch (err) {
+      // The messages are plain sentences; the field paths are for programs, not for the page.
       setError(
         err instanceof ApiError
-          ? [err.message, ...(err.body.issues ?? []).map((i) => `${i.path}: ${i.message}`)].join(" ")
-          : "That did not work; try again.",
+          ? {
+              message: err.message.replace(/ listed in issues/, " below").replace(/; see issues\.?$/, "."),
+              items: (err.body.issues ?? []).map((i) => i.message),
+            }
+          : { message: "That did not work; try again.", items: [] },
       );
     } finally {
       setBusy(false);
@@ -58,9 +62,21 @@ export function ReportActions({ id, status }: { id: string; status: string }) {
         ) : null}
       </div>
       {error ? (
-        <p role="alert" className="font-bold text-alarm-700">
-          {error}
-        </p>
+        <div role="alert" className="grid gap-1 text-alarm-700" data-testid="report-action-error">
+          <p className="font-bold">{error.message}</p>
+          {error.items.length ? (
+            <ul className="list-disc pl-5 text-sm">
+              {error.items.map((m) => (
+                <li key={m}>{m}</li>
+              ))}
+            </ul>
+          ) : null}
+          {error.items.length ? (
+            <Link href={`/reports/${id}/edit?step=0`} className="text-sm font-bold">
+              Fill them in
+            </Link>
+          ) : null}
+        </div>
       ) : null}
     </div>
   );

@@ -167,7 +167,17 @@ const railIssues = (warnings: DoseWarning[], path: string) =>
     message: `${w.message} If you have read this and it is right, ${CONFIRM_HINT}`,
   }));
 const acknowledgedNote = (warnings: DoseWarning[]) =>
-  warnings.length ? `; warnings acknowledged: ${warnings.map((w) => w.code.replaceAll("_", " ")).join(", ")}` : "";
+  warnings.length
+    ? `; warnings acknowledged: ${warnings.map((w) => railWords[w.code] ?? w.code.replaceAll("_", " ")).join(", ")}`
+    : "";
+
+/** The guard rails as the history reads them (no code or abbreviation on a page). */
+const railWords: Partial<Record<string, string>> = {
+  at_or_above_lowest_adverse: "at or above the lowest dose that went badly",
+  above_highest_tolerated: "above the highest dose tolerated",
+  above_bmdl: "above the fitted curve's lower limit",
+  above_ceiling: "above the plausible ceiling",
+};
 function amountNeedsConfirm(a: DoseAmount, planned: { ml: number | null; grams: number | null }): string | null {
   const [given, plan, u] = a.grams != null ? [a.grams, planned.grams, "g"] : [a.ml, planned.ml, "mL"];
   if (plan == null || !(given > 3 * plan)) return null;

@@ -86,7 +86,10 @@ async function submitInTx(tx: Tx, row: ReportRow, actor: Actor): Promise<ReportR
     throw new AppError(
       "invalid",
       "The report is not complete yet: fill in the fields listed in issues, then submit again.",
-      zodIssues(parsed.error),
+      // The likely cause of losses is asked only once fish were lost; with the count missing, that is asked first.
+      zodIssues(parsed.error).filter(
+        (i) => !(i.path === "outcome.lossCause" && !(row.fishLost != null && row.fishLost > 0)),
+      ),
     );
   }
   const { flags, completeness } = await computeFlags(tx as unknown as Db, row);

@@ -4,6 +4,7 @@ import { useRouter } from "next/navigation";
 import { useId, useState, type FormEvent } from "react";
 import { ApiError, fetchJson } from "@/features/shared/fetch-json";
 import { overrideNoteMin } from "../schemas";
+import { reportValueLabels } from "@/features/reports/schemas";
 
 const choices = {
   awaiting_review: [
@@ -171,7 +172,9 @@ export function DecisionForm({
             );
           }}
         >
-          <p className="font-bold">Likely cause of the losses (the member said: {lossCause})</p>
+          <p className="font-bold">
+            Likely cause of the losses (the member said: {reportValueLabels[lossCause ?? ""] ?? lossCause})
+          </p>
           <label htmlFor={`${fid}-cause`}>Corrected cause</label>
           <select
             id={`${fid}-cause`}

@@ -1,6 +1,7 @@
 "use client";
 
 import { flagLabels } from "../flag-labels";
+import { formatDay } from "@/features/shared/format-time";
 import { Pager, TableView } from "@/features/shared/components/table-parts";
 import Link from "next/link";
 import { useQuery } from "@tanstack/react-query";
@@ -76,7 +77,7 @@ const columns = helper.columns([
     id: "submitted",
     header: "Submitted",
     sortFn: "alphanumeric",
-    cell: (c) => (c.getValue() ? new Date(c.getValue()).toLocaleDateString("en-GB") : "—"),
+    cell: (c) => (c.getValue() ? formatDay(c.getValue()) : "—"),
   }),
   helper.accessor("authorName", {
     header: "Member",
