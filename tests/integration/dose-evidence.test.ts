@@ -173,6 +173,10 @@ describe("GET /api/dose/plan.ics", () => {
     expect(r.status).toBe(200);
     expect(r.res.headers.get("content-type")).toMatch(/^text\/calendar/);
     const text = typeof r.body === "string" ? r.body : await r.res.text();
+    // RFC 5545 §3.1: content lines are at most 75 octets, folded with CRLF and a space (the cautions hold dashes).
+    expect(text).toMatch(/\u2014|–|µ|…/);
+    const tooLong = text.split("\r\n").filter((l: string) => Buffer.byteLength(l, "utf8") > 75);
+    expect(tooLong).toEqual([]);
     const cal = new ICAL.Component(ICAL.parse(text));
     const events = cal.getAllSubcomponents("vevent").map((v) => new ICAL.Event(v));
     const doses = events.filter((e) => /Dose \d of 3/.test(e.summary));

@@ -43,5 +43,33 @@ export function planCalendar(input: CalendarInput): string {
     calName: `${input.agentName} course`,
   });
   if (error || value == null) throw error ?? new Error("The calendar could not be written.");
-  return value;
+  return foldOctets(value);
+}
+
+/**
+ * Folds content lines at 75 octets, as RFC 5545 §3.1 asks (the writer counts characters, so a line with an en
+ * dash or a µ ran to 80 octets and more, which strict calendar apps refuse). Continuation lines begin with a
+ * space; a multi-byte character is never split.
+ */
+export function foldOctets(ics: string): string {
+  const unfolded = ics.replace(/\r\n[ \t]/g, "").split("\r\n");
+  const out: string[] = [];
+  for (const line of unfolded) {
+    let current = "";
+    let octets = 0;
+    let limit = 75;
+    for (const ch of line) {
+      const size = Buffer.byteLength(ch, "utf8");
+      if (octets + size > limit) {
+        out.push(current);
+        current = " ";
+        octets = 1;
+        limit = 75;
+      }
+      current += ch;
+      octets += size;
+    }
+    out.push(current);
+  }
+  return out.join("\r\n");
 }
