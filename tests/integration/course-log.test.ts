@@ -84,6 +84,32 @@ describe("the next dose of an open course", () => {
   });
 });
 
+describe("entry times", () => {
+  it("refuses a dose dated before the course started, and changes nothing", async () => {
+    const d = await call(draftsRoute.POST, "/api/reports/drafts", {
+      cookie: owner.cookie,
+      body: {
+        courseOpen: true,
+        speciesId: "paracheirodon-innesi",
+        fishCount: 6,
+        startedOn: "2026-11-20",
+        water: { volume: 40, volumeUnit: "L" },
+        treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, stockBasis: "w/v", intervalHours: 48 },
+      },
+    });
+    const id = d.body.id as string;
+    const early = await logDose(id, new Date("1970-01-01T00:00:00Z"), 10);
+    expect(early.status).toBe(422);
+    expect(early.body.error.issues).toEqual([
+      { path: "at", message: "This time is before the course started (20 Nov 2026); check the date." },
+    ]);
+    // A day's grace for time zones ahead of UTC: the evening before, UTC, is the morning of the 20th in the Pacific.
+    expect((await logDose(id, new Date("2026-11-19T20:00:00Z"), 10)).status).toBe(201);
+    const course = await getCourse(actorOf(owner), id);
+    expect(course.entries).toHaveLength(1);
+  });
+});
+
 describe("correcting and striking out course entries", () => {
   it("corrects a typo'd amount only with confirmation when over 3× the plan, and keeps the change in the history", async () => {
     const id = await openCourse();

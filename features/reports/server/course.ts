@@ -4,6 +4,7 @@ import { getDb, schema } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
 import { publicBaseUrl } from "@/features/shared/env";
+import { formatDay } from "@/features/shared/format-time";
 import { queueMail } from "@/features/mail/server";
 import { kickJobs, registerJob } from "@/features/shared/server/jobs";
 import type { z } from "zod";
@@ -124,6 +125,21 @@ function plannedDose(
     ml: mlFor(stated) ?? given?.ml ?? mlFor(target),
     grams: gramsFor(stated) ?? given?.grams ?? gramsFor(target),
   };
+}
+
+/**
+ * An entry dated before the course began (a day's grace for time zones) is a slip of the date: it would count as
+ * the first dose, set the plan the 3× check compares with, and make a reminder due at once.
+ */
+function refuseBeforeStart(row: ReportRow, at: Date): void {
+  if (!row.startedOn) return;
+  if (at.getTime() < Date.parse(`${row.startedOn}T00:00:00Z`) - 86_400_000)
+    throw new AppError("invalid", "Some fields need fixing; see issues.", [
+      {
+        path: "at",
+        message: `This time is before the course started (${formatDay(`${row.startedOn}T12:00:00Z`)}); check the date.`,
+      },
+    ]);
 }
 
 const CONFIRM_HINT = "send confirm: true if it is right.";
@@ -253,6 +269,7 @@ export async function addCourseEntry(
   const row = await ownOpenCourse(actor, reportId, "log");
   const db = await getDb();
   const at = new Date(entry.at);
+  refuseBeforeStart(row, at);
   if (entry.photoId) {
     const [photo] = await db
       .select({ reportId: schema.photos.reportId })
@@ -324,6 +341,7 @@ export async function correctCourseEntry(
 ) {
   const row = await ownOpenCourse(actor, reportId, "correct entries");
   const db = await getDb();
+  if (patch.at !== undefined) refuseBeforeStart(row, new Date(patch.at));
   const id = /^[1-9][0-9]{0,9}$/.test(entryId) ? Number(entryId) : NaN;
   const all = await db.select().from(courseEntries).where(eq(courseEntries.reportId, reportId));
   const entry = all.find((e) => e.id === id);
