@@ -10,6 +10,7 @@ import {
   tableFeatures,
   useTable,
 } from "@tanstack/react-table";
+import { useRouter } from "next/navigation";
 import { useDeferredValue, useId, useState } from "react";
 import { ApiError, fetchJson } from "@/features/shared/fetch-json";
 import { Select, TextInput } from "@/features/shared/components/ui";
@@ -28,6 +29,7 @@ const roleWords: Record<Role, string> = { member: "member", moderator: "moderato
 /** Choosing a role only proposes it (arrow keys move through the menu freely); a confirm step changes it. */
 function RoleSelect({ member }: { member: Member }) {
   const client = useQueryClient();
+  const router = useRouter();
   const id = useId();
   const [error, setError] = useState<string | null>(null);
   const [pending, setPending] = useState<Role | null>(null);
@@ -37,6 +39,8 @@ function RoleSelect({ member }: { member: Member }) {
     onSuccess: () => {
       setError(null);
       setPending(null);
+      // The server-rendered list of recent role changes below the table shows the new change too.
+      router.refresh();
       return client.invalidateQueries({ queryKey: memberKeys.all });
     },
     onError: (err) => setError(err instanceof ApiError ? err.message : "The role could not be changed."),

@@ -11,7 +11,7 @@ export default async function MembersPage() {
   const changes = await pageData(getRoleChangesByUserId({ actor }, undefined, 20));
   return (
     <div className="grid gap-8">
-      <PageTitle lead="Change a role with its menu; the change takes effect at once and is recorded below.">
+      <PageTitle lead="Choose a new role in a member's menu, then confirm it; the change takes effect when confirmed and is recorded below.">
         Members and roles
       </PageTitle>
       <MembersTable />
