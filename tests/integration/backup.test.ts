@@ -336,6 +336,17 @@ describe("PATCH /api/admin/settings", () => {
       path: "confidenceLevel",
     });
     expect((await patch(admin, "{not json")).status).toBe(400);
+    // JSON sends numbers as numbers: text that reads as one ("9e1", " 95 ") is refused, not guessed at.
+    for (const [field, value] of [
+      ["confidenceLevel", "9e1"],
+      ["confidenceLevel", " 95 "],
+      ["minReports", "5"],
+      ["firstDoseFraction", "0.5"],
+    ] as const) {
+      const r = await patch(admin, { [field]: value });
+      expect(r.status, `${field} ${value}`).toBe(422);
+      expect(r.body.error.issues[0].path).toBe(field);
+    }
     expect(await current()).toEqual(was);
   });
 
