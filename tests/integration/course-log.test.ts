@@ -25,10 +25,11 @@ beforeAll(async () => {
 });
 
 /** An open course: 3 % w/v peroxide in 40 L, planned at 25 mg/L, a dose every 48 h. */
-async function openCourse(): Promise<string> {
+async function openCourse(extra: Record<string, unknown> = {}): Promise<string> {
   const d = await call(draftsRoute.POST, "/api/reports/drafts", {
     cookie: owner.cookie,
     body: {
+      ...extra,
       courseOpen: true,
       speciesId: "paracheirodon-innesi",
       fishCount: 6,
@@ -86,18 +87,7 @@ describe("the next dose of an open course", () => {
 
 describe("entry times", () => {
   it("refuses a dose dated before the course started, and changes nothing", async () => {
-    const d = await call(draftsRoute.POST, "/api/reports/drafts", {
-      cookie: owner.cookie,
-      body: {
-        courseOpen: true,
-        speciesId: "paracheirodon-innesi",
-        fishCount: 6,
-        startedOn: "2026-11-20",
-        water: { volume: 40, volumeUnit: "L" },
-        treatment: { agentSlug: "hydrogen-peroxide", stockPercent: 3, stockBasis: "w/v", intervalHours: 48 },
-      },
-    });
-    const id = d.body.id as string;
+    const id = await openCourse({ startedOn: "2026-11-20" });
     const early = await logDose(id, new Date("1970-01-01T00:00:00Z"), 10);
     expect(early.status).toBe(422);
     expect(early.body.error.issues).toEqual([

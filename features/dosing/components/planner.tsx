@@ -352,6 +352,7 @@ export function Planner({
   const warningKey = warnings.map((w) => w.message).join("|");
   const cleared = warnings.length === 0 || acknowledged === warningKey;
   const suggested = suggestFirstDose(evidence ?? null, firstDoseFraction);
+  const cautious = cautiousPlan(evidence ?? null, firstDoseFraction);
 
   const errorOf = (name: keyof PlannerValues) => formState.errors[name]?.message;
   const field = (name: keyof PlannerValues) => ({
@@ -386,13 +387,12 @@ export function Planner({
   const useSuggestion = () => {
     // The shared cautious plan: the median as the full dose only where fish have not fared badly at or below it;
     // otherwise every dose at the held first dose.
-    const plan = cautiousPlan(evidence ?? null, firstDoseFraction);
-    if (!plan) return;
+    if (!cautious) return;
     setValue("mode", "target");
-    setValue("target", String(plan.target), { shouldValidate: true });
-    const preset = fractions.find((x) => x.value !== "custom" && Math.abs(Number(x.value) - plan.fraction) < 1e-6);
+    setValue("target", String(cautious.target), { shouldValidate: true });
+    const preset = fractions.find((x) => x.value !== "custom" && Math.abs(Number(x.value) - cautious.fraction) < 1e-6);
     setValue("fractionChoice", preset?.value ?? "custom");
-    setValue("fraction", preset?.value ?? String(Number(plan.fraction.toPrecision(3))), { shouldValidate: true });
+    setValue("fraction", preset?.value ?? String(Number(cautious.fraction.toPrecision(3))), { shouldValidate: true });
   };
   const icsHref =
     query.success && startDate && !Number.isNaN(startDate.getTime())
@@ -553,7 +553,7 @@ export function Planner({
             unit={agent.unit}
             agentName={agent.name}
             suggested={suggested}
-            holdsEveryDose={cautiousPlan(evidence ?? null, firstDoseFraction)?.fraction === 1}
+            holdsEveryDose={cautious?.fraction === 1}
             onUse={useSuggestion}
           />
         ) : null}

@@ -4,7 +4,7 @@ import { count, eq } from "drizzle-orm";
 import { getDb, schema, type Db } from "@/db/client";
 import { AppError, notFound } from "@/features/shared/errors";
 import type { Actor } from "@/features/shared/roles";
-import { getVisibleReportRow, recordEvent } from "@/features/reports/server";
+import { getVisibleReportRow, lockEditable, recordEvent } from "@/features/reports/server";
 import { readBody } from "@/features/shared/server/http";
 import {
   claimIdempotencyKey,
@@ -88,13 +88,12 @@ export async function addPhoto(
       await claimIdempotencyKey(tx, idempotency);
       // Parallel uploads to one report queue on its row (FOR UPDATE; PGlite runs one transaction at a time anyway),
       // so each counts the photos the others stored and the limit holds.
-      const [locked] = await tx
-        .select({ status: schema.reports.status })
-        .from(schema.reports)
-        .where(eq(schema.reports.id, reportId))
-        .for("update");
-      if (!locked || !["draft", "returned"].includes(locked.status))
-        throw new AppError("conflict", "Photos can be added while the report is a draft or returned for changes.");
+      const locked = await lockEditable(
+        tx,
+        reportId,
+        ["draft", "returned"],
+        "Photos can be added while the report is a draft or returned for changes.",
+      );
       if ((await countPhotos(tx, reportId)) >= MAX_PHOTOS_PER_REPORT) throw tooManyPhotos();
       await tx.insert(schema.photos).values({
         id,
@@ -152,13 +151,12 @@ export async function removePhoto(actor: Actor | null, photoId: string) {
     throw new AppError("conflict", "Photos can be removed while the report is a draft or returned.");
   await db.transaction(async (tx) => {
     // Checked again under the report's lock: a removal racing a submit must not change a submitted report.
-    const [locked] = await tx
-      .select({ status: schema.reports.status })
-      .from(schema.reports)
-      .where(eq(schema.reports.id, photo.reportId))
-      .for("update");
-    if (!locked || !["draft", "returned"].includes(locked.status))
-      throw new AppError("conflict", "Photos can be removed while the report is a draft or returned.");
+    await lockEditable(
+      tx,
+      photo.reportId,
+      ["draft", "returned"],
+      "Photos can be removed while the report is a draft or returned.",
+    );
     await tx.delete(schema.photos).where(eq(schema.photos.id, photoId));
   });
   await photoStorage().remove(photo.fullKey);

@@ -9,7 +9,15 @@ export {
   getReportFormCatalogue,
   type ReportView,
 } from "./queries";
-export { createReport, createDraft, updateReport, submitReport, deleteDraft, recordEvent } from "./mutations";
+export {
+  createReport,
+  createDraft,
+  updateReport,
+  submitReport,
+  deleteDraft,
+  recordEvent,
+  lockEditable,
+} from "./mutations";
 export {
   addCourseEntry,
   correctCourseEntry,
